@@ -1,0 +1,60 @@
+/**
+ * Turning a fitted model into per-cell output.
+ *
+ *   baseline_ij   = rowBaseline_i + colBaseline_j
+ *   prediction_ij = baseline_ij + u_i · v_j, then, if asked,
+ *     snapped:  min + round((x − min)/step)·step   (only when step > 0)
+ *     clipped:  min(max(x, scale.min), scale.max)
+ * The filled matrix keeps observed values and takes the prediction elsewhere.
+ */
+import type { RatingMatrix, RatingScale } from '../matrix/ratingMatrix';
+import type { FitResult } from './types';
+
+export function clipSnap(x: number, scale: RatingScale, clip: boolean, snap: boolean): number {
+  let y = x;
+  if (snap && scale.step > 0 && Number.isFinite(scale.min)) y = scale.min + Math.round((y - scale.min) / scale.step) * scale.step;
+  if (clip) {
+    if (y < scale.min) y = scale.min;
+    if (y > scale.max) y = scale.max;
+  }
+  return y;
+}
+
+export function makePredictions(
+  rows: number,
+  cols: number,
+  rowBaseline: Float64Array,
+  colBaseline: Float64Array,
+  u: Float64Array,
+  v: Float64Array,
+  k: number,
+  scale: RatingScale,
+  clip: boolean,
+  snap: boolean,
+): { predictions: Float64Array; baseline: Float64Array } {
+  const predictions = new Float64Array(rows * cols);
+  const baseline = new Float64Array(rows * cols);
+  for (let i = 0; i < rows; i++) {
+    const rb = rowBaseline[i];
+    const ui = i * k;
+    for (let j = 0; j < cols; j++) {
+      const b = rb + colBaseline[j];
+      const vj = j * k;
+      let dot = 0;
+      for (let c = 0; c < k; c++) dot += u[ui + c] * v[vj + c];
+      baseline[i * cols + j] = b;
+      predictions[i * cols + j] = clipSnap(b + dot, scale, clip, snap);
+    }
+  }
+  return { predictions, baseline };
+}
+
+/** Observed values where present, the model's prediction elsewhere. */
+export function filledValues(matrix: RatingMatrix, result: FitResult): Float64Array {
+  const out = new Float64Array(matrix.values.length);
+  for (let c = 0; c < out.length; c++) {
+    const y = matrix.values[c];
+    out[c] = y === y ? y : result.predictions[c];
+  }
+  return out;
+}

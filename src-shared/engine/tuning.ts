@@ -1,0 +1,127 @@
+/**
+ * Grid search with shared folds and the one-standard-error choice.
+ *
+ * Every setting in the grid is cross-validated on the same folds (makeFolds with one seed),
+ * so differences between rows of the table come from the settings, not from the split.
+ *   best  = the row with the smallest mean RMSE;
+ *   SE    = sdRmse(best) / √k                (standard error of best's mean over k folds);
+ *   oneSE = among low-rank rows with meanRmse ≤ meanRmse(best) + SE, the smallest rank
+ *           (ties: smaller mean RMSE). The simplest model statistically indistinguishable
+ *           from the best (Hastie, Tibshirani & Friedman, The Elements of Statistical
+ *           Learning, §7.10). Rows of other families have no rank and are not candidates
+ *           unless the grid holds no low-rank row (then oneSE = best).
+ * A setting whose fit fails is kept in the table with its error and NaN metrics.
+ */
+import type { RatingMatrix } from '../matrix/ratingMatrix';
+import type { Centering, FitSettings, LowRankSettings } from './types';
+import { crossValidate, makeFolds, type FoldScore } from './crossValidation';
+import { defaultLowRankSettings } from './defaults';
+import { FitCancelledError } from './errors';
+
+export interface LowRankGridSpec {
+  ranks: number[];
+  lambdas: number[];
+  centerings: Centering[];
+  /** Other settings shared by every grid point (defaults when absent). */
+  base?: Partial<LowRankSettings>;
+}
+
+export type TuneGrid = { settings: FitSettings[] } | LowRankGridSpec;
+
+export interface TuneRow {
+  settings: FitSettings;
+  meanRmse: number;
+  sdRmse: number;
+  meanMae: number;
+  sdMae: number;
+  folds: FoldScore[];
+  error?: string;
+}
+
+export interface TuneResult {
+  k: number;
+  seed: number;
+  table: TuneRow[];
+  /** Index into table and the row itself. */
+  bestIndex: number;
+  best: TuneRow;
+  /** meanRmse(best) + SE: the one-standard-error threshold. */
+  threshold: number;
+  oneStandardErrorIndex: number;
+  oneStandardError: TuneRow;
+}
+
+export interface TuneProgress {
+  done: number;
+  total: number;
+}
+
+/** ranks × lambdas × centerings as a flat list of low-rank settings (rank varies slowest). */
+export function expandLowRankGrid(spec: LowRankGridSpec): LowRankSettings[] {
+  const out: LowRankSettings[] = [];
+  const base = { ...defaultLowRankSettings(), ...(spec.base ?? {}) };
+  for (const rank of spec.ranks)
+    for (const lambda of spec.lambdas)
+      for (const centering of spec.centerings) out.push({ ...base, model: 'lowrank', rank, lambda, centering });
+  return out;
+}
+
+export function gridSettings(grid: TuneGrid): FitSettings[] {
+  return 'settings' in grid ? grid.settings : expandLowRankGrid(grid);
+}
+
+/** Pick best and one-standard-error rows from a finished table. */
+export function chooseFromTable(table: TuneRow[], k: number): Omit<TuneResult, 'k' | 'seed' | 'table'> {
+  let bestIndex = -1;
+  for (let t = 0; t < table.length; t++) {
+    const m = table[t].meanRmse;
+    if (Number.isFinite(m) && (bestIndex < 0 || m < table[bestIndex].meanRmse)) bestIndex = t;
+  }
+  if (bestIndex < 0) throw new Error('every setting in the grid failed to fit');
+  const best = table[bestIndex];
+  const se = (Number.isFinite(best.sdRmse) ? best.sdRmse : 0) / Math.sqrt(k);
+  const threshold = best.meanRmse + se;
+  let pick = -1;
+  for (let t = 0; t < table.length; t++) {
+    const row = table[t];
+    if (row.settings.model !== 'lowrank' || !(row.meanRmse <= threshold)) continue;
+    if (pick < 0) {
+      pick = t;
+      continue;
+    }
+    const cur = table[pick].settings as LowRankSettings;
+    if (row.settings.rank < cur.rank || (row.settings.rank === cur.rank && row.meanRmse < table[pick].meanRmse)) pick = t;
+  }
+  if (pick < 0) pick = bestIndex;
+  return { bestIndex, best, threshold, oneStandardErrorIndex: pick, oneStandardError: table[pick] };
+}
+
+export function tune(
+  matrix: RatingMatrix,
+  grid: TuneGrid,
+  k: number,
+  seed: number,
+  onProgress?: (p: TuneProgress) => void,
+  shouldStop?: () => boolean,
+): TuneResult {
+  const list = gridSettings(grid);
+  if (list.length === 0) throw new Error('the tuning grid is empty');
+  const folds = makeFolds(matrix, k, seed);
+  const table: TuneRow[] = [];
+  const total = list.length * k;
+  for (let s = 0; s < list.length; s++) {
+    const settings = list[s];
+    try {
+      const cv = crossValidate(matrix, settings, folds, {
+        shouldStop,
+        onProgress: onProgress ? (p) => { if (p.fit === undefined) onProgress({ done: s * k + p.done, total }); } : undefined,
+      });
+      table.push({ settings, ...cv });
+    } catch (err) {
+      if (err instanceof FitCancelledError) throw err;
+      table.push({ settings, meanRmse: NaN, sdRmse: NaN, meanMae: NaN, sdMae: NaN, folds: [], error: (err as Error).message });
+      onProgress?.({ done: (s + 1) * k, total });
+    }
+  }
+  return { k, seed, table, ...chooseFromTable(table, k) };
+}
