@@ -1,0 +1,7 @@
+export * from './problem';
+export * from './parseCellValue';
+export * from './detectScale';
+export * from './detectDelimiter';
+export * from './tokenizeDelimited';
+export * from './parseDelimited';
+export * from './writeDelimited';

@@ -1,0 +1,564 @@
+/**
+ * Import of delimited text (CSV, TSV, semicolon-separated) into a RatingMatrix.
+ *
+ * Layouts:
+ * - wide: the header row holds column labels (its first field, the corner, is ignored);
+ *   each following record is a row label then one value per column.
+ * - long: records `row, column, value` (an optional header is recognised when its third
+ *   field is not a number); fields after the third are ignored with a warning. Pairs are
+ *   pivoted into a matrix with rows and columns in order of first appearance. A (row, column)
+ *   pair given more than once is a duplicate, resolved by `duplicates`:
+ *   'refuse' (default: each duplicate is a problem), 'last' (keep the last value) or
+ *   'average' (mean of the values); the latter two report each duplicate as a warning.
+ *   A pair whose value is missing only registers its labels.
+ * - auto: long when the first record has 3 or 4 fields and its third field is named
+ *   value / rating / score (singular or plural, any case), or when it has exactly 3 fields,
+ *   the third is a number (no header) and the first column repeats a label within the first
+ *   50 records; wide otherwise.
+ *
+ * Limits (refused politely, never thrown): input above `maxBytes` (default 50 MB of UTF-8),
+ * a matrix above MAX_CELLS (20 million cells), values with |x| > 1e15, non-finite words.
+ * Unquoted fields are trimmed; quoted fields are kept verbatim. A leading UTF-8 BOM is skipped.
+ * NUL characters or U+FFFD (what a decoder puts in place of invalid UTF-8) mean binary or
+ * mis-encoded content and stop the import.
+ *
+ * All problems are collected (up to 200 plus an "and N more" entry); the result is either
+ * a complete matrix with warnings, or no matrix and the list of problems.
+ */
+import type { RatingMatrix, RatingScale } from '../matrix/ratingMatrix';
+import { detectDelimiter, delimiterName, DELIMITERS, type Delimiter } from './detectDelimiter';
+import { detectScale } from './detectScale';
+import { DEFAULT_MISSING_TOKENS, missingMatcher, parseCellValue } from './parseCellValue';
+import { ProblemCollector, type Problem } from './problem';
+import { isBlankRecord, tokenizeDelimited, type RawRecord } from './tokenizeDelimited';
+
+export type Layout = 'wide' | 'long';
+export type DuplicatePolicy = 'last' | 'average' | 'refuse';
+
+export interface ParseOptions {
+  fileName: string;
+  layout?: Layout | 'auto';
+  delimiter?: Delimiter | 'auto';
+  decimalComma?: boolean | 'auto';
+  /** Tokens read as missing (case-insensitive); the empty field is always missing. */
+  missingTokens?: string[];
+  duplicates?: DuplicatePolicy;
+  /** Size limit in bytes of UTF-8; default DEFAULT_MAX_BYTES. */
+  maxBytes?: number;
+}
+
+export interface ParseInfo {
+  delimiter: Delimiter;
+  layout: Layout;
+  decimalComma: boolean;
+  hadBom: boolean;
+  rows: number;
+  cols: number;
+  observed: number;
+  /** Observed min/max and a step guess. */
+  detectedScale: RatingScale;
+  /** Long layout: number of (row, column) pairs given more than once. */
+  duplicatePairs: number;
+  /** Number of physical lines read. */
+  lines: number;
+}
+
+export type ParseResult =
+  | { ok: true; matrix: RatingMatrix; warnings: Problem[]; info: ParseInfo }
+  | { ok: false; problems: Problem[] };
+
+/** Documented import size limit: 50 MB. */
+export const DEFAULT_MAX_BYTES = 50 * 1024 * 1024;
+/** Largest matrix an import may create (rows × columns). */
+export const MAX_CELLS = 20_000_000;
+
+const VALUE_HEADER = /^(value|values|rating|ratings|score|scores)$/i;
+const NUMBER_LIKE = /^[+-]?(?:\d+[.,]?\d*|[.,]\d+)(?:[eE][+-]?\d+)?$/;
+
+/** UTF-8 byte length of a string (counting a lone surrogate as 3 bytes, as an encoder writes U+FFFD). */
+export function utf8ByteLength(s: string): number {
+  let n = 0;
+  for (let i = 0; i < s.length; i++) {
+    const c = s.charCodeAt(i);
+    if (c < 0x80) n += 1;
+    else if (c < 0x800) n += 2;
+    else if (c >= 0xd800 && c <= 0xdbff && i + 1 < s.length) {
+      const c2 = s.charCodeAt(i + 1);
+      if (c2 >= 0xdc00 && c2 <= 0xdfff) {
+        n += 4;
+        i++;
+      } else n += 3;
+    } else n += 3;
+  }
+  return n;
+}
+
+function formatBytes(n: number): string {
+  if (n >= 1024 * 1024) return `${(n / (1024 * 1024)).toFixed(1).replace(/\.0$/, '')} MB`;
+  if (n >= 1024) return `${(n / 1024).toFixed(1).replace(/\.0$/, '')} KB`;
+  return `${n} bytes`;
+}
+
+function show(s: string): string {
+  return JSON.stringify(s.length > 40 ? s.slice(0, 37) + '…' : s);
+}
+
+function fail(problems: ProblemCollector): ParseResult {
+  return { ok: false, problems: problems.list() };
+}
+
+/** Line/field of the first NUL or U+FFFD in a record, if any. */
+function findBinary(rec: RawRecord): { column: number; line: number; nul: boolean } | undefined {
+  for (let j = 0; j < rec.fields.length; j++) {
+    const f = rec.fields[j];
+    const nul = f.indexOf('\u0000');
+    if (nul >= 0) return { column: j + 1, line: rec.lines[j], nul: true };
+    if (f.indexOf('\uFFFD') >= 0) return { column: j + 1, line: rec.lines[j], nul: false };
+  }
+  return undefined;
+}
+
+/** A hint when a ragged record would split evenly on another delimiter. */
+function otherDelimiterHint(rec: RawRecord, d: Delimiter, expected: number): string {
+  if (rec.fields.length !== 1) return '';
+  const joined = rec.fields[0];
+  for (const o of DELIMITERS) {
+    if (o === d) continue;
+    if (joined.split(o).length === expected) return ` (this line seems to use ${delimiterName(o)} as the delimiter instead of ${delimiterName(d)})`;
+  }
+  return '';
+}
+
+export function parseDelimited(input: string, opts: ParseOptions): ParseResult {
+  const file = opts.fileName;
+  const problems = new ProblemCollector(file);
+  const warnings = new ProblemCollector(file, 200, 'warning');
+  try {
+    return parseInner(input, opts, problems, warnings);
+  } catch (err) {
+    // Defensive: the parser is written not to throw; if it ever does, still answer with a problem.
+    problems.add(1, 1, `could not read this file (${err instanceof Error ? err.message : String(err)})`);
+    return fail(problems);
+  }
+}
+
+function parseInner(
+  input: string,
+  opts: ParseOptions,
+  problems: ProblemCollector,
+  warnings: ProblemCollector,
+): ParseResult {
+  const maxBytes = opts.maxBytes ?? DEFAULT_MAX_BYTES;
+  if (typeof input !== 'string') {
+    problems.add(1, 1, 'no text to read');
+    return fail(problems);
+  }
+  // Size: each UTF-16 unit is at least one UTF-8 byte, so only count exactly near the limit.
+  if (input.length > maxBytes || (input.length * 3 > maxBytes && utf8ByteLength(input) > maxBytes)) {
+    const size = input.length > maxBytes * 4 ? `over ${formatBytes(maxBytes)}` : formatBytes(utf8ByteLength(input));
+    problems.add(1, 1, `file is too large to import (${size}; the limit is ${formatBytes(maxBytes)})`);
+    return fail(problems);
+  }
+  const hadBom = input.charCodeAt(0) === 0xfeff;
+  const start = hadBom ? 1 : 0;
+  if (input.slice(start).trim().length === 0) {
+    problems.add(1, 1, 'file is empty: expected a header row and data rows');
+    return fail(problems);
+  }
+
+  // Delimiter.
+  let delimiter: Delimiter;
+  if (opts.delimiter === undefined || opts.delimiter === 'auto') delimiter = detectDelimiter(input, start);
+  else if (DELIMITERS.includes(opts.delimiter)) delimiter = opts.delimiter;
+  else {
+    problems.add(1, 1, `unsupported delimiter ${show(String(opts.delimiter))}; use comma, tab or semicolon`);
+    return fail(problems);
+  }
+
+  // Tokenize everything once; keep non-blank records.
+  const records: RawRecord[] = [];
+  let lastLine = 1;
+  let binary: { column: number; line: number; nul: boolean } | undefined;
+  let structural = false;
+  tokenizeDelimited(
+    input,
+    delimiter,
+    {
+      onRecord(rec) {
+        lastLine = rec.lines[rec.lines.length - 1];
+        const b = findBinary(rec);
+        if (b) {
+          binary = b;
+          return false;
+        }
+        if (!isBlankRecord(rec)) records.push(rec);
+        return true;
+      },
+      onProblem(kind, line, column) {
+        structural = true;
+        if (kind === 'unclosed-quote') {
+          problems.add(line, column, 'unbalanced quote: the quote that opens this field is never closed');
+        } else {
+          problems.add(line, column, 'unexpected text after a closing quote (a quote inside a quoted field must be doubled: "")');
+        }
+      },
+    },
+    start,
+  );
+  if (binary) {
+    const b = binary as { column: number; line: number; nul: boolean };
+    problems.add(
+      b.line,
+      b.column,
+      b.nul
+        ? 'contains a NUL byte: this looks like a binary file, not delimited text'
+        : 'contains bytes that are not valid UTF-8 text (save the file as UTF-8)',
+    );
+    return fail(problems);
+  }
+  if (structural) {
+    // Field boundaries cannot be trusted after a broken quote; report only that.
+    return fail(problems);
+  }
+  if (records.length === 0) {
+    problems.add(1, 1, 'file is empty: expected a header row and data rows');
+    return fail(problems);
+  }
+
+  // Decimal comma.
+  let decimalComma: boolean;
+  if (opts.decimalComma === true) {
+    if (delimiter === ',') {
+      problems.add(1, 1, 'decimal comma cannot be used when the delimiter is a comma; choose tab or semicolon');
+      return fail(problems);
+    }
+    decimalComma = true;
+  } else if (opts.decimalComma === false) decimalComma = false;
+  else decimalComma = delimiter !== ',' && guessDecimalComma(records);
+
+  const isMissing = missingMatcher(opts.missingTokens ?? DEFAULT_MISSING_TOKENS);
+
+  // Layout.
+  let layout: Layout;
+  if (opts.layout === 'wide' || opts.layout === 'long') layout = opts.layout;
+  else layout = guessLayout(records);
+
+  const built =
+    layout === 'wide'
+      ? buildWide(records, decimalComma, isMissing, problems, warnings, delimiter)
+      : buildLong(records, decimalComma, isMissing, opts.duplicates ?? 'refuse', problems, warnings, delimiter);
+  if (!built || problems.count > 0) return fail(problems);
+
+  const { matrix, duplicatePairs } = built;
+  const scale = detectScale(matrix.values);
+  if (!scale) {
+    problems.add(1, 1, 'no observed values: every cell is missing');
+    return fail(problems);
+  }
+  matrix.scale = { ...scale };
+  let observed = 0;
+  for (let i = 0; i < matrix.values.length; i++) if (matrix.values[i] === matrix.values[i]) observed++;
+  return {
+    ok: true,
+    matrix,
+    warnings: warnings.list(),
+    info: {
+      delimiter,
+      layout,
+      decimalComma,
+      hadBom,
+      rows: matrix.rowLabels.length,
+      cols: matrix.colLabels.length,
+      observed,
+      detectedScale: scale,
+      duplicatePairs,
+      lines: lastLine,
+    },
+  };
+}
+
+const COMMA_DECIMAL = /^[+-]?\d*,\d+$/;
+
+function guessDecimalComma(records: RawRecord[]): boolean {
+  const limit = Math.min(records.length, 1000);
+  for (let r = 1; r < limit; r++) {
+    const f = records[r].fields;
+    for (let j = 1; j < f.length; j++) if (COMMA_DECIMAL.test(f[j])) return true;
+  }
+  return false;
+}
+
+function guessLayout(records: RawRecord[]): Layout {
+  const head = records[0].fields;
+  const width = head.length;
+  if ((width === 3 || width === 4) && VALUE_HEADER.test(head[2].trim())) return 'long';
+  if (width !== 3 || !NUMBER_LIKE.test(head[2].trim())) return 'wide';
+  // No header and three fields: long when the first column repeats a label.
+  const seen = new Set<string>();
+  const limit = Math.min(records.length, 50);
+  for (let r = 0; r < limit; r++) {
+    const label = records[r].fields[0];
+    if (seen.has(label)) return 'long';
+    seen.add(label);
+  }
+  return 'wide';
+}
+
+interface Built {
+  matrix: RatingMatrix;
+  duplicatePairs: number;
+}
+
+const EMPTY_SCALE: RatingScale = { min: 0, max: 0, step: 0 };
+
+function checkCells(rows: number, cols: number, problems: ProblemCollector): boolean {
+  if (rows * cols > MAX_CELLS) {
+    problems.add(
+      1,
+      1,
+      `the matrix would have ${rows} × ${cols} = ${rows * cols} cells; the limit is ${MAX_CELLS} cells`,
+    );
+    return false;
+  }
+  return true;
+}
+
+function buildWide(
+  records: RawRecord[],
+  decimalComma: boolean,
+  isMissing: (s: string) => boolean,
+  problems: ProblemCollector,
+  warnings: ProblemCollector,
+  delimiter: Delimiter,
+): Built | undefined {
+  const header = records[0];
+  const width = header.fields.length;
+  if (width < 2) {
+    problems.add(
+      header.line,
+      1,
+      `the header row has only one field (delimiter ${delimiterName(delimiter)}): expected a row-label column and at least one value column`,
+    );
+    return undefined;
+  }
+  if (records.length === 1) {
+    problems.add(header.line, 1, 'the file has a header row but no data rows');
+    return undefined;
+  }
+  const nCols = width - 1;
+  const colLabels = header.fields.slice(1);
+  const colSeen = new Map<string, number>();
+  const emptyLabelCols: number[] = [];
+  for (let j = 0; j < nCols; j++) {
+    const label = colLabels[j];
+    if (label === '') {
+      emptyLabelCols.push(j);
+      continue;
+    }
+    const first = colSeen.get(label);
+    if (first !== undefined) {
+      problems.add(header.lines[j + 1], j + 2, `duplicate column label ${show(label)} (also in field ${first + 2})`);
+    } else colSeen.set(label, j);
+  }
+
+  const nRows = records.length - 1;
+  if (!checkCells(nRows, nCols, problems)) return undefined;
+  const values = new Float64Array(nRows * nCols).fill(NaN);
+  const colHasValue = new Uint8Array(nCols);
+  const rowLabels: string[] = new Array(nRows);
+  const rowSeen = new Map<string, number>();
+  let trailingIgnored = 0;
+  for (let r = 0; r < nRows; r++) {
+    const rec = records[r + 1];
+    const f = rec.fields;
+    const label = f[0];
+    rowLabels[r] = label;
+    if (label === '') {
+      problems.add(rec.line, 1, 'empty row label');
+    } else {
+      const first = rowSeen.get(label);
+      if (first !== undefined) problems.add(rec.line, 1, `duplicate row label ${show(label)} (first on line ${first})`);
+      else rowSeen.set(label, rec.line);
+    }
+    if (f.length < width) {
+      problems.add(
+        rec.lines[f.length - 1],
+        f.length + 1,
+        `too few fields: found ${f.length}, the header has ${width}${otherDelimiterHint(rec, delimiter, width)}`,
+      );
+    } else if (f.length > width) {
+      let extraEmpty = true;
+      for (let j = width; j < f.length; j++) if (f[j] !== '' || rec.quoted[j]) extraEmpty = false;
+      if (extraEmpty) trailingIgnored++;
+      else problems.add(rec.lines[width], width + 1, `too many fields: found ${f.length}, the header has ${width}`);
+    }
+    const m = Math.min(f.length, width);
+    for (let j = 1; j < m; j++) {
+      const v = parseCellValue(f[j], decimalComma, isMissing);
+      if (v.kind === 'number') {
+        values[r * nCols + j - 1] = v.value;
+        colHasValue[j - 1] = 1;
+      } else if (v.kind === 'error') problems.add(rec.lines[j], j + 1, v.message);
+    }
+  }
+  if (trailingIgnored > 0) {
+    warnings.add(records[1].line, width + 1, `ignored empty fields after the last column on ${trailingIgnored} line(s)`);
+  }
+  // Unlabelled columns: dropped with a warning when they hold no values, a problem otherwise.
+  const drop = new Set<number>();
+  for (const j of emptyLabelCols) {
+    if (colHasValue[j]) problems.add(header.lines[j + 1], j + 2, 'empty column label for a column that holds values');
+    else {
+      drop.add(j);
+      warnings.add(header.lines[j + 1], j + 2, 'ignored a column with an empty label and no values');
+    }
+  }
+  if (problems.count > 0) return undefined;
+  if (drop.size === 0) {
+    return { matrix: { rowLabels, colLabels, values, scale: { ...EMPTY_SCALE } }, duplicatePairs: 0 };
+  }
+  const keep: number[] = [];
+  for (let j = 0; j < nCols; j++) if (!drop.has(j)) keep.push(j);
+  if (keep.length === 0) {
+    problems.add(header.line, 2, 'no labelled value columns');
+    return undefined;
+  }
+  const packed = new Float64Array(nRows * keep.length);
+  for (let r = 0; r < nRows; r++) for (let k = 0; k < keep.length; k++) packed[r * keep.length + k] = values[r * nCols + keep[k]];
+  return {
+    matrix: { rowLabels, colLabels: keep.map((j) => colLabels[j]), values: packed, scale: { ...EMPTY_SCALE } },
+    duplicatePairs: 0,
+  };
+}
+
+function buildLong(
+  records: RawRecord[],
+  decimalComma: boolean,
+  isMissing: (s: string) => boolean,
+  policy: DuplicatePolicy,
+  problems: ProblemCollector,
+  warnings: ProblemCollector,
+  delimiter: Delimiter,
+): Built | undefined {
+  const first = records[0];
+  if (first.fields.length < 3) {
+    problems.add(
+      first.line,
+      first.fields.length + 1,
+      `long layout needs 3 fields (row, column, value); found ${first.fields.length}${otherDelimiterHint(first, delimiter, 3)}`,
+    );
+    return undefined;
+  }
+  const third = parseCellValue(first.fields[2], decimalComma, isMissing);
+  const hasHeader = third.kind === 'error';
+  const width = first.fields.length;
+  const startRec = hasHeader ? 1 : 0;
+  if (hasHeader && records.length === 1) {
+    problems.add(first.line, 1, 'the file has a header row but no data rows');
+    return undefined;
+  }
+  if (width > 3) {
+    warnings.add(first.line, 4, `long layout uses the first 3 fields (row, column, value); ignored ${width - 3} more field(s) per line`);
+  }
+  const rowIndex = new Map<string, number>();
+  const colIndex = new Map<string, number>();
+  const rowLabels: string[] = [];
+  const colLabels: string[] = [];
+  const n = records.length - startRec;
+  const entryRow = new Int32Array(n);
+  const entryCol = new Int32Array(n);
+  const entryVal = new Float64Array(n).fill(NaN);
+  for (let k = 0; k < n; k++) {
+    const rec = records[k + startRec];
+    const f = rec.fields;
+    entryRow[k] = -1;
+    if (f.length < 3) {
+      problems.add(
+        rec.lines[f.length - 1],
+        f.length + 1,
+        `too few fields: found ${f.length}, long layout needs 3 (row, column, value)${otherDelimiterHint(rec, delimiter, 3)}`,
+      );
+      continue;
+    }
+    if (f.length > width) {
+      problems.add(rec.lines[width], width + 1, `too many fields: found ${f.length}, expected ${width}`);
+      continue;
+    }
+    let bad = false;
+    if (f[0] === '') {
+      problems.add(rec.lines[0], 1, 'empty row label');
+      bad = true;
+    }
+    if (f[1] === '') {
+      problems.add(rec.lines[1], 2, 'empty column label');
+      bad = true;
+    }
+    const v = parseCellValue(f[2], decimalComma, isMissing);
+    if (v.kind === 'error') {
+      problems.add(rec.lines[2], 3, v.message);
+      bad = true;
+    }
+    if (bad) continue;
+    let ri = rowIndex.get(f[0]);
+    if (ri === undefined) {
+      ri = rowLabels.length;
+      rowIndex.set(f[0], ri);
+      rowLabels.push(f[0]);
+    }
+    let ci = colIndex.get(f[1]);
+    if (ci === undefined) {
+      ci = colLabels.length;
+      colIndex.set(f[1], ci);
+      colLabels.push(f[1]);
+    }
+    entryRow[k] = ri;
+    entryCol[k] = ci;
+    if (v.kind === 'number') entryVal[k] = v.value;
+  }
+  if (problems.count > 0) return undefined;
+  const nRows = rowLabels.length;
+  const nCols = colLabels.length;
+  if (nRows === 0) {
+    problems.add(first.line, 1, 'no data rows');
+    return undefined;
+  }
+  if (!checkCells(nRows, nCols, problems)) return undefined;
+  const values = new Float64Array(nRows * nCols).fill(NaN);
+  // Record index (k + 1; 0 = none) of the first value given for each cell.
+  const firstEntry = new Int32Array(nRows * nCols);
+  let counts: Map<number, number> | undefined;
+  let duplicatePairs = 0;
+  for (let k = 0; k < n; k++) {
+    const x = entryVal[k];
+    if (entryRow[k] < 0 || x !== x) continue;
+    const cell = entryRow[k] * nCols + entryCol[k];
+    const prev = firstEntry[cell];
+    if (prev === 0) {
+      firstEntry[cell] = k + 1;
+      values[cell] = x;
+      continue;
+    }
+    const rec = records[k + startRec];
+    const firstLine = records[prev - 1 + startRec].line;
+    const pair = `(row ${show(rowLabels[entryRow[k]])}, column ${show(colLabels[entryCol[k]])})`;
+    counts ??= new Map();
+    const c = counts.get(cell);
+    if (c === undefined) duplicatePairs++;
+    if (policy === 'refuse') {
+      problems.add(rec.line, 1, `duplicate pair ${pair}: first given on line ${firstLine}; choose keep last or average to merge`);
+      counts.set(cell, (c ?? 1) + 1);
+    } else if (policy === 'last') {
+      values[cell] = x;
+      counts.set(cell, (c ?? 1) + 1);
+      warnings.add(rec.line, 1, `duplicate pair ${pair}: first given on line ${firstLine}; kept the last value`);
+    } else {
+      // Running mean: values[cell] holds the mean of the c values seen so far.
+      const cnt = (c ?? 1) + 1;
+      values[cell] += (x - values[cell]) / cnt;
+      counts.set(cell, cnt);
+      warnings.add(rec.line, 1, `duplicate pair ${pair}: first given on line ${firstLine}; averaged`);
+    }
+  }
+  if (problems.count > 0) return undefined;
+  return { matrix: { rowLabels, colLabels, values, scale: { ...EMPTY_SCALE } }, duplicatePairs };
+}

@@ -1,0 +1,129 @@
+/**
+ * Writers for delimited text (RFC 4180): fields holding the delimiter, a quote,
+ * a line break, or leading/trailing spaces/tabs are quoted, with quotes doubled.
+ * Records end with CRLF. A missing value (NaN or undefined) is written as an empty field.
+ * Numbers use the shortest round-trip form (`String(x)`) unless `decimals` is given.
+ */
+import type { RatingMatrix } from '../matrix/ratingMatrix';
+import type { Delimiter } from './detectDelimiter';
+
+export interface WriteOptions {
+  delimiter?: Delimiter;
+  /** Fixed number of decimals; default: shortest form that reads back exactly. */
+  decimals?: number;
+  /** Write `,` as the decimal mark (only with tab or semicolon delimiters). */
+  decimalComma?: boolean;
+  /** Value source for cell (i, j); default the matrix's own values. */
+  layer?: (i: number, j: number) => number | undefined;
+  /** Line ending; default CRLF. */
+  lineEnding?: '\r\n' | '\n';
+}
+
+export interface WideWriteOptions extends WriteOptions {
+  /** Text of the top-left header field; default "row". */
+  cornerLabel?: string;
+}
+
+export interface LongWriteOptions extends WriteOptions {
+  /** Also write cells whose value is missing (as an empty value), so empty rows/columns survive. */
+  includeMissing?: boolean;
+  /** Header names; default ["row", "column", "value"]. */
+  header?: [string, string, string];
+}
+
+export function quoteField(s: string, delimiter: string): string {
+  if (s === '') return s;
+  const needs =
+    s.includes(delimiter) ||
+    s.includes('"') ||
+    s.includes('\n') ||
+    s.includes('\r') ||
+    /^[ \t]|[ \t]$/.test(s);
+  return needs ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+export function formatNumber(x: number | undefined, opts: WriteOptions = {}): string {
+  if (x === undefined || x !== x) return '';
+  let s = opts.decimals !== undefined ? x.toFixed(opts.decimals) : String(x);
+  if (s === '-0') s = '0';
+  if (opts.decimalComma && (opts.delimiter ?? ',') !== ',') s = s.replace('.', ',');
+  return s;
+}
+
+function valueAt(m: RatingMatrix, opts: WriteOptions, i: number, j: number): number | undefined {
+  return opts.layer ? opts.layer(i, j) : m.values[i * m.colLabels.length + j];
+}
+
+export function writeWideCsv(matrix: RatingMatrix, opts: WideWriteOptions = {}): string {
+  const d = opts.delimiter ?? ',';
+  const eol = opts.lineEnding ?? '\r\n';
+  const out: string[] = [];
+  const head = [quoteField(opts.cornerLabel ?? 'row', d)];
+  for (const c of matrix.colLabels) head.push(quoteField(c, d));
+  out.push(head.join(d));
+  const nCols = matrix.colLabels.length;
+  for (let i = 0; i < matrix.rowLabels.length; i++) {
+    const parts = [quoteField(matrix.rowLabels[i], d)];
+    for (let j = 0; j < nCols; j++) parts.push(formatNumber(valueAt(matrix, opts, i, j), opts));
+    out.push(parts.join(d));
+  }
+  return out.join(eol) + eol;
+}
+
+export function writeLongCsv(matrix: RatingMatrix, opts: LongWriteOptions = {}): string {
+  const d = opts.delimiter ?? ',';
+  const eol = opts.lineEnding ?? '\r\n';
+  const header = opts.header ?? ['row', 'column', 'value'];
+  const out: string[] = [header.map((h) => quoteField(h, d)).join(d)];
+  const nCols = matrix.colLabels.length;
+  for (let i = 0; i < matrix.rowLabels.length; i++) {
+    const r = quoteField(matrix.rowLabels[i], d);
+    for (let j = 0; j < nCols; j++) {
+      const v = formatNumber(valueAt(matrix, opts, i, j), opts);
+      if (v === '' && !opts.includeMissing) continue;
+      out.push(r + d + quoteField(matrix.colLabels[j], d) + d + v);
+    }
+  }
+  return out.join(eol) + eol;
+}
+
+/** Layers of a completed matrix (a FitResult fits this shape). Row-major, length rows × cols. */
+export interface FilledLayers {
+  predictions: ArrayLike<number>;
+  baseline?: ArrayLike<number>;
+  /** Per-cell spread; NaN where unknown. */
+  spread?: ArrayLike<number>;
+}
+
+/**
+ * Long export of a completed matrix: one record per cell with
+ * `row, column, value, source, baseline, spread` where value is the observed
+ * rating (source "observed") or the model's prediction (source "filled");
+ * baseline and spread are empty when not available.
+ */
+export function writeFilledLongCsv(matrix: RatingMatrix, layers: FilledLayers, opts: WriteOptions = {}): string {
+  const d = opts.delimiter ?? ',';
+  const eol = opts.lineEnding ?? '\r\n';
+  const out: string[] = [['row', 'column', 'value', 'source', 'baseline', 'spread'].join(d)];
+  const nCols = matrix.colLabels.length;
+  for (let i = 0; i < matrix.rowLabels.length; i++) {
+    const r = quoteField(matrix.rowLabels[i], d);
+    for (let j = 0; j < nCols; j++) {
+      const k = i * nCols + j;
+      const obs = matrix.values[k];
+      const observed = obs === obs;
+      const v = observed ? obs : layers.predictions[k];
+      out.push(
+        [
+          r,
+          quoteField(matrix.colLabels[j], d),
+          formatNumber(v, opts),
+          observed ? 'observed' : 'filled',
+          formatNumber(layers.baseline ? layers.baseline[k] : undefined, opts),
+          formatNumber(layers.spread ? layers.spread[k] : undefined, opts),
+        ].join(d),
+      );
+    }
+  }
+  return out.join(eol) + eol;
+}
