@@ -1,0 +1,75 @@
+/**
+ * The application menu, in our own words. Items that act on the document are
+ * forwarded to the page as `menu.command` events; the page owns the document.
+ */
+import type { MenuItemConstructorOptions } from 'electron';
+
+export type MenuCommand =
+  | 'file.openSample'
+  | 'file.import'
+  | 'file.save'
+  | 'file.saveAs'
+  | 'file.export'
+  | 'edit.undo'
+  | 'edit.redo'
+  | 'view.toggleOverlay'
+  | 'model.fill'
+  | 'model.compareCentering'
+  | 'model.tune'
+  | 'help.guide';
+
+export function appMenuTemplate(send: (command: MenuCommand) => void, isMac: boolean): MenuItemConstructorOptions[] {
+  const item = (label: string, command: MenuCommand, accelerator?: string): MenuItemConstructorOptions => ({
+    label,
+    accelerator,
+    click: () => send(command),
+  });
+  return [
+    {
+      label: '&File',
+      submenu: [
+        item('Open a Sample Set…', 'file.openSample'),
+        item('Bring In Ratings File…', 'file.import', 'CmdOrCtrl+O'),
+        { type: 'separator' },
+        item('Keep Project', 'file.save', 'CmdOrCtrl+S'),
+        item('Keep Project As…', 'file.saveAs', 'CmdOrCtrl+Shift+S'),
+        item('Write Out Filled Matrix…', 'file.export', 'CmdOrCtrl+E'),
+        { type: 'separator' },
+        isMac ? { role: 'close', label: 'Close Window' } : { role: 'quit', label: 'Leave Rankfill' },
+      ],
+    },
+    {
+      label: '&Edit',
+      submenu: [
+        item('Take Back', 'edit.undo', 'CmdOrCtrl+Z'),
+        item('Bring Back', 'edit.redo', 'CmdOrCtrl+Shift+Z'),
+        { type: 'separator' },
+        { role: 'cut', label: 'Cut Cells' },
+        { role: 'copy', label: 'Copy Cells' },
+        { role: 'paste', label: 'Paste Cells' },
+      ],
+    },
+    {
+      label: '&View',
+      submenu: [
+        item('Show or Hide Estimates', 'view.toggleOverlay', 'CmdOrCtrl+H'),
+        { type: 'separator' },
+        { role: 'resetZoom', label: 'Actual Size' },
+        { role: 'zoomIn', label: 'Larger Text' },
+        { role: 'zoomOut', label: 'Smaller Text' },
+      ],
+    },
+    {
+      label: '&Model',
+      submenu: [
+        item('Fill Blank Cells', 'model.fill', 'CmdOrCtrl+Enter'),
+        item('Weigh Centering Choices', 'model.compareCentering'),
+        item('Search Rank and Regularization…', 'model.tune'),
+      ],
+    },
+    {
+      label: '&Help',
+      submenu: [item('How Rankfill Fills Cells', 'help.guide', 'F1')],
+    },
+  ];
+}

@@ -1,0 +1,239 @@
+/**
+ * The one contract between the renderer and the main side.
+ *
+ * Every request, reply and event is described by a zod schema here; both hosts
+ * (Electron IPC and the loopback HTTP host) validate requests and replies with
+ * these schemas through the same router, and the renderer's bridge validates
+ * replies and events again on arrival. Numbers cross the boundary as JSON, so a
+ * missing cell travels as `null` (never NaN, never 0).
+ */
+import { z } from 'zod';
+
+/** Bumped when the contract changes incompatibly. */
+export const API_VERSION = 1;
+
+// ---------------------------------------------------------------------------
+// Building blocks
+// ---------------------------------------------------------------------------
+
+export const scaleSchema = z
+  .object({
+    min: z.number().finite(),
+    max: z.number().finite(),
+    step: z.number().finite().min(0),
+  })
+  .refine((s) => s.max > s.min, { message: 'scale maximum must be greater than its minimum' });
+
+const MAX_CELLS = 20_000_000;
+
+/** A rating matrix on the wire: row-major values, null = missing. */
+export const matrixPayloadSchema = z
+  .object({
+    rowLabels: z.array(z.string()),
+    colLabels: z.array(z.string()),
+    values: z.array(z.number().finite().nullable()),
+    scale: scaleSchema,
+  })
+  .refine((m) => m.rowLabels.length * m.colLabels.length <= MAX_CELLS, {
+    message: `matrix has more than ${MAX_CELLS} cells`,
+  })
+  .refine((m) => m.values.length === m.rowLabels.length * m.colLabels.length, {
+    message: 'values length must equal rows × columns',
+  });
+export type MatrixPayload = z.infer<typeof matrixPayloadSchema>;
+
+export const centeringSchema = z.enum(['none', 'row', 'column', 'both']);
+
+export const lowRankSettingsSchema = z.object({
+  model: z.literal('lowrank'),
+  rank: z.number().int().min(0).max(200),
+  lambda: z.number().finite().min(0),
+  centering: centeringSchema,
+  scaleLambdaByCount: z.boolean(),
+  maxIterations: z.number().int().min(1).max(100_000),
+  tolerance: z.number().finite().min(0),
+  seed: z.number().int(),
+  init: z.enum(['spectral', 'random']),
+  offsetLambda: z.number().finite().min(0),
+  clipToScale: z.boolean(),
+  snapToStep: z.boolean(),
+});
+
+export const gaussianSettingsSchema = z.object({
+  model: z.literal('gaussian'),
+  shrinkage: z.number().finite().min(0).lt(1),
+  transpose: z.boolean(),
+  maxIterations: z.number().int().min(1).max(100_000),
+  tolerance: z.number().finite().min(0),
+  seed: z.number().int(),
+  clipToScale: z.boolean(),
+  snapToStep: z.boolean(),
+});
+
+export const fitSettingsSchema = z.discriminatedUnion('model', [lowRankSettingsSchema, gaussianSettingsSchema]);
+
+/** Numbers that may be NaN on the main side travel as null. */
+const nullableNumbers = z.array(z.number().nullable());
+
+export const fitResultPayloadSchema = z.object({
+  settings: fitSettingsSchema,
+  rows: z.number().int().min(0),
+  cols: z.number().int().min(0),
+  predictions: nullableNumbers,
+  baseline: nullableNumbers,
+  rowBaseline: nullableNumbers,
+  colBaseline: nullableNumbers,
+  globalMean: z.number().nullable(),
+  rowFactors: nullableNumbers,
+  colFactors: nullableNumbers,
+  rank: z.number().int().min(0),
+  objectiveTrace: nullableNumbers,
+  iterations: z.number().int().min(0),
+  converged: z.boolean(),
+  elapsedMs: z.number(),
+  spread: nullableNumbers.optional(),
+});
+export type FitResultPayload = z.infer<typeof fitResultPayloadSchema>;
+
+export const sampleInfoSchema = z.object({
+  id: z.string(),
+  title: z.string(),
+  description: z.string(),
+  scale: scaleSchema,
+});
+export type SampleInfo = z.infer<typeof sampleInfoSchema>;
+
+export const problemSchema = z.object({
+  file: z.string(),
+  line: z.number().int(),
+  column: z.number().int(),
+  message: z.string(),
+});
+export type ProblemPayload = z.infer<typeof problemSchema>;
+
+export const documentPayloadSchema = z.object({
+  /** Where the document came from: a sample id, a file path, or an uploaded file name. */
+  source: z.object({ kind: z.enum(['sample', 'file', 'upload', 'new']), name: z.string() }),
+  title: z.string(),
+  matrix: matrixPayloadSchema,
+  warnings: z.array(problemSchema),
+});
+export type DocumentPayload = z.infer<typeof documentPayloadSchema>;
+
+// ---------------------------------------------------------------------------
+// Requests and replies, one entry per method
+// ---------------------------------------------------------------------------
+
+const empty = z.object({}).strict();
+const jobId = z.string().min(1).max(100);
+
+export const apiMethods = {
+  /** Who answers, and under which host. */
+  'app.info': {
+    request: empty,
+    reply: z.object({
+      name: z.string(),
+      version: z.string(),
+      apiVersion: z.number().int(),
+      host: z.enum(['electron', 'browser']),
+    }),
+  },
+  /** The invented demo matrices shipped in samples/. */
+  'samples.list': {
+    request: empty,
+    reply: z.object({ samples: z.array(sampleInfoSchema) }),
+  },
+  'samples.open': {
+    request: z.object({ id: z.string().min(1).max(200) }).strict(),
+    reply: documentPayloadSchema,
+  },
+  /** Import delimited text the user picked in the page (browser host) or dropped. */
+  'document.importText': {
+    request: z
+      .object({
+        fileName: z.string().min(1).max(1000),
+        text: z.string(),
+        layout: z.enum(['auto', 'wide', 'long']).optional(),
+        delimiter: z.enum(['auto', ',', '\t', ';']).optional(),
+      })
+      .strict(),
+    reply: z.union([
+      z.object({ ok: z.literal(true), document: documentPayloadSchema }),
+      z.object({ ok: z.literal(false), problems: z.array(problemSchema) }),
+    ]),
+  },
+  /** Start a fit in the worker; progress and the result arrive as events. */
+  'fit.start': {
+    request: z.object({ matrix: matrixPayloadSchema, settings: fitSettingsSchema }).strict(),
+    reply: z.object({ jobId }),
+  },
+  'fit.cancel': {
+    request: z.object({ jobId }).strict(),
+    reply: z.object({ cancelled: z.boolean() }),
+  },
+} as const;
+
+export type ApiMethod = keyof typeof apiMethods;
+export type ApiRequest<M extends ApiMethod> = z.infer<(typeof apiMethods)[M]['request']>;
+export type ApiReply<M extends ApiMethod> = z.infer<(typeof apiMethods)[M]['reply']>;
+
+export function isApiMethod(name: unknown): name is ApiMethod {
+  return typeof name === 'string' && Object.prototype.hasOwnProperty.call(apiMethods, name);
+}
+
+// ---------------------------------------------------------------------------
+// Events pushed from the main side
+// ---------------------------------------------------------------------------
+
+export const apiEvents = {
+  'fit.progress': z.object({
+    jobId,
+    iteration: z.number().int().min(0),
+    objective: z.number().nullable(),
+    elapsedMs: z.number(),
+  }),
+  'fit.result': z.object({ jobId, result: fitResultPayloadSchema }),
+  'fit.error': z.object({ jobId, message: z.string() }),
+  /** A menu command chosen in the Electron application menu. */
+  'menu.command': z.object({ command: z.string().min(1).max(100) }),
+} as const;
+
+export type ApiEventName = keyof typeof apiEvents;
+export type ApiEventPayload<E extends ApiEventName> = z.infer<(typeof apiEvents)[E]>;
+
+export const eventEnvelopeSchema = z.object({
+  event: z.enum(Object.keys(apiEvents) as [ApiEventName, ...ApiEventName[]]),
+  payload: z.unknown(),
+});
+export type EventEnvelope = { [E in ApiEventName]: { event: E; payload: ApiEventPayload<E> } }[ApiEventName];
+
+// ---------------------------------------------------------------------------
+// Reply envelope: every call answers with one of these, never throws across the boundary
+// ---------------------------------------------------------------------------
+
+export type ApiErrorCode = 'bad-method' | 'bad-request' | 'failed' | 'bad-reply' | 'unauthorized' | 'transport';
+
+export type ApiResult<T> = { ok: true; data: T } | { ok: false; error: { code: ApiErrorCode; message: string } };
+
+export const apiResultSchema = z.union([
+  z.object({ ok: z.literal(true), data: z.unknown() }),
+  z.object({
+    ok: z.literal(false),
+    error: z.object({
+      code: z.enum(['bad-method', 'bad-request', 'failed', 'bad-reply', 'unauthorized', 'transport']),
+      message: z.string(),
+    }),
+  }),
+]);
+
+/** Render a zod error as one readable line: "path: message; path: message". */
+export function describeIssues(error: z.ZodError, limit = 5): string {
+  const parts = error.issues.slice(0, limit).map((i) => {
+    const where = i.path.length ? i.path.join('.') : '(root)';
+    return `${where}: ${i.message}`;
+  });
+  if (error.issues.length > limit) parts.push(`and ${error.issues.length - limit} more`);
+  return parts.join('; ');
+}
+
+export { IPC_CALL_CHANNEL, IPC_EVENT_CHANNEL, TOKEN_HEADER } from './ipcChannels';

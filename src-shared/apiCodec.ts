@@ -1,0 +1,86 @@
+/**
+ * Conversions between in-memory objects (typed arrays, NaN = missing) and their
+ * JSON-safe wire form in api.ts (plain arrays, null = missing).
+ */
+import type { FitResultPayload, MatrixPayload } from './api';
+import type { FitResult, FitSettings } from './engine/types';
+import type { RatingMatrix } from './matrix/ratingMatrix';
+
+export function toNullable(a: ArrayLike<number>): (number | null)[] {
+  const out = new Array<number | null>(a.length);
+  for (let i = 0; i < a.length; i++) {
+    const x = a[i];
+    out[i] = Number.isFinite(x) ? x : null;
+  }
+  return out;
+}
+
+export function fromNullable(a: readonly (number | null)[]): Float64Array {
+  const out = new Float64Array(a.length);
+  for (let i = 0; i < a.length; i++) {
+    const x = a[i];
+    out[i] = x === null ? NaN : x;
+  }
+  return out;
+}
+
+export function matrixToPayload(m: RatingMatrix): MatrixPayload {
+  return {
+    rowLabels: m.rowLabels.slice(),
+    colLabels: m.colLabels.slice(),
+    values: toNullable(m.values),
+    scale: { ...m.scale },
+  };
+}
+
+export function matrixFromPayload(p: MatrixPayload): RatingMatrix {
+  return {
+    rowLabels: p.rowLabels.slice(),
+    colLabels: p.colLabels.slice(),
+    values: fromNullable(p.values),
+    scale: { ...p.scale },
+  };
+}
+
+export function fitResultToPayload(r: FitResult): FitResultPayload {
+  return {
+    settings: r.settings,
+    rows: r.rows,
+    cols: r.cols,
+    predictions: toNullable(r.predictions),
+    baseline: toNullable(r.baseline),
+    rowBaseline: toNullable(r.rowBaseline),
+    colBaseline: toNullable(r.colBaseline),
+    globalMean: Number.isFinite(r.globalMean) ? r.globalMean : null,
+    rowFactors: toNullable(r.rowFactors),
+    colFactors: toNullable(r.colFactors),
+    rank: r.rank,
+    objectiveTrace: toNullable(r.objectiveTrace),
+    iterations: r.iterations,
+    converged: r.converged,
+    elapsedMs: r.elapsedMs,
+    ...(r.spread ? { spread: toNullable(r.spread) } : {}),
+  };
+}
+
+export function fitResultFromPayload(p: FitResultPayload): FitResult {
+  const trace = p.objectiveTrace.map((x) => (x === null ? NaN : x));
+  return {
+    settings: p.settings as FitSettings,
+    rows: p.rows,
+    cols: p.cols,
+    predictions: fromNullable(p.predictions),
+    baseline: fromNullable(p.baseline),
+    rowBaseline: fromNullable(p.rowBaseline),
+    colBaseline: fromNullable(p.colBaseline),
+    globalMean: p.globalMean === null ? NaN : p.globalMean,
+    rowFactors: fromNullable(p.rowFactors),
+    colFactors: fromNullable(p.colFactors),
+    rank: p.rank,
+    objectiveTrace: trace,
+    iterations: p.iterations,
+    converged: p.converged,
+    elapsedMs: p.elapsedMs,
+    ...(p.spread ? { spread: fromNullable(p.spread) } : {}),
+  };
+}
