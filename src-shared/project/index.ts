@@ -1,0 +1,4 @@
+export * from './projectSchema';
+export * from './projectDocument';
+export * from './projectFile';
+export * from './locateJsonPath';

@@ -1,0 +1,98 @@
+/**
+ * The Rankfill project file, format version 1 (extension `.rankfill`, UTF-8 JSON).
+ *
+ * {
+ *   "format": "rankfill-project",      // tag: anything else is not our file
+ *   "version": 1,                      // integer; files from a newer version are refused
+ *   "createdAt": ISO-8601 time, "modifiedAt": ISO-8601 time,
+ *   "matrix": {
+ *     "rowLabels": [string...], "colLabels": [string...],   // unique, non-empty
+ *     "values": [[number|null per column] per row],          // null = missing
+ *     "scale": { "min": number, "max": number, "step": number }  // max > min, step ≥ 0 (0 = continuous)
+ *   },
+ *   "settings": model settings (same shape as the API's fit settings) or null,
+ *   "runs": [ { "id", "name", "savedAt", "settings", "metrics": {name: number|null},
+ *              "predictions"?: [[number|null per column] per row] } ],
+ *   "notes": string
+ * }
+ *
+ * Values are finite and |x| ≤ 1e15 (the same plausibility limit as the CSV import).
+ */
+import { z } from 'zod';
+import { fitSettingsSchema, scaleSchema } from '../api';
+
+export const PROJECT_FORMAT_TAG = 'rankfill-project';
+export const PROJECT_FORMAT_VERSION = 1;
+export const PROJECT_FILE_EXTENSION = '.rankfill';
+
+const cell = z.number().finite().min(-1e15).max(1e15).nullable();
+const isoTime = z.string().min(1).max(64);
+
+const labelList = (what: string) =>
+  z
+    .array(z.string().min(1, `${what} label must not be empty`))
+    .superRefine((labels, ctx) => {
+      const seen = new Map<string, number>();
+      labels.forEach((l, i) => {
+        const first = seen.get(l);
+        if (first !== undefined) {
+          ctx.addIssue({ code: 'custom', path: [i], message: `duplicate ${what} label ${JSON.stringify(l)} (also at index ${first})` });
+        } else seen.set(l, i);
+      });
+    });
+
+const gridOf = (rowsPath: string) =>
+  z.array(z.array(cell)).describe(rowsPath);
+
+export const projectMatrixSchema = z
+  .object({
+    rowLabels: labelList('row'),
+    colLabels: labelList('column'),
+    values: gridOf('values'),
+    scale: scaleSchema,
+  })
+  .superRefine((m, ctx) => {
+    if (m.values.length !== m.rowLabels.length) {
+      ctx.addIssue({ code: 'custom', path: ['values'], message: `has ${m.values.length} rows but there are ${m.rowLabels.length} row labels` });
+      return;
+    }
+    m.values.forEach((row, i) => {
+      if (row.length !== m.colLabels.length) {
+        ctx.addIssue({ code: 'custom', path: ['values', i], message: `row ${i + 1} has ${row.length} values but there are ${m.colLabels.length} columns` });
+      }
+    });
+  });
+
+export const savedRunSchema = z.object({
+  id: z.string().min(1).max(200),
+  name: z.string().max(500),
+  savedAt: isoTime,
+  settings: fitSettingsSchema,
+  metrics: z.record(z.string(), z.number().nullable()),
+  predictions: z.array(z.array(z.number().nullable())).optional(),
+});
+
+export const projectFileSchema = z
+  .object({
+    format: z.literal(PROJECT_FORMAT_TAG),
+    version: z.literal(PROJECT_FORMAT_VERSION),
+    createdAt: isoTime,
+    modifiedAt: isoTime,
+    matrix: projectMatrixSchema,
+    settings: fitSettingsSchema.nullable(),
+    runs: z.array(savedRunSchema),
+    notes: z.string(),
+  })
+  .superRefine((p, ctx) => {
+    p.runs.forEach((run, k) => {
+      if (!run.predictions) return;
+      if (
+        run.predictions.length !== p.matrix.rowLabels.length ||
+        run.predictions.some((r) => r.length !== p.matrix.colLabels.length)
+      ) {
+        ctx.addIssue({ code: 'custom', path: ['runs', k, 'predictions'], message: 'predictions do not match the matrix size' });
+      }
+    });
+  });
+
+export type ProjectFile = z.infer<typeof projectFileSchema>;
