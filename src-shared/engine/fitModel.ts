@@ -5,6 +5,7 @@
 import type { RatingMatrix } from '../matrix/ratingMatrix';
 import type { FitProgress, FitResult, FitSettings } from './types';
 import { fitLowRank } from './lowRank';
+import { fitGaussian } from './gaussian/fitGaussian';
 
 export interface FitModelOptions {
   onProgress?: (p: FitProgress) => void;
@@ -18,7 +19,7 @@ export function fitModel(matrix: RatingMatrix, settings: FitSettings, opts: FitM
     case 'lowrank':
       return fitLowRank(matrix, settings, opts);
     case 'gaussian':
-      throw new Error('gaussian model not available');
+      return fitGaussian(matrix, settings, opts);
     default: {
       const never: never = settings;
       throw new Error(`unknown model family: ${(never as { model: string }).model}`);

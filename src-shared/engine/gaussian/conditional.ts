@@ -22,6 +22,7 @@
  */
 
 import { choleskyInPlace } from '../cholesky';
+import { FitFailedError } from '../errors';
 import { choleskyInverse, choleskyLogDet, forwardSubstituteInPlace } from './triangular';
 
 const LOG_2PI = Math.log(2 * Math.PI);
@@ -55,7 +56,7 @@ export function prepareParams(p: number, mu: Float64Array, sigma: Float64Array):
   for (let attempt = 0; ; attempt++) {
     fac.set(used);
     if (choleskyInPlace(fac, p)) break;
-    if (attempt > 14) throw new Error('The covariance estimate could not be made positive definite.');
+    if (attempt > 14) throw new FitFailedError('The covariance estimate could not be made positive definite.');
     const next = meanVar * 10 ** (attempt - 12);
     for (let j = 0; j < p; j++) used[j * p + j] += next - ridge;
     ridge = next;
@@ -147,7 +148,7 @@ export class ConditionalWorkspace {
         const ra = missing[a] * p;
         for (let b = 0; b < m; b++) fac[a * m + b] = precision[ra + missing[b]];
       }
-      if (!choleskyInPlace(fac, m)) throw new Error('The precision block of a missingness pattern is not positive definite.');
+      if (!choleskyInPlace(fac, m)) throw new FitFailedError('The precision block of a missingness pattern is not positive definite.');
       this.logDetObserved = params.logDetSigma + choleskyLogDet(fac, m);
       choleskyInverse(fac, m, cc, this.col);
       // K_mo gathered row-major m × o
@@ -169,7 +170,7 @@ export class ConditionalWorkspace {
       const ra = observed[a] * p;
       for (let b = 0; b <= a; b++) fac[a * o + b] = sigma[ra + observed[b]];
     }
-    if (!choleskyInPlace(fac, o)) throw new Error('The observed block of a missingness pattern is not positive definite.');
+    if (!choleskyInPlace(fac, o)) throw new FitFailedError('The observed block of a missingness pattern is not positive definite.');
     return choleskyLogDet(fac, o);
   }
 

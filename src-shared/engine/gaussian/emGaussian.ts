@@ -22,6 +22,7 @@
  * share one factorization per iteration. Deterministic: no random numbers.
  */
 
+import { FitFailedError } from '../errors';
 import { ConditionalWorkspace, prepareParams, type GaussianParams } from './conditional';
 import { groupByPattern, type MissingnessPattern } from './patterns';
 
@@ -144,7 +145,7 @@ function eStep(
 
 export function emGaussian(data: Float64Array, n: number, p: number, opts: EmGaussianOptions): EmGaussianResult {
   const shrinkage = opts.shrinkage;
-  if (!(shrinkage >= 0 && shrinkage < 1)) throw new Error(`Shrinkage must be at least 0 and below 1 (got ${shrinkage}).`);
+  if (!(shrinkage >= 0 && shrinkage < 1)) throw new FitFailedError(`Shrinkage must be at least 0 and below 1 (got ${shrinkage}).`);
   const maxIterations = Math.max(0, Math.floor(opts.maxIterations));
   const patterns = groupByPattern(data, n, p);
   const start = availableCaseStart(data, n, p);

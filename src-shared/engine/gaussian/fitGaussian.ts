@@ -15,10 +15,14 @@
  *   globalMean   mean of all observed values
  *   objectiveTrace  observed-data log-likelihood after each EM iteration
  *   rank 0, empty factors.
+ * Errors: FitFailedError when the model refuses the matrix (limits.ts) or a setting is
+ * out of range; FitCancelledError when shouldStop returns true (checked every iteration).
  */
 
 import type { RatingMatrix } from '../../matrix/ratingMatrix';
 import type { FitProgress, FitResult, GaussianSettings } from '../types';
+import { FitCancelledError, FitFailedError } from '../errors';
+import { clipSnap } from '../predictions';
 import { emGaussian } from './emGaussian';
 import { GAUSSIAN_MAX_VARIABLES, assertGaussianLimits, gaussianRefusalReason } from './limits';
 
@@ -54,16 +58,6 @@ export function gaussianRefusal(matrix: RatingMatrix, transpose = false): string
   return gaussianRefusalReason(block.data, block.n, block.p, block.labels, transpose ? 'row' : 'column');
 }
 
-function snapClip(x: number, min: number, max: number, step: number, clip: boolean, snap: boolean): number {
-  let y = x;
-  if (snap && step > 0) y = min + Math.round((y - min) / step) * step;
-  if (clip) {
-    if (y < min) y = min;
-    else if (y > max) y = max;
-  }
-  return y;
-}
-
 export function fitGaussian(matrix: RatingMatrix, settings: GaussianSettings, opts: GaussianFitOptions = {}): FitResult {
   const t0 = Date.now();
   const rows = matrix.rowLabels.length;
@@ -72,6 +66,9 @@ export function fitGaussian(matrix: RatingMatrix, settings: GaussianSettings, op
   const { data, n, p, labels } = gaussianDataBlock(matrix, transpose);
   assertGaussianLimits(data, n, p, labels, transpose ? 'row' : 'column');
 
+  if (!(settings.shrinkage >= 0 && settings.shrinkage < 1)) {
+    throw new FitFailedError(`The shrinkage must be at least 0 and below 1 (got ${settings.shrinkage}).`);
+  }
   const em = emGaussian(data, n, p, {
     shrinkage: settings.shrinkage,
     maxIterations: settings.maxIterations,
@@ -82,11 +79,13 @@ export function fitGaussian(matrix: RatingMatrix, settings: GaussianSettings, op
       : undefined,
   });
 
+  if (em.stopped) throw new FitCancelledError();
+
   const total = rows * cols;
   const predictions = new Float64Array(total);
   const spread = new Float64Array(total);
   const baseline = new Float64Array(total);
-  const { min, max, step } = matrix.scale;
+  const scale = matrix.scale;
   const observedValues = matrix.values;
   let sum = 0;
   let count = 0;
@@ -103,7 +102,7 @@ export function fitGaussian(matrix: RatingMatrix, settings: GaussianSettings, op
         sum += x;
         count++;
       } else {
-        predictions[cell] = snapClip(em.filled[b], min, max, step, settings.clipToScale, settings.snapToStep);
+        predictions[cell] = clipSnap(em.filled[b], scale, settings.clipToScale, settings.snapToStep);
         spread[cell] = Math.sqrt(Math.max(0, em.conditionalVariance[b]));
       }
     }

@@ -5,6 +5,8 @@
  * interactively. Outside these limits the low-rank model is the right tool.
  */
 
+import { FitFailedError } from '../errors';
+
 export const GAUSSIAN_MAX_VARIABLES = 300;
 export const GAUSSIAN_MIN_OBSERVED_PER_VARIABLE = 3;
 
@@ -47,7 +49,7 @@ export function gaussianRefusalReason(
   return undefined;
 }
 
-/** Throw an Error with a plain message when the Gaussian model cannot run. */
+/** Throw a FitFailedError with a plain message when the Gaussian model cannot run. */
 export function assertGaussianLimits(
   data: Float64Array,
   n: number,
@@ -56,5 +58,5 @@ export function assertGaussianLimits(
   kind: VariableKind,
 ): void {
   const reason = gaussianRefusalReason(data, n, p, labels, kind);
-  if (reason !== undefined) throw new Error(reason);
+  if (reason !== undefined) throw new FitFailedError(reason);
 }

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { defaultGaussianSettings, fitGaussian, gaussianRefusal } from '../../../src-shared/engine/gaussian';
 import type { GaussianSettings } from '../../../src-shared/engine/types';
+import { FitCancelledError, FitFailedError } from '../../../src-shared/engine/errors';
 import { ar1Covariance, drawNormal, hideAtRandom, toMatrix } from './helpers';
 
 function settings(over: Partial<GaussianSettings> = {}): GaussianSettings {
@@ -18,6 +19,7 @@ describe('fitGaussian refusals', () => {
     // common practice, no source: the limit and the wording are this project's rule
     const m = toMatrix(new Float64Array(5 * 301).fill(3), 5, 301);
     expect(() => fitGaussian(m, settings())).toThrow(/at most 300 variables.*301 columns.*low-rank/);
+    expect(() => fitGaussian(m, settings())).toThrow(FitFailedError);
     expect(gaussianRefusal(m)).toMatch(/low-rank/);
     // transposed, the same matrix has 5 variables and is fine
     expect(gaussianRefusal(m, true)).toBeUndefined();
@@ -38,7 +40,7 @@ describe('fitGaussian refusals', () => {
 
   it('rejects a shrinkage outside [0, 1)', () => {
     const { values } = panel(30, 3, 1);
-    expect(() => fitGaussian(toMatrix(values, 30, 3), settings({ shrinkage: 1 }))).toThrow(/Shrinkage/);
+    expect(() => fitGaussian(toMatrix(values, 30, 3), settings({ shrinkage: 1 }))).toThrow(/shrinkage must be/);
   });
 });
 
@@ -107,17 +109,22 @@ describe('fitGaussian output layer', () => {
     for (let j = 0; j < p; j++) expect(t.rowBaseline[j]).toBe(r.colBaseline[j]);
   });
 
-  it('stops when asked and reports progress each iteration', () => {
+  it('stops when asked (FitCancelledError) and reports progress each iteration', () => {
     let calls = 0;
     const seen: number[] = [];
-    const r = fitGaussian(toMatrix(values, n, p), settings({ tolerance: 0, maxIterations: 100 }), {
-      shouldStop: () => ++calls > 3,
+    expect(() =>
+      fitGaussian(toMatrix(values, n, p), settings({ tolerance: 0, maxIterations: 100 }), {
+        shouldStop: () => ++calls > 3,
+        onProgress: (pr) => seen.push(pr.iteration),
+      }),
+    ).toThrow(FitCancelledError);
+    expect(seen).toEqual([1, 2, 3]);
+    const r = fitGaussian(toMatrix(values, n, p), settings({ tolerance: 0, maxIterations: 4 }), {
       onProgress: (pr) => seen.push(pr.iteration),
     });
-    expect(r.iterations).toBe(3);
+    expect(r.iterations).toBe(4);
     expect(r.converged).toBe(false);
-    expect(seen).toEqual([1, 2, 3]);
-    expect(r.objectiveTrace.length).toBe(3);
+    expect(r.objectiveTrace.length).toBe(4);
   });
 
   it('shrinkage pulls the fill toward the column means', () => {
