@@ -55,7 +55,8 @@ export interface ParseInfo {
   rows: number;
   cols: number;
   observed: number;
-  /** Observed min/max and a step guess. */
+  /** Observed min/max and a step guess. The matrix's own scale equals this, except that
+   *  when every value is equal its max is widened by one step (or 1) so that max > min. */
   detectedScale: RatingScale;
   /** Long layout: number of (row, column) pairs given more than once. */
   duplicatePairs: number;
@@ -107,13 +108,11 @@ function fail(problems: ProblemCollector): ParseResult {
   return { ok: false, problems: problems.list() };
 }
 
-/** Line/field of the first NUL or U+FFFD in a record, if any. */
-function findBinary(rec: RawRecord): { column: number; line: number; nul: boolean } | undefined {
+/** Line/field of the first NUL (when `nul`) or U+FFFD (otherwise) in a record, if any. */
+function findBinary(rec: RawRecord, nul: boolean): { column: number; line: number; nul: boolean } | undefined {
+  const ch = nul ? '\u0000' : '\uFFFD';
   for (let j = 0; j < rec.fields.length; j++) {
-    const f = rec.fields[j];
-    const nul = f.indexOf('\u0000');
-    if (nul >= 0) return { column: j + 1, line: rec.lines[j], nul: true };
-    if (f.indexOf('\uFFFD') >= 0) return { column: j + 1, line: rec.lines[j], nul: false };
+    if (rec.fields[j].indexOf(ch) >= 0) return { column: j + 1, line: rec.lines[j], nul };
   }
   return undefined;
 }
@@ -180,13 +179,16 @@ function parseInner(
   let lastLine = 1;
   let binary: { column: number; line: number; nul: boolean } | undefined;
   let structural = false;
+  // A NUL anywhere is the stronger sign of a binary file, so it is looked for first.
+  const lookForNul = input.indexOf('\u0000') >= 0;
+  const lookForBad = lookForNul || input.indexOf('\uFFFD') >= 0;
   tokenizeDelimited(
     input,
     delimiter,
     {
       onRecord(rec) {
         lastLine = rec.lines[rec.lines.length - 1];
-        const b = findBinary(rec);
+        const b = lookForBad ? findBinary(rec, lookForNul) : undefined;
         if (b) {
           binary = b;
           return false;
@@ -255,7 +257,8 @@ function parseInner(
     problems.add(1, 1, 'no observed values: every cell is missing');
     return fail(problems);
   }
-  matrix.scale = { ...scale };
+  // The matrix's scale must have max > min; when every observed value is equal, widen by one step (or 1).
+  matrix.scale = scale.max > scale.min ? { ...scale } : { ...scale, max: scale.min + (scale.step > 0 ? scale.step : 1) };
   let observed = 0;
   for (let i = 0; i < matrix.values.length; i++) if (matrix.values[i] === matrix.values[i]) observed++;
   return {
