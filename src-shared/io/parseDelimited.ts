@@ -11,10 +11,11 @@
  *   'refuse' (default: each duplicate is a problem), 'last' (keep the last value) or
  *   'average' (mean of the values); the latter two report each duplicate as a warning.
  *   A pair whose value is missing only registers its labels.
- * - auto: long when the first record has 3 or 4 fields and its third field is named
- *   value / rating / score (singular or plural, any case), or when it has exactly 3 fields,
- *   the third is a number (no header) and the first column repeats a label within the first
- *   50 records; wide otherwise.
+ * - auto: long when the first record has 3 or 4 fields, its third field is named
+ *   value / rating / score (singular or plural, any case), and the data either repeat a
+ *   first-column label or have text in the second column (within the first 50 records);
+ *   or when it has exactly 3 fields, the third is a number (no header) and the first
+ *   column repeats a label; wide otherwise.
  *
  * Limits (refused politely, never thrown): input above `maxBytes` (default 50 MB of UTF-8),
  * a matrix above MAX_CELLS (20 million cells), values with |x| > 1e15, non-finite words.
@@ -294,16 +295,27 @@ function guessDecimalComma(records: RawRecord[]): boolean {
 function guessLayout(records: RawRecord[]): Layout {
   const head = records[0].fields;
   const width = head.length;
-  if ((width === 3 || width === 4) && VALUE_HEADER.test(head[2].trim())) return 'long';
-  if (width !== 3 || !NUMBER_LIKE.test(head[2].trim())) return 'wide';
-  // No header and three fields: long when the first column repeats a label.
-  const seen = new Set<string>();
-  const limit = Math.min(records.length, 50);
-  for (let r = 0; r < limit; r++) {
-    const label = records[r].fields[0];
-    if (seen.has(label)) return 'long';
-    seen.add(label);
+  const limit = Math.min(records.length, 51);
+  const firstColumnRepeats = (from: number): boolean => {
+    const seen = new Set<string>();
+    for (let r = from; r < limit; r++) {
+      const label = records[r].fields[0];
+      if (seen.has(label)) return true;
+      seen.add(label);
+    }
+    return false;
+  };
+  if ((width === 3 || width === 4) && VALUE_HEADER.test(head[2].trim())) {
+    // A wide file with a column named "rating" looks the same; long data repeats its row
+    // labels or has text in the second column, wide data has numbers there.
+    if (firstColumnRepeats(1)) return 'long';
+    for (let r = 1; r < limit; r++) {
+      const f = records[r].fields;
+      if (f.length > 1 && f[1].trim() !== '' && !NUMBER_LIKE.test(f[1].trim())) return 'long';
+    }
+    return 'wide';
   }
+  if (width === 3 && NUMBER_LIKE.test(head[2].trim()) && firstColumnRepeats(0)) return 'long';
   return 'wide';
 }
 
