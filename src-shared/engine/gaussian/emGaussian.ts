@@ -25,6 +25,7 @@
 import { FitFailedError } from '../errors';
 import { ConditionalWorkspace, prepareParams, type GaussianParams } from './conditional';
 import { groupByPattern, type MissingnessPattern } from './patterns';
+import { GAUSSIAN_MAX_WORK_PER_ITERATION, emWorkPerIteration, emWorkloadRefusal } from './limits';
 
 export interface EmGaussianOptions {
   /** Shrink Σ toward its diagonal by this factor, in [0, 1). */
@@ -33,8 +34,10 @@ export interface EmGaussianOptions {
   tolerance: number;
   /** Called after every iteration with ℓ of the new parameters. */
   onIteration?: (iteration: number, logLikelihood: number) => void;
-  /** Checked before every iteration; true ends the fit early (not converged). */
+  /** Checked before every iteration (and every 64 patterns); true ends the fit early (not converged). */
   shouldStop?: () => boolean;
+  /** Refuse (FitFailedError) when one iteration would exceed this many multiply–adds (limits.ts). */
+  maxWorkPerIteration?: number;
 }
 
 export interface EmGaussianResult {
@@ -50,7 +53,7 @@ export interface EmGaussianResult {
   logLikelihoodTrace: number[];
   iterations: number;
   converged: boolean;
-  /** True when shouldStop ended the fit. */
+  /** True when shouldStop ended the fit (then `filled` may be partly updated). */
   stopped: boolean;
   /** Row-major n × p: observed values, conditional expectations in missing cells (final μ, Σ). */
   filled: Float64Array;
@@ -85,7 +88,8 @@ export function availableCaseStart(data: Float64Array, n: number, p: number): { 
 }
 
 /**
- * One E-step at `params`: fill `filled` / `condVar`, return ℓ(params).
+ * One E-step at `params`: fill `filled` / `condVar`, return ℓ(params) (undefined when
+ * shouldStop interrupted it).
  * When `acc` is given, accumulate Σ_i (x̂_i − c) into acc.sum and
  * Σ_i [(x̂_i − c)(x̂_i − c)ᵀ + C_i] into acc.cross (upper triangle), c = acc.center.
  */
@@ -98,9 +102,12 @@ function eStep(
   filled: Float64Array,
   condVar: Float64Array,
   acc: { center: Float64Array; sum: Float64Array; cross: Float64Array; z: Float64Array } | undefined,
-): number {
+  shouldStop: (() => boolean) | undefined,
+): number | undefined {
   let logLik = 0;
   for (let g = 0; g < patterns.length; g++) {
+    // large fits stay cancellable inside an iteration
+    if (shouldStop !== undefined && (g & 63) === 63 && shouldStop()) return undefined;
     const pat = patterns[g];
     const missing = pat.missing;
     const m = missing.length;
@@ -148,6 +155,8 @@ export function emGaussian(data: Float64Array, n: number, p: number, opts: EmGau
   if (!(shrinkage >= 0 && shrinkage < 1)) throw new FitFailedError(`Shrinkage must be at least 0 and below 1 (got ${shrinkage}).`);
   const maxIterations = Math.max(0, Math.floor(opts.maxIterations));
   const patterns = groupByPattern(data, n, p);
+  const tooSlow = emWorkloadRefusal(emWorkPerIteration(patterns, p), opts.maxWorkPerIteration ?? GAUSSIAN_MAX_WORK_PER_ITERATION);
+  if (tooSlow !== undefined) throw new FitFailedError(tooSlow);
   const start = availableCaseStart(data, n, p);
   let mu = start.mu;
   let sigma = start.sigma;
@@ -181,7 +190,11 @@ export function emGaussian(data: Float64Array, n: number, p: number, opts: EmGau
     acc.center.set(mu);
     acc.sum.fill(0);
     acc.cross.fill(0);
-    const logLik = eStep(data, p, patterns, params, ws, filled, condVar, acc);
+    const logLik = eStep(data, p, patterns, params, ws, filled, condVar, acc, opts.shouldStop);
+    if (logLik === undefined) {
+      stopped = true;
+      break;
+    }
     if (iterations === 0) initialLogLikelihood = logLik;
     else {
       trace.push(logLik);

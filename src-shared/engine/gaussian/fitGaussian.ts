@@ -22,6 +22,7 @@
 import type { RatingMatrix } from '../../matrix/ratingMatrix';
 import type { FitProgress, FitResult, GaussianSettings } from '../types';
 import { FitCancelledError, FitFailedError } from '../errors';
+import { findNonFinite } from '../observed';
 import { clipSnap } from '../predictions';
 import { emGaussian } from './emGaussian';
 import { GAUSSIAN_MAX_VARIABLES, assertGaussianLimits, gaussianRefusalReason } from './limits';
@@ -62,6 +63,12 @@ export function fitGaussian(matrix: RatingMatrix, settings: GaussianSettings, op
   const t0 = Date.now();
   const rows = matrix.rowLabels.length;
   const cols = matrix.colLabels.length;
+  const bad = findNonFinite(matrix.values, cols);
+  if (bad !== undefined) {
+    throw new FitFailedError(
+      `The value in row "${matrix.rowLabels[bad.row]}", column "${matrix.colLabels[bad.col]}" is not a finite number.`,
+    );
+  }
   const transpose = settings.transpose;
   const { data, n, p, labels } = gaussianDataBlock(matrix, transpose);
   assertGaussianLimits(data, n, p, labels, transpose ? 'row' : 'column');

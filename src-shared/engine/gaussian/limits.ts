@@ -60,3 +60,32 @@ export function assertGaussianLimits(
   const reason = gaussianRefusalReason(data, n, p, labels, kind);
   if (reason !== undefined) throw new FitFailedError(reason);
 }
+
+/**
+ * Work of one EM iteration in multiply–adds, estimated from the missingness patterns
+ * (see conditional.ts for the two routes; the cheaper one is used per pattern):
+ *   per pattern  covariance route  o³/6 + o²m/2 + m²o/2,  precision route  5m³/6
+ *   per row      o² + om + m² + p²/2 (fill, log-likelihood, sufficient statistics)
+ *   per iteration p³ (factor and invert Σ).
+ */
+export function emWorkPerIteration(patterns: readonly { observed: ArrayLike<number>; missing: ArrayLike<number>; rows: ArrayLike<number> }[], p: number): number {
+  let work = p * p * p;
+  for (const pat of patterns) {
+    const o = pat.observed.length;
+    const m = pat.missing.length;
+    const factor = m <= o ? (5 * m * m * m) / 6 : (o * o * o) / 6 + (o * o * m) / 2 + (m * m * o) / 2;
+    work += factor + pat.rows.length * (o * o + o * m + m * m + (p * p) / 2);
+  }
+  return work;
+}
+
+/** Above this many multiply–adds per iteration (about 3 s in plain JavaScript here) the fit is refused. */
+export const GAUSSIAN_MAX_WORK_PER_ITERATION = 1e9;
+
+export function emWorkloadRefusal(work: number, limit = GAUSSIAN_MAX_WORK_PER_ITERATION): string | undefined {
+  if (work <= limit) return undefined;
+  return (
+    `The Gaussian model would need about ${(work / 1e9).toFixed(1)} billion operations per EM iteration here ` +
+    `(many variables, missing in many different combinations), too slow to fit. Use the low-rank model instead.`
+  );
+}

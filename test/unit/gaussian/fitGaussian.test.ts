@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { defaultGaussianSettings, fitGaussian, gaussianRefusal } from '../../../src-shared/engine/gaussian';
+import { defaultGaussianSettings, emGaussian, fitGaussian, gaussianRefusal } from '../../../src-shared/engine/gaussian';
 import type { GaussianSettings } from '../../../src-shared/engine/types';
 import { FitCancelledError, FitFailedError } from '../../../src-shared/engine/errors';
 import { ar1Covariance, drawNormal, hideAtRandom, toMatrix } from './helpers';
@@ -36,6 +36,17 @@ describe('fitGaussian refusals', () => {
   it('refuses fewer than 3 rows', () => {
     const m = toMatrix(Float64Array.from([1, 2, 3, 4]), 2, 2);
     expect(() => fitGaussian(m, settings())).toThrow(/low-rank/);
+  });
+
+  it('refuses a fit whose iterations would be too slow, and an infinite value', () => {
+    // common practice, no source: a refusal instead of a hang
+    const { values } = panel(60, 6, 3, 0.4);
+    expect(() => emGaussian(values, 60, 6, { shrinkage: 0, maxIterations: 5, tolerance: 0, maxWorkPerIteration: 1000 })).toThrow(
+      /operations per EM iteration.*low-rank/,
+    );
+    const v = new Float64Array(values);
+    v[7] = Infinity;
+    expect(() => fitGaussian(toMatrix(v, 60, 6), settings())).toThrow(/row "r2", column "c2" is not a finite number/);
   });
 
   it('rejects a shrinkage outside [0, 1)', () => {
