@@ -25,7 +25,8 @@ import { FitCancelledError, FitFailedError } from '../errors';
 import { findNonFinite } from '../observed';
 import { clipSnap } from '../predictions';
 import { emGaussian } from './emGaussian';
-import { GAUSSIAN_MAX_VARIABLES, assertGaussianLimits, gaussianRefusalReason } from './limits';
+import { GAUSSIAN_MAX_VARIABLES, assertGaussianLimits, emWorkPerIteration, emWorkloadRefusal, gaussianRefusalReason } from './limits';
+import { groupByPattern } from './patterns';
 
 export interface GaussianFitOptions {
   onProgress?: (p: FitProgress) => void;
@@ -46,7 +47,10 @@ export function gaussianDataBlock(
   return { data, n: cols, p: rows, labels: matrix.rowLabels };
 }
 
-/** Why the Gaussian model would refuse this matrix, or undefined when it can run. */
+/**
+ * Why the Gaussian model would refuse this matrix (too many variables, too few observed
+ * values for a variable, or iterations too slow), or undefined when it can run.
+ */
 export function gaussianRefusal(matrix: RatingMatrix, transpose = false): string | undefined {
   const rows = matrix.rowLabels.length;
   const cols = matrix.colLabels.length;
@@ -56,7 +60,9 @@ export function gaussianRefusal(matrix: RatingMatrix, transpose = false): string
     return gaussianRefusalReason(new Float64Array(0), 0, p, [], transpose ? 'row' : 'column');
   }
   const block = gaussianDataBlock(matrix, transpose);
-  return gaussianRefusalReason(block.data, block.n, block.p, block.labels, transpose ? 'row' : 'column');
+  const reason = gaussianRefusalReason(block.data, block.n, block.p, block.labels, transpose ? 'row' : 'column');
+  if (reason !== undefined) return reason;
+  return emWorkloadRefusal(emWorkPerIteration(groupByPattern(block.data, block.n, block.p), block.p));
 }
 
 export function fitGaussian(matrix: RatingMatrix, settings: GaussianSettings, opts: GaussianFitOptions = {}): FitResult {
