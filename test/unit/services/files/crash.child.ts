@@ -1,0 +1,57 @@
+/**
+ * Child process for crash.test.ts (not a test itself). Modes:
+ *   save TARGET      — saves two alternating project versions to TARGET with the atomic
+ *                      save, forever, printing "ready" after the first save completes;
+ *   recovery DIR     — makes edit after edit to a document, with autosave to the recovery
+ *                      folder DIR, printing "saved N" each time snapshot N is on disk.
+ * The parent kills it with SIGKILL at a random moment.
+ */
+import { crashTestVersion } from './crash.versions';
+import { saveProjectFile } from '../../../../src-main/services/projectStore';
+import { RecoveryStore } from '../../../../src-main/services/recovery';
+import { Autosaver } from '../../../../src-main/services/autosave';
+
+async function saveLoop(target: string): Promise<void> {
+  let k = 0;
+  for (;;) {
+    const r = await saveProjectFile(target, crashTestVersion(k % 2), { now: null });
+    if (!r.ok) {
+      process.stderr.write(JSON.stringify(r.problems) + '\n');
+      process.exit(2);
+    }
+    if (k === 0) process.stdout.write('ready\n');
+    k++;
+  }
+}
+
+async function recoveryLoop(dir: string): Promise<void> {
+  const store = new RecoveryStore({ dir });
+  const doc = crashTestVersion(0);
+  let edit = 0;
+  let captured = 0; // the edit number inside the snapshot being written
+  const autosaver = new Autosaver(store, 'crash-doc', {
+    delayMs: 5,
+    maxDelayMs: 20,
+    onSaved: () => process.stdout.write(`saved ${captured}\n`),
+  });
+  for (;;) {
+    edit++;
+    doc.matrix.values[0] = edit; // one "keystroke": cell (0, 0) := edit number
+    autosaver.changed({
+      doc: () => {
+        captured = doc.matrix.values[0];
+        return doc;
+      },
+      title: 'crash test',
+    });
+    await new Promise((r) => setTimeout(r, 1));
+  }
+}
+
+const [mode, where] = process.argv.slice(2);
+if (mode === 'save') void saveLoop(where);
+else if (mode === 'recovery') void recoveryLoop(where);
+else {
+  process.stderr.write('usage: crash.child.ts save TARGET | recovery DIR\n');
+  process.exit(2);
+}
