@@ -1,0 +1,178 @@
+/**
+ * The three commands. Each fits only through the engine's fitModel (directly or via
+ * crossValidate / tune) and returns an exit code plus what to print; nothing is
+ * written before the fit has succeeded.
+ */
+import { renameSync, writeFileSync, unlinkSync } from 'node:fs';
+import { fitModel } from '../../src-shared/engine/fitModel';
+import { crossValidate, makeFolds } from '../../src-shared/engine/crossValidation';
+import { expandLowRankGrid, tune } from '../../src-shared/engine/tuning';
+import { filledValues } from '../../src-shared/engine/predictions';
+import type { FitSettings } from '../../src-shared/engine/types';
+import { observedCount, type RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
+import { writeLongCsv, writeWideCsv } from '../../src-shared/io';
+import type { CliOptions } from './args';
+import { settingsFromOptions } from './modelSettings';
+
+export interface CommandOutput {
+  code: number;
+  stdout: string[];
+  stderr: string[];
+}
+
+function round(x: number, decimals: number | undefined): number {
+  if (decimals === undefined || !Number.isFinite(x)) return x;
+  const f = 10 ** decimals;
+  const y = Math.round(x * f) / f;
+  return Object.is(y, -0) ? 0 : y;
+}
+
+function fmt(x: number, digits = 4): string {
+  return Number.isFinite(x) ? x.toFixed(digits) : 'n/a';
+}
+
+function settingsLabel(s: FitSettings): string {
+  return s.model === 'lowrank' ? `rank ${s.rank}, lambda ${s.lambda}, centering ${s.centering}` : `gaussian, shrinkage ${s.shrinkage}`;
+}
+
+/** Write through a temporary file, so a failure never leaves half a file behind. */
+function writeAtomically(path: string, text: string): void {
+  const tmp = `${path}.rankfill-${process.pid}.tmp`;
+  try {
+    writeFileSync(tmp, text);
+    renameSync(tmp, path);
+  } catch (err) {
+    try {
+      unlinkSync(tmp);
+    } catch {
+      // nothing to clean up
+    }
+    throw err;
+  }
+}
+
+export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
+  const settings = settingsFromOptions(o);
+  const t0 = performance.now();
+  const fit = fitModel(m, settings);
+  timings.fitMs = performance.now() - t0;
+  const filled = filledValues(m, fit);
+  const rows = m.rowLabels.length;
+  const cols = m.colLabels.length;
+  // Observed cells are written as read; only predictions are rounded by --decimals.
+  const layer = (i: number, j: number): number => {
+    const c = i * cols + j;
+    const y = m.values[c];
+    return y === y ? y : round(filled[c], o.decimals);
+  };
+  const t1 = performance.now();
+  const text = o.long ? writeLongCsv(m, { layer }) : writeWideCsv(m, { layer });
+  try {
+    writeAtomically(o.out!, text);
+  } catch (err) {
+    const e = err as NodeJS.ErrnoException;
+    return { code: 2, stdout: [], stderr: [`rankfill: cannot write ${o.out}: ${e.code ?? e.message}`] };
+  }
+  timings.writeMs = performance.now() - t1;
+  const observed = observedCount(m);
+  const objective = fit.objectiveTrace.length > 0 ? fit.objectiveTrace[fit.objectiveTrace.length - 1] : NaN;
+  timings.totalMs = performance.now() - startedAt;
+  if (o.json) {
+    return {
+      code: 0,
+      stderr: [],
+      stdout: [
+        JSON.stringify({
+          command: 'fill',
+          input: o.input,
+          output: o.out,
+          rows,
+          cols,
+          observed,
+          filled: rows * cols - observed,
+          scale: m.scale,
+          settings: fit.settings,
+          iterations: fit.iterations,
+          converged: fit.converged,
+          objective,
+          objectiveTrace: fit.objectiveTrace,
+          timings,
+        }),
+      ],
+    };
+  }
+  return {
+    code: 0,
+    stderr: [],
+    stdout: [
+      `filled ${rows * cols - observed} of ${rows * cols} cells (${rows} rows × ${cols} columns) → ${o.out}`,
+      `model: ${settingsLabel(fit.settings)}; ${fit.iterations} iterations${fit.converged ? ' (converged)' : ' (iteration limit)'}, objective ${objective.toPrecision(6)}`,
+    ],
+  };
+}
+
+export function runEvaluate(o: CliOptions, m: RatingMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
+  const settings = settingsFromOptions(o);
+  const t0 = performance.now();
+  const folds = makeFolds(m, o.folds, settings.seed);
+  const cv = crossValidate(m, settings, folds);
+  timings.evaluateMs = performance.now() - t0;
+  const table = cv.folds.map((f, t) => ({ fold: t + 1, rmse: f.rmse, mae: f.mae, n: f.n }));
+  timings.totalMs = performance.now() - startedAt;
+  if (o.json) {
+    return {
+      code: 0,
+      stderr: [],
+      stdout: [JSON.stringify({ command: 'evaluate', input: o.input, settings, folds: o.folds, seed: settings.seed, table, meanRmse: cv.meanRmse, sdRmse: cv.sdRmse, meanMae: cv.meanMae, sdMae: cv.sdMae, timings })],
+    };
+  }
+  const lines = [`${o.folds}-fold cross-validation of ${settingsLabel(settings)}`, 'fold  rmse    mae     cells'];
+  for (const r of table) lines.push(`${String(r.fold).padEnd(5)} ${fmt(r.rmse)}  ${fmt(r.mae)}  ${r.n}`);
+  lines.push(`mean  ${fmt(cv.meanRmse)}  ${fmt(cv.meanMae)}   (sd ${fmt(cv.sdRmse)} / ${fmt(cv.sdMae)})`);
+  return { code: 0, stderr: [], stdout: lines };
+}
+
+export function runTune(o: CliOptions, m: RatingMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
+  const base = settingsFromOptions(o);
+  const list = expandLowRankGrid({ ranks: o.ranks, lambdas: o.lambdas, centerings: o.centerings, base });
+  const t0 = performance.now();
+  const result = tune(m, { settings: list }, o.folds, base.seed);
+  timings.tuneMs = performance.now() - t0;
+  const row = (r: (typeof result.table)[number]) => ({
+    ...(r.settings.model === 'lowrank' ? { rank: r.settings.rank, lambda: r.settings.lambda, centering: r.settings.centering } : { model: r.settings.model }),
+    meanRmse: r.meanRmse,
+    sdRmse: r.sdRmse,
+    meanMae: r.meanMae,
+    sdMae: r.sdMae,
+    ...(r.error ? { error: r.error } : {}),
+  });
+  timings.totalMs = performance.now() - startedAt;
+  if (o.json) {
+    return {
+      code: 0,
+      stderr: [],
+      stdout: [
+        JSON.stringify({
+          command: 'tune',
+          input: o.input,
+          folds: o.folds,
+          seed: base.seed,
+          table: result.table.map(row),
+          best: { ...row(result.best), settings: result.best.settings },
+          oneStandardError: { ...row(result.oneStandardError), settings: result.oneStandardError.settings },
+          threshold: result.threshold,
+          timings,
+        }),
+      ],
+    };
+  }
+  const lines = [`${o.folds}-fold cross-validation of ${list.length} settings (same folds for all)`, 'rank  lambda  centering  mean rmse  sd rmse  mean mae'];
+  for (const r of result.table) {
+    const s = r.settings;
+    if (s.model !== 'lowrank') continue;
+    lines.push(`${String(s.rank).padEnd(5)} ${String(s.lambda).padEnd(7)} ${s.centering.padEnd(10)} ${fmt(r.meanRmse).padEnd(10)} ${fmt(r.sdRmse).padEnd(8)} ${fmt(r.meanMae)}${r.error ? `  (failed: ${r.error})` : ''}`);
+  }
+  lines.push(`best: ${settingsLabel(result.best.settings)} (mean RMSE ${fmt(result.best.meanRmse)})`);
+  lines.push(`smallest rank within one standard error (≤ ${fmt(result.threshold)}): ${settingsLabel(result.oneStandardError.settings)} (mean RMSE ${fmt(result.oneStandardError.meanRmse)})`);
+  return { code: 0, stderr: [], stdout: lines };
+}

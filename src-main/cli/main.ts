@@ -1,0 +1,81 @@
+/**
+ * `rankfill` command line: argument handling, exit codes and the one-line error policy.
+ * Exit status: 0 success; 1 the fit failed (non-finite values, divergence, bad model
+ * settings); 2 malformed input (`FILE:LINE:COLUMN: reason`) or a usage error (reason +
+ * usage line). No stack trace ever reaches the user.
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { FitCancelledError, FitFailedError } from '../../src-shared/engine/errors';
+import { HELP, USAGE, UsageError, parseArgs } from './args';
+import { readMatrix } from './readInput';
+import { withScale } from './modelSettings';
+import { runEvaluate, runFill, runTune, type CommandOutput } from './commands';
+
+export interface CliIo {
+  stdout: (text: string) => void;
+  stderr: (text: string) => void;
+}
+
+const processIo: CliIo = {
+  stdout: (t) => process.stdout.write(t),
+  stderr: (t) => process.stderr.write(t),
+};
+
+function oneLine(message: string): string {
+  return message.split('\n')[0];
+}
+
+function version(): string {
+  try {
+    return (JSON.parse(readFileSync(join(__dirname, '..', '..', 'package.json'), 'utf8')) as { version: string }).version;
+  } catch {
+    return 'unknown';
+  }
+}
+
+function execute(argv: string[]): CommandOutput {
+  let parsed;
+  try {
+    parsed = parseArgs(argv);
+  } catch (err) {
+    if (err instanceof UsageError) return { code: 2, stdout: [], stderr: [`rankfill: ${err.message}`, USAGE] };
+    throw err;
+  }
+  if (parsed.kind === 'help') return { code: 0, stdout: [HELP], stderr: [] };
+  if (parsed.kind === 'version') return { code: 0, stdout: [`rankfill ${version()}`], stderr: [] };
+  const o = parsed.options;
+  const timings: Record<string, number> = {};
+  const t0 = performance.now();
+  const read = readMatrix(o.input, o.long);
+  timings.readMs = performance.now() - t0;
+  if (!read.ok) return { code: 2, stdout: [], stderr: read.messages };
+  const matrix = withScale(read.matrix, o);
+  let out: CommandOutput;
+  try {
+    if (o.command === 'fill') out = runFill(o, matrix, timings, t0);
+    else if (o.command === 'evaluate') out = runEvaluate(o, matrix, timings, t0);
+    else out = runTune(o, matrix, timings, t0);
+  } catch (err) {
+    if (err instanceof FitFailedError || err instanceof FitCancelledError) {
+      return { code: 1, stdout: [], stderr: [`rankfill: fit failed: ${oneLine(err.message)}`] };
+    }
+    // Engine errors about the request itself (e.g. more folds than observed cells, a gaussian
+    // family that is not available) are fit failures too, reported in one line.
+    return { code: 1, stdout: [], stderr: [`rankfill: fit failed: ${oneLine((err as Error).message ?? String(err))}`] };
+  }
+  return { ...out, stderr: [...read.warnings, ...out.stderr] };
+}
+
+/** Runs the command line; resolves to the exit status. Never throws. */
+export async function runCli(argv: string[], io: CliIo = processIo): Promise<number> {
+  try {
+    const out = execute(argv);
+    for (const line of out.stderr) io.stderr(`${line}\n`);
+    for (const line of out.stdout) io.stdout(`${line}\n`);
+    return out.code;
+  } catch (err) {
+    io.stderr(`rankfill: internal error: ${oneLine(err instanceof Error ? err.message : String(err))}\n`);
+    return 1;
+  }
+}

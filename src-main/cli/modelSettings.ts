@@ -1,0 +1,24 @@
+/** Low-rank settings from command-line options, on top of the engine defaults. */
+import type { RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
+import type { LowRankSettings } from '../../src-shared/engine/types';
+import { defaultLowRankSettings } from '../../src-shared/engine/defaults';
+import type { CliOptions } from './args';
+
+export function settingsFromOptions(o: CliOptions): LowRankSettings {
+  const s = defaultLowRankSettings();
+  if (o.rank !== undefined) s.rank = o.rank;
+  if (o.lambda !== undefined) s.lambda = o.lambda;
+  if (o.centering !== undefined) s.centering = o.centering;
+  if (o.iterations !== undefined) s.maxIterations = o.iterations;
+  if (o.tolerance !== undefined) s.tolerance = o.tolerance;
+  if (o.seed !== undefined) s.seed = o.seed;
+  // A step given with --scale asks for predictions on the scale's steps.
+  if (o.scale?.step !== undefined) s.snapToStep = true;
+  return s;
+}
+
+/** The matrix with the scale from --scale, or the observed min and max (step as detected). */
+export function withScale(m: RatingMatrix, o: CliOptions): RatingMatrix {
+  if (!o.scale) return m;
+  return { ...m, scale: { min: o.scale.min, max: o.scale.max, step: o.scale.step ?? 0 } };
+}
