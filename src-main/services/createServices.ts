@@ -2,7 +2,7 @@
  * The composition root of the main side: builds every service once and wires
  * them to the API router. Both hosts call this and differ only in transport.
  */
-import { Worker } from 'node:worker_threads';
+import type { ResourceLimits, Worker } from 'node:worker_threads';
 import { join } from 'node:path';
 import { readFileSync } from 'node:fs';
 import { API_VERSION } from '../../src-shared/api';
@@ -23,7 +23,7 @@ export interface MainServices {
 export interface CreateServicesOptions {
   host: 'electron' | 'browser';
   /** Builds a fit worker; the host knows where the built worker file lives. */
-  createWorker: () => Worker;
+  createWorker: (resourceLimits: ResourceLimits) => Worker;
   appRoot?: string;
   log?: (line: string) => void;
 }
