@@ -27,11 +27,16 @@
  * a complete matrix with warnings, or no matrix and the list of problems.
  */
 import type { RatingMatrix, RatingScale } from '../matrix/ratingMatrix';
-import { detectDelimiter, delimiterName, DELIMITERS, type Delimiter } from './detectDelimiter';
+import { buildLong } from './buildLongMatrix';
+import { buildWide } from './buildWideMatrix';
+import { detectDelimiter, DELIMITERS, type Delimiter } from './detectDelimiter';
 import { detectScale } from './detectScale';
-import { DEFAULT_MISSING_TOKENS, missingMatcher, parseCellValue } from './parseCellValue';
+import { show } from './importCommon';
+import { DEFAULT_MISSING_TOKENS, missingMatcher } from './parseCellValue';
 import { ProblemCollector, type Problem } from './problem';
 import { isBlankRecord, tokenizeDelimited, type RawRecord } from './tokenizeDelimited';
+
+export { MAX_CELLS } from './importCommon';
 
 export type Layout = 'wide' | 'long';
 export type DuplicatePolicy = 'last' | 'average' | 'refuse';
@@ -71,9 +76,6 @@ export type ParseResult =
 
 /** Documented import size limit: 50 MB. */
 export const DEFAULT_MAX_BYTES = 50 * 1024 * 1024;
-/** Largest matrix an import may create (rows × columns). */
-export const MAX_CELLS = 20_000_000;
-
 const VALUE_HEADER = /^(value|values|rating|ratings|score|scores)$/i;
 const NUMBER_LIKE = /^[+-]?(?:\d+[.,]?\d*|[.,]\d+)(?:[eE][+-]?\d+)?$/;
 
@@ -100,11 +102,6 @@ function formatBytes(n: number): string {
   if (n >= 1024) return `${(n / 1024).toFixed(1).replace(/\.0$/, '')} KB`;
   return `${n} bytes`;
 }
-
-function show(s: string): string {
-  return JSON.stringify(s.length > 40 ? s.slice(0, 37) + '…' : s);
-}
-
 function fail(problems: ProblemCollector): ParseResult {
   return { ok: false, problems: problems.list() };
 }
@@ -117,18 +114,6 @@ function findBinary(rec: RawRecord, nul: boolean): { column: number; line: numbe
   }
   return undefined;
 }
-
-/** A hint when a ragged record would split evenly on another delimiter. */
-function otherDelimiterHint(rec: RawRecord, d: Delimiter, expected: number): string {
-  if (rec.fields.length !== 1) return '';
-  const joined = rec.fields[0];
-  for (const o of DELIMITERS) {
-    if (o === d) continue;
-    if (joined.split(o).length === expected) return ` (this line seems to use ${delimiterName(o)} as the delimiter instead of ${delimiterName(d)})`;
-  }
-  return '';
-}
-
 export function parseDelimited(input: string, opts: ParseOptions): ParseResult {
   const file = opts.fileName;
   const problems = new ProblemCollector(file);
@@ -280,7 +265,6 @@ function parseInner(
     },
   };
 }
-
 const COMMA_DECIMAL = /^[+-]?\d*,\d+$/;
 
 function guessDecimalComma(records: RawRecord[]): boolean {
@@ -317,263 +301,4 @@ function guessLayout(records: RawRecord[]): Layout {
   }
   if (width === 3 && NUMBER_LIKE.test(head[2].trim()) && firstColumnRepeats(0)) return 'long';
   return 'wide';
-}
-
-interface Built {
-  matrix: RatingMatrix;
-  duplicatePairs: number;
-}
-
-const EMPTY_SCALE: RatingScale = { min: 0, max: 0, step: 0 };
-
-function checkCells(rows: number, cols: number, problems: ProblemCollector): boolean {
-  if (rows * cols > MAX_CELLS) {
-    problems.add(
-      1,
-      1,
-      `the matrix would have ${rows} × ${cols} = ${rows * cols} cells; the limit is ${MAX_CELLS} cells`,
-    );
-    return false;
-  }
-  return true;
-}
-
-function buildWide(
-  records: RawRecord[],
-  decimalComma: boolean,
-  isMissing: (s: string) => boolean,
-  problems: ProblemCollector,
-  warnings: ProblemCollector,
-  delimiter: Delimiter,
-): Built | undefined {
-  const header = records[0];
-  const width = header.fields.length;
-  if (width < 2) {
-    problems.add(
-      header.line,
-      1,
-      `the header row has only one field (delimiter ${delimiterName(delimiter)}): expected a row-label column and at least one value column`,
-    );
-    return undefined;
-  }
-  if (records.length === 1) {
-    problems.add(header.line, 1, 'the file has a header row but no data rows');
-    return undefined;
-  }
-  const nCols = width - 1;
-  const colLabels = header.fields.slice(1);
-  const colSeen = new Map<string, number>();
-  const emptyLabelCols: number[] = [];
-  for (let j = 0; j < nCols; j++) {
-    const label = colLabels[j];
-    if (label === '') {
-      emptyLabelCols.push(j);
-      continue;
-    }
-    const first = colSeen.get(label);
-    if (first !== undefined) {
-      problems.add(header.lines[j + 1], j + 2, `duplicate column label ${show(label)} (also in field ${first + 2})`);
-    } else colSeen.set(label, j);
-  }
-
-  const nRows = records.length - 1;
-  if (!checkCells(nRows, nCols, problems)) return undefined;
-  const values = new Float64Array(nRows * nCols).fill(NaN);
-  const colHasValue = new Uint8Array(nCols);
-  const rowLabels: string[] = new Array(nRows);
-  const rowSeen = new Map<string, number>();
-  let trailingIgnored = 0;
-  for (let r = 0; r < nRows; r++) {
-    const rec = records[r + 1];
-    const f = rec.fields;
-    const label = f[0];
-    rowLabels[r] = label;
-    if (label === '') {
-      problems.add(rec.line, 1, 'empty row label');
-    } else {
-      const first = rowSeen.get(label);
-      if (first !== undefined) problems.add(rec.line, 1, `duplicate row label ${show(label)} (first on line ${first})`);
-      else rowSeen.set(label, rec.line);
-    }
-    if (f.length < width) {
-      problems.add(
-        rec.lines[f.length - 1],
-        f.length + 1,
-        `too few fields: found ${f.length}, the header has ${width}${otherDelimiterHint(rec, delimiter, width)}`,
-      );
-    } else if (f.length > width) {
-      let extraEmpty = true;
-      for (let j = width; j < f.length; j++) if (f[j] !== '' || rec.quoted[j]) extraEmpty = false;
-      if (extraEmpty) trailingIgnored++;
-      else problems.add(rec.lines[width], width + 1, `too many fields: found ${f.length}, the header has ${width}`);
-    }
-    const m = Math.min(f.length, width);
-    for (let j = 1; j < m; j++) {
-      const v = parseCellValue(f[j], decimalComma, isMissing);
-      if (v.kind === 'number') {
-        values[r * nCols + j - 1] = v.value;
-        colHasValue[j - 1] = 1;
-      } else if (v.kind === 'error') problems.add(rec.lines[j], j + 1, v.message);
-    }
-  }
-  if (trailingIgnored > 0) {
-    warnings.add(records[1].line, width + 1, `ignored empty fields after the last column on ${trailingIgnored} line(s)`);
-  }
-  // Unlabelled columns: dropped with a warning when they hold no values, a problem otherwise.
-  const drop = new Set<number>();
-  for (const j of emptyLabelCols) {
-    if (colHasValue[j]) problems.add(header.lines[j + 1], j + 2, 'empty column label for a column that holds values');
-    else {
-      drop.add(j);
-      warnings.add(header.lines[j + 1], j + 2, 'ignored a column with an empty label and no values');
-    }
-  }
-  if (problems.count > 0) return undefined;
-  if (drop.size === 0) {
-    return { matrix: { rowLabels, colLabels, values, scale: { ...EMPTY_SCALE } }, duplicatePairs: 0 };
-  }
-  const keep: number[] = [];
-  for (let j = 0; j < nCols; j++) if (!drop.has(j)) keep.push(j);
-  if (keep.length === 0) {
-    problems.add(header.line, 2, 'no labelled value columns');
-    return undefined;
-  }
-  const packed = new Float64Array(nRows * keep.length);
-  for (let r = 0; r < nRows; r++) for (let k = 0; k < keep.length; k++) packed[r * keep.length + k] = values[r * nCols + keep[k]];
-  return {
-    matrix: { rowLabels, colLabels: keep.map((j) => colLabels[j]), values: packed, scale: { ...EMPTY_SCALE } },
-    duplicatePairs: 0,
-  };
-}
-
-function buildLong(
-  records: RawRecord[],
-  decimalComma: boolean,
-  isMissing: (s: string) => boolean,
-  policy: DuplicatePolicy,
-  problems: ProblemCollector,
-  warnings: ProblemCollector,
-  delimiter: Delimiter,
-): Built | undefined {
-  const first = records[0];
-  if (first.fields.length < 3) {
-    problems.add(
-      first.line,
-      first.fields.length + 1,
-      `long layout needs 3 fields (row, column, value); found ${first.fields.length}${otherDelimiterHint(first, delimiter, 3)}`,
-    );
-    return undefined;
-  }
-  const third = parseCellValue(first.fields[2], decimalComma, isMissing);
-  const hasHeader = third.kind === 'error';
-  const width = first.fields.length;
-  const startRec = hasHeader ? 1 : 0;
-  if (hasHeader && records.length === 1) {
-    problems.add(first.line, 1, 'the file has a header row but no data rows');
-    return undefined;
-  }
-  if (width > 3) {
-    warnings.add(first.line, 4, `long layout uses the first 3 fields (row, column, value); ignored ${width - 3} more field(s) per line`);
-  }
-  const rowIndex = new Map<string, number>();
-  const colIndex = new Map<string, number>();
-  const rowLabels: string[] = [];
-  const colLabels: string[] = [];
-  const n = records.length - startRec;
-  const entryRow = new Int32Array(n);
-  const entryCol = new Int32Array(n);
-  const entryVal = new Float64Array(n).fill(NaN);
-  for (let k = 0; k < n; k++) {
-    const rec = records[k + startRec];
-    const f = rec.fields;
-    entryRow[k] = -1;
-    if (f.length < 3) {
-      problems.add(
-        rec.lines[f.length - 1],
-        f.length + 1,
-        `too few fields: found ${f.length}, long layout needs 3 (row, column, value)${otherDelimiterHint(rec, delimiter, 3)}`,
-      );
-      continue;
-    }
-    if (f.length > width) {
-      problems.add(rec.lines[width], width + 1, `too many fields: found ${f.length}, expected ${width}`);
-      continue;
-    }
-    let bad = false;
-    if (f[0] === '') {
-      problems.add(rec.lines[0], 1, 'empty row label');
-      bad = true;
-    }
-    if (f[1] === '') {
-      problems.add(rec.lines[1], 2, 'empty column label');
-      bad = true;
-    }
-    const v = parseCellValue(f[2], decimalComma, isMissing);
-    if (v.kind === 'error') {
-      problems.add(rec.lines[2], 3, v.message);
-      bad = true;
-    }
-    if (bad) continue;
-    let ri = rowIndex.get(f[0]);
-    if (ri === undefined) {
-      ri = rowLabels.length;
-      rowIndex.set(f[0], ri);
-      rowLabels.push(f[0]);
-    }
-    let ci = colIndex.get(f[1]);
-    if (ci === undefined) {
-      ci = colLabels.length;
-      colIndex.set(f[1], ci);
-      colLabels.push(f[1]);
-    }
-    entryRow[k] = ri;
-    entryCol[k] = ci;
-    if (v.kind === 'number') entryVal[k] = v.value;
-  }
-  if (problems.count > 0) return undefined;
-  const nRows = rowLabels.length;
-  const nCols = colLabels.length;
-  if (nRows === 0) {
-    problems.add(first.line, 1, 'no data rows');
-    return undefined;
-  }
-  if (!checkCells(nRows, nCols, problems)) return undefined;
-  const values = new Float64Array(nRows * nCols).fill(NaN);
-  // Record index (k + 1; 0 = none) of the first value given for each cell.
-  const firstEntry = new Int32Array(nRows * nCols);
-  let counts: Map<number, number> | undefined;
-  let duplicatePairs = 0;
-  for (let k = 0; k < n; k++) {
-    const x = entryVal[k];
-    if (entryRow[k] < 0 || x !== x) continue;
-    const cell = entryRow[k] * nCols + entryCol[k];
-    const prev = firstEntry[cell];
-    if (prev === 0) {
-      firstEntry[cell] = k + 1;
-      values[cell] = x;
-      continue;
-    }
-    const rec = records[k + startRec];
-    const firstLine = records[prev - 1 + startRec].line;
-    const pair = `(row ${show(rowLabels[entryRow[k]])}, column ${show(colLabels[entryCol[k]])})`;
-    counts ??= new Map();
-    const c = counts.get(cell);
-    if (c === undefined) duplicatePairs++;
-    if (policy === 'refuse') {
-      problems.add(rec.line, 1, `duplicate pair ${pair}: first given on line ${firstLine}; choose keep last or average to merge`);
-      counts.set(cell, (c ?? 1) + 1);
-    } else if (policy === 'last') {
-      values[cell] = x;
-      counts.set(cell, (c ?? 1) + 1);
-      warnings.add(rec.line, 1, `duplicate pair ${pair}: first given on line ${firstLine}; kept the last value`);
-    } else {
-      // Running mean: values[cell] holds the mean of the c values seen so far.
-      const cnt = (c ?? 1) + 1;
-      values[cell] += (x - values[cell]) / cnt;
-      counts.set(cell, cnt);
-      warnings.add(rec.line, 1, `duplicate pair ${pair}: first given on line ${firstLine}; averaged`);
-    }
-  }
-  if (problems.count > 0) return undefined;
-  return { matrix: { rowLabels, colLabels, values, scale: { ...EMPTY_SCALE } }, duplicatePairs };
 }

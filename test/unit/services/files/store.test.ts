@@ -1,4 +1,4 @@
-import { mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync, mkdirSync } from 'node:fs';
+import { mkdtempSync, readFileSync, readdirSync, rmSync, utimesSync, writeFileSync, mkdirSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -42,9 +42,16 @@ describe('atomicWrite', () => {
 
   it('removes stale temp files left by an interrupted write', async () => {
     const f = path.join(work, 'c.txt');
-    writeFileSync(path.join(work, '.c.txt.123.abc.tmp'), 'partial');
+    const stale = path.join(work, '.c.txt.123.abc.tmp');
+    const fresh = path.join(work, '.c.txt.456.def.tmp');
+    writeFileSync(stale, 'partial');
+    writeFileSync(fresh, 'being written');
+    utimesSync(stale, new Date(Date.now() - 3_600_000), new Date(Date.now() - 3_600_000));
     writeFileSync(path.join(work, '.other.txt.1.x.tmp'), 'not ours');
-    expect(await removeStaleTempFiles(f, 0)).toBe(1);
+    utimesSync(path.join(work, '.other.txt.1.x.tmp'), new Date(0), new Date(0));
+    expect(await removeStaleTempFiles(f, 60_000)).toBe(1);
+    expect(readdirSync(work)).toContain('.c.txt.456.def.tmp');
+    rmSync(fresh);
     expect(readdirSync(work)).toContain('.other.txt.1.x.tmp');
   });
 });
