@@ -120,6 +120,36 @@ export const documentPayloadSchema = z.object({
 });
 export type DocumentPayload = z.infer<typeof documentPayloadSchema>;
 
+// --- documents and projects (issue 4): building blocks ---
+
+/** What the import preview shows besides the matrix. */
+export const importInfoSchema = z.object({
+  delimiter: z.enum([',', '\t', ';']),
+  layout: z.enum(['wide', 'long']),
+  decimalComma: z.boolean(),
+  hadBom: z.boolean(),
+  rows: z.number().int(),
+  cols: z.number().int(),
+  observed: z.number().int(),
+  detectedScale: z.object({ min: z.number(), max: z.number(), step: z.number() }),
+  duplicatePairs: z.number().int(),
+  lines: z.number().int(),
+  /** True when the parse ran in a worker thread. */
+  offThread: z.boolean(),
+});
+export type ImportInfoPayload = z.infer<typeof importInfoSchema>;
+
+const recoveryId = z.string().regex(/^[A-Za-z0-9_-]{1,100}$/);
+
+export const recoveryEntrySchema = z.object({
+  id: z.string(),
+  title: z.string(),
+  sourcePath: z.string().nullable(),
+  savedAt: z.string(),
+  bytes: z.number().int(),
+});
+export type RecoveryEntryPayload = z.infer<typeof recoveryEntrySchema>;
+
 // ---------------------------------------------------------------------------
 // Requests and replies, one entry per method
 // ---------------------------------------------------------------------------
@@ -161,6 +191,102 @@ export const apiMethods = {
       z.object({ ok: z.literal(true), document: documentPayloadSchema }),
       z.object({ ok: z.literal(false), problems: z.array(problemSchema) }),
     ]),
+  },
+  // --- documents and projects (issue 4) ---
+  /**
+   * Parse delimited text (off the UI thread where the host allows) and answer with
+   * what an import would open, for the import preview: size, observed count,
+   * detected delimiter/layout/scale, warnings, or every problem. Nothing is opened.
+   */
+  'document.previewImport': {
+    request: z
+      .object({
+        fileName: z.string().min(1).max(1000),
+        text: z.string(),
+        layout: z.enum(['auto', 'wide', 'long']).optional(),
+        delimiter: z.enum(['auto', ',', '\t', ';']).optional(),
+        decimalComma: z.union([z.literal('auto'), z.boolean()]).optional(),
+        missingTokens: z.array(z.string().max(20)).max(50).optional(),
+        duplicates: z.enum(['refuse', 'last', 'average']).optional(),
+      })
+      .strict(),
+    reply: z.union([
+      z.object({ ok: z.literal(true), document: documentPayloadSchema, info: importInfoSchema }),
+      z.object({ ok: z.literal(false), problems: z.array(problemSchema) }),
+    ]),
+  },
+  /** Read and validate a project file (never partly loaded); answers with its JSON text. */
+  'project.open': {
+    request: z.object({ path: z.string().min(1).max(4096) }).strict(),
+    reply: z.union([
+      z.object({ ok: z.literal(true), path: z.string(), projectText: z.string() }),
+      z.object({ ok: z.literal(false), problems: z.array(problemSchema) }),
+    ]),
+  },
+  /** Validate and save a project atomically (temporary file, flush, rename; previous version kept as .bak). */
+  'project.save': {
+    request: z.object({ path: z.string().min(1).max(4096), projectText: z.string() }).strict(),
+    reply: z.union([
+      z.object({ ok: z.literal(true), path: z.string(), bytes: z.number().int() }),
+      z.object({ ok: z.literal(false), problems: z.array(problemSchema) }),
+    ]),
+  },
+  /** A native file dialog (Electron); the browser host answers `supported: false` and the page asks itself. */
+  'project.choosePath': {
+    request: z
+      .object({ purpose: z.enum(['open-project', 'save-project']), suggestedName: z.string().max(255).optional() })
+      .strict(),
+    reply: z.union([
+      z.object({ supported: z.literal(false) }),
+      z.object({ supported: z.literal(true), path: z.string().nullable() }),
+    ]),
+  },
+  /** Where relative paths typed in the page's path dialog resolve, and a default folder. */
+  'project.defaultFolder': {
+    request: empty,
+    reply: z.object({ folder: z.string() }),
+  },
+  /** Write the recovery snapshot of unsaved work (the page debounces the calls). */
+  'recovery.write': {
+    request: z
+      .object({
+        id: recoveryId,
+        title: z.string().max(1000),
+        sourcePath: z.string().max(4096).nullable(),
+        projectText: z.string(),
+      })
+      .strict(),
+    reply: z.object({ file: z.string() }),
+  },
+  /** Snapshots left behind (after a crash), newest first. */
+  'recovery.list': {
+    request: empty,
+    reply: z.object({ entries: z.array(recoveryEntrySchema) }),
+  },
+  'recovery.restore': {
+    request: z.object({ id: recoveryId }).strict(),
+    reply: z.union([
+      z.object({ ok: z.literal(true), projectText: z.string(), entry: recoveryEntrySchema }),
+      z.object({ ok: z.literal(false), problems: z.array(problemSchema) }),
+    ]),
+  },
+  'recovery.discard': {
+    request: z.object({ id: recoveryId }).strict(),
+    reply: z.object({ discarded: z.boolean() }),
+  },
+  /** Recently opened or saved project files, newest first. */
+  'recent.list': {
+    request: empty,
+    reply: z.object({ files: z.array(z.object({ path: z.string(), openedAt: z.string() })) }),
+  },
+  'recent.clear': {
+    request: empty,
+    reply: z.object({ cleared: z.boolean() }),
+  },
+  /** Close the window without asking again (the page has already asked). Browser host: `supported: false`. */
+  'app.closeWindow': {
+    request: empty,
+    reply: z.object({ supported: z.boolean() }),
   },
   /** Start a fit in the worker; progress and the result arrive as events. */
   'fit.start': {

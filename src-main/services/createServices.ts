@@ -13,6 +13,10 @@ import { findAppRoot } from './appRoot';
 import { FitService } from './fitService';
 import { importText } from './importService';
 import { SampleService } from './sampleService';
+import { createDocumentHandlers, type DesktopShell } from './documentHandlers';
+import { ParseWorkerClient } from './parseOffThread';
+import { RecentFiles } from './recentFiles';
+import { RecoveryStore } from './recovery';
 
 export interface MainServices {
   router: ApiRouter;
@@ -26,6 +30,13 @@ export interface CreateServicesOptions {
   createWorker: (resourceLimits: ResourceLimits) => Worker;
   appRoot?: string;
   log?: (line: string) => void;
+  /** Builds the import parse worker (issue 4); without it imports parse inline. */
+  createParseWorker?: () => Worker;
+  /** Native dialogs and window control (Electron host only). */
+  shell?: DesktopShell;
+  /** Recovery snapshots folder and recent-files list (default: the config folder). */
+  recoveryDir?: string;
+  recentFilesPath?: string;
 }
 
 export function createServices(opts: CreateServicesOptions): MainServices {
@@ -34,8 +45,32 @@ export function createServices(opts: CreateServicesOptions): MainServices {
   const samples = new SampleService(join(root, 'samples'));
   const fits = new FitService({ createWorker: opts.createWorker });
 
+  // Documents and projects (issue 4): one parse worker, made on first use and remade if it dies.
+  let parser: ParseWorkerClient | undefined;
+  const getParser = (): ParseWorkerClient | undefined => {
+    if (!opts.createParseWorker) return undefined;
+    if (!parser) {
+      const worker = opts.createParseWorker();
+      const client = new ParseWorkerClient(worker);
+      worker.unref();
+      worker.on('exit', () => {
+        if (parser === client) parser = undefined;
+      });
+      parser = client;
+    }
+    return parser;
+  };
+  const documentHandlers = createDocumentHandlers({
+    recovery: new RecoveryStore({ dir: opts.recoveryDir }),
+    recent: new RecentFiles({ file: opts.recentFilesPath }),
+    parser: getParser,
+    shell: opts.shell,
+    log: opts.log,
+  });
+
   const router = new ApiRouter(
     {
+      ...documentHandlers,
       'app.info': async () => ({ name: 'Rankfill', version, apiVersion: API_VERSION, host: opts.host }),
       'samples.list': async () => ({ samples: await samples.list() }),
       'samples.open': async ({ id }) => samples.open(id),
@@ -59,5 +94,8 @@ export function createServices(opts: CreateServicesOptions): MainServices {
   });
   fits.on('error', (jobId: string, message: string) => router.emit('fit.error', { jobId, message }));
 
-  return { router, fits, dispose: () => fits.dispose() };
+  return { router, fits, dispose: async () => {
+      await Promise.all([fits.dispose(), parser?.terminate()]);
+    },
+  };
 }

@@ -8,6 +8,7 @@ import { spawn } from 'node:child_process';
 import { join } from 'node:path';
 import { createServices } from '../../services/createServices';
 import { createFitWorker } from '../../workers/createFitWorker';
+import { createParseWorker } from '../../services/createParseWorker';
 import { startHttpHost } from './httpHost';
 
 function parseArgs(argv: string[]): { port: number; open: boolean } {
@@ -49,7 +50,7 @@ function openBrowser(url: string): void {
 async function main(): Promise<void> {
   const args = parseArgs(process.argv.slice(2));
   const log = (line: string) => console.error(`[rankfill] ${line}`);
-  const services = createServices({ host: 'browser', createWorker: createFitWorker, log });
+  const services = createServices({ host: 'browser', createWorker: createFitWorker, createParseWorker, log });
   const host = await startHttpHost({ router: services.router, rendererDir: join(__dirname, '../renderer'), port: args.port, log });
   console.log(`Rankfill is ready at ${host.launchUrl}`);
   if (args.open) openBrowser(host.launchUrl);

@@ -16,9 +16,22 @@ export type MenuCommand =
   | 'model.fill'
   | 'model.compareCentering'
   | 'model.tune'
-  | 'help.guide';
+  | 'help.guide'
+  // documents and projects (issue 4)
+  | 'file.openProject'
+  | `file.openRecent.${number}`
+  | 'file.clearRecent'
+  | 'edit.addRow'
+  | 'edit.addColumn'
+  | 'edit.transpose'
+  | 'edit.scale'
+  | 'app.closeRequested';
 
-export function appMenuTemplate(send: (command: MenuCommand) => void, isMac: boolean): MenuItemConstructorOptions[] {
+export function appMenuTemplate(
+  send: (command: MenuCommand) => void,
+  isMac: boolean,
+  recentProjects: readonly string[] = [],
+): MenuItemConstructorOptions[] {
   const item = (label: string, command: MenuCommand, accelerator?: string): MenuItemConstructorOptions => ({
     label,
     accelerator,
@@ -30,6 +43,17 @@ export function appMenuTemplate(send: (command: MenuCommand) => void, isMac: boo
       submenu: [
         item('Open a Sample Set…', 'file.openSample'),
         item('Bring In Ratings File…', 'file.import', 'CmdOrCtrl+O'),
+        item('Open Project…', 'file.openProject', 'CmdOrCtrl+Shift+O'),
+        {
+          label: 'Recent Projects',
+          submenu: [
+            ...(recentProjects.length === 0
+              ? [{ label: '(none yet)', enabled: false } as MenuItemConstructorOptions]
+              : recentProjects.slice(0, 10).map((p, i) => item(p, `file.openRecent.${i}`))),
+            { type: 'separator' },
+            { ...item('Forget Recent Projects', 'file.clearRecent'), enabled: recentProjects.length > 0 },
+          ],
+        },
         { type: 'separator' },
         item('Keep Project', 'file.save', 'CmdOrCtrl+S'),
         item('Keep Project As…', 'file.saveAs', 'CmdOrCtrl+Shift+S'),
@@ -47,6 +71,11 @@ export function appMenuTemplate(send: (command: MenuCommand) => void, isMac: boo
         { role: 'cut', label: 'Cut Cells' },
         { role: 'copy', label: 'Copy Cells' },
         { role: 'paste', label: 'Paste Cells' },
+        { type: 'separator' },
+        item('Add Row', 'edit.addRow'),
+        item('Add Column', 'edit.addColumn'),
+        item('Swap Rows and Columns', 'edit.transpose'),
+        item('Rating Scale…', 'edit.scale'),
       ],
     },
     {

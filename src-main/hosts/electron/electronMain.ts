@@ -8,6 +8,9 @@ import { APP_ORIGIN, APP_SCHEME } from '../../../src-shared/ipcChannels';
 import { createServices } from '../../services/createServices';
 import { createFitWorker } from '../../workers/createFitWorker';
 import { appMenuTemplate } from './appMenu';
+import { electronShell } from './desktopShell';
+import { createParseWorker } from '../../services/createParseWorker';
+import { RecentFiles } from '../../services/recentFiles';
 import { registerIpc } from './ipcBridge';
 import { serveRendererRequest } from './rendererProtocol';
 import { guardSession, guardWebContents } from './securityGuards';
@@ -39,14 +42,31 @@ export function runElectronHost(): void {
     protocol.handle(APP_SCHEME, (request) => serveRendererRequest(rendererDir, request.url));
     guardSession(session.defaultSession);
 
-    const services = createServices({ host: 'electron', createWorker: createFitWorker, log });
+    // Closing asks the page first (unsaved changes); the page answers through app.closeWindow.
+    let closeAllowed = false;
+    let send: (command: string) => void = () => {};
+    const rebuildMenu = (recent: string[]) =>
+      Menu.setApplicationMenu(Menu.buildFromTemplate(appMenuTemplate(send, process.platform === 'darwin', recent)));
+    const shell = electronShell({ window: () => mainWindow, allowClose: () => (closeAllowed = true), rebuildMenu });
+    const services = createServices({ host: 'electron', createWorker: createFitWorker, createParseWorker, shell, log });
     registerIpc(ipcMain, services.router, () => (mainWindow ? [mainWindow.webContents] : []));
 
-    const send = (command: string) => services.router.emit('menu.command', { command });
-    Menu.setApplicationMenu(Menu.buildFromTemplate(appMenuTemplate(send, process.platform === 'darwin')));
+    send = (command: string) => services.router.emit('menu.command', { command });
+    rebuildMenu([]);
+    void new RecentFiles()
+      .list()
+      .then((files) => rebuildMenu(files.map((f) => f.path)))
+      .catch(() => undefined);
 
     mainWindow = new BrowserWindow(mainWindowOptions(join(__dirname, '../preload/preload.js')));
     mainWindow.once('ready-to-show', () => mainWindow?.show());
+    mainWindow.on('close', (e) => {
+      if (closeAllowed) return;
+      e.preventDefault();
+      send('app.closeRequested');
+    });
+    // A page that stopped answering cannot ask; let the window close.
+    mainWindow.on('unresponsive', () => (closeAllowed = true));
     mainWindow.on('closed', () => {
       mainWindow = null;
     });
