@@ -40,16 +40,140 @@ export interface FitOptions {
   warmStart?: { rowFactors: Float64Array; colFactors: Float64Array };
 }
 
-/** Reusable buffers for one half-step (k × k normal matrix, its copy and the right side). */
+/**
+ * Reusable buffers for one half-step: the k × k normal matrix and the right side, plus a
+ * column-major gather buffer xt (k × degree) of the neighbours' factors, so that every
+ * entry of XᵀX and Xᵀy is a contiguous dot product with its sum kept in a register.
+ */
 export interface RidgeWorkspace {
   k: number;
   a: Float64Array;
-  a0: Float64Array;
   rhs: Float64Array;
+  xt: Float64Array;
+  r: Float64Array;
 }
 
-export function createWorkspace(k: number): RidgeWorkspace {
-  return { k, a: new Float64Array(k * k), a0: new Float64Array(k * k), rhs: new Float64Array(k) };
+export function createWorkspace(k: number, maxDegree = 64): RidgeWorkspace {
+  const cap = Math.max(1, maxDegree);
+  return { k, a: new Float64Array(k * k), rhs: new Float64Array(k), xt: new Float64Array(k * cap), r: new Float64Array(cap) };
+}
+
+/** Largest number of neighbours of any entity (row or column) described by ptr. */
+export function maxDegree(ptr: Int32Array): number {
+  let m = 0;
+  for (let e = 0; e + 1 < ptr.length; e++) m = Math.max(m, ptr[e + 1] - ptr[e]);
+  return m;
+}
+
+/**
+ * Row c of the lower triangle of XᵀX from the column-major gather xt (k × n):
+ * a[c·k + d] = Σ_t xt[c·n + t]·xt[d·n + t] for d ≤ c. Four columns d are summed at once
+ * (four independent accumulators share each load of xt[c·n + t]), which keeps the
+ * floating-point adder busy instead of waiting on one dependency chain.
+ */
+function gramRow(xt: Float64Array, n: number, c: number, a: Float64Array, k: number): void {
+  const cn = c * n;
+  const rc = c * k;
+  let d = 0;
+  for (; d + 3 <= c; d += 4) {
+    const d0 = d * n;
+    const d1 = d0 + n;
+    const d2 = d1 + n;
+    const d3 = d2 + n;
+    let s0 = 0;
+    let s1 = 0;
+    let s2 = 0;
+    let s3 = 0;
+    for (let t = 0; t < n; t++) {
+      const x = xt[cn + t];
+      s0 += x * xt[d0 + t];
+      s1 += x * xt[d1 + t];
+      s2 += x * xt[d2 + t];
+      s3 += x * xt[d3 + t];
+    }
+    a[rc + d] = s0;
+    a[rc + d + 1] = s1;
+    a[rc + d + 2] = s2;
+    a[rc + d + 3] = s3;
+  }
+  for (; d <= c; d++) {
+    const dn = d * n;
+    let s = 0;
+    for (let t = 0; t < n; t++) s += xt[cn + t] * xt[dn + t];
+    a[rc + d] = s;
+  }
+}
+
+/**
+ * Rows c and c+1 of the lower triangle of XᵀX at once (2 × 4 register block: eight
+ * accumulators share six loads per step), then the leftover entries.
+ */
+function gramRowPair(xt: Float64Array, n: number, c: number, a: Float64Array, k: number): void {
+  const an = c * n;
+  const bn = an + n;
+  const ra = c * k;
+  const rb = ra + k;
+  let d = 0;
+  for (; d + 3 <= c; d += 4) {
+    const d0 = d * n;
+    const d1 = d0 + n;
+    const d2 = d1 + n;
+    const d3 = d2 + n;
+    let a0 = 0;
+    let a1 = 0;
+    let a2 = 0;
+    let a3 = 0;
+    let b0 = 0;
+    let b1 = 0;
+    let b2 = 0;
+    let b3 = 0;
+    for (let t = 0; t < n; t++) {
+      const x = xt[an + t];
+      const y = xt[bn + t];
+      const z0 = xt[d0 + t];
+      const z1 = xt[d1 + t];
+      const z2 = xt[d2 + t];
+      const z3 = xt[d3 + t];
+      a0 += x * z0;
+      a1 += x * z1;
+      a2 += x * z2;
+      a3 += x * z3;
+      b0 += y * z0;
+      b1 += y * z1;
+      b2 += y * z2;
+      b3 += y * z3;
+    }
+    a[ra + d] = a0;
+    a[ra + d + 1] = a1;
+    a[ra + d + 2] = a2;
+    a[ra + d + 3] = a3;
+    a[rb + d] = b0;
+    a[rb + d + 1] = b1;
+    a[rb + d + 2] = b2;
+    a[rb + d + 3] = b3;
+  }
+  for (; d <= c; d++) {
+    const dn = d * n;
+    let sa = 0;
+    let sb = 0;
+    for (let t = 0; t < n; t++) {
+      const z = xt[dn + t];
+      sa += xt[an + t] * z;
+      sb += xt[bn + t] * z;
+    }
+    a[ra + d] = sa;
+    a[rb + d] = sb;
+  }
+  let sbb = 0;
+  for (let t = 0; t < n; t++) sbb += xt[bn + t] * xt[bn + t];
+  a[rb + c + 1] = sbb;
+}
+
+/** Lower triangle of XᵀX (see gramRow / gramRowPair). */
+function gram(xt: Float64Array, n: number, a: Float64Array, k: number): void {
+  let c = 0;
+  for (; c + 1 < k; c += 2) gramRowPair(xt, n, c, a, k);
+  if (c < k) gramRow(xt, n, c, a, k);
 }
 
 /**
@@ -69,57 +193,76 @@ export function ridgeHalfStep(
   shouldStop?: () => boolean,
 ): boolean {
   const k = ws.k;
-  const { a, a0, rhs } = ws;
+  const { a, rhs } = ws;
   const entities = ptr.length - 1;
+  const need = maxDegree(ptr);
+  if (ws.r.length < need) {
+    ws.xt = new Float64Array(k * need);
+    ws.r = new Float64Array(need);
+  }
+  const xt = ws.xt;
+  const r = ws.r;
   for (let e = 0; e < entities; e++) {
     if (shouldStop !== undefined && (e & 63) === 0 && shouldStop()) return false;
     const start = ptr[e];
-    const end = ptr[e + 1];
+    const n = ptr[e + 1] - start;
     const oe = e * k;
-    if (end === start) {
+    if (n === 0) {
       for (let c = 0; c < k; c++) out[oe + c] = 0;
       continue;
     }
-    a.fill(0);
-    rhs.fill(0);
-    for (let t = start; t < end; t++) {
-      const xo = nbr[t] * k;
-      const r = res[t];
-      for (let c = 0; c < k; c++) {
-        const xc = other[xo + c];
-        rhs[c] += r * xc;
-        const rc = c * k;
-        for (let d = 0; d <= c; d++) a[rc + d] += xc * other[xo + d];
-      }
+    // Gather X column-major: xt[c·n + t] = other[nbr[start + t]][c].
+    for (let t = 0; t < n; t++) {
+      const xo = nbr[start + t] * k;
+      r[t] = res[start + t];
+      for (let c = 0; c < k; c++) xt[c * n + t] = other[xo + c];
     }
-    const reg = scaleByCount ? lambda * (end - start) : lambda;
+    const reg = scaleByCount ? lambda * n : lambda;
     let trace = 0;
-    for (let c = 0; c < k; c++) {
-      a[c * k + c] += reg;
-      trace += a[c * k + c];
+    gram(xt, n, a, k);
+    // Right side Xᵀy, four coordinates per pass over r.
+    let c = 0;
+    for (; c + 3 < k; c += 4) {
+      const c0 = c * n;
+      const c1 = c0 + n;
+      const c2 = c1 + n;
+      const c3 = c2 + n;
+      let s0 = 0;
+      let s1 = 0;
+      let s2 = 0;
+      let s3 = 0;
+      for (let t = 0; t < n; t++) {
+        const y = r[t];
+        s0 += xt[c0 + t] * y;
+        s1 += xt[c1 + t] * y;
+        s2 += xt[c2 + t] * y;
+        s3 += xt[c3 + t] * y;
+      }
+      rhs[c] = s0;
+      rhs[c + 1] = s1;
+      rhs[c + 2] = s2;
+      rhs[c + 3] = s3;
+    }
+    for (; c < k; c++) {
+      const cn = c * n;
+      let sy = 0;
+      for (let t = 0; t < n; t++) sy += xt[cn + t] * r[t];
+      rhs[c] = sy;
+    }
+    for (let d = 0; d < k; d++) {
+      a[d * k + d] += reg;
+      trace += a[d * k + d];
     }
     let ok = choleskyInPlace(a, k);
+    // Singular normal matrix (λ w = 0 with too few or collinear neighbours): add a tiny ridge.
+    for (let attempt = 0, eps = 1e-10 * (trace / k + 1); !ok && attempt < 4; attempt++, eps *= 100) {
+      gram(xt, n, a, k);
+      for (let c = 0; c < k; c++) a[c * k + c] += reg + eps;
+      ok = choleskyInPlace(a, k);
+    }
     if (!ok) {
-      // Rebuild from scratch with a tiny ridge and retry.
-      let eps = 1e-10 * (trace / k + 1);
-      for (let attempt = 0; attempt < 4 && !ok; attempt++, eps *= 100) {
-        a0.fill(0);
-        for (let t = start; t < end; t++) {
-          const xo = nbr[t] * k;
-          for (let c = 0; c < k; c++) {
-            const xc = other[xo + c];
-            const rc = c * k;
-            for (let d = 0; d <= c; d++) a0[rc + d] += xc * other[xo + d];
-          }
-        }
-        for (let c = 0; c < k; c++) a0[c * k + c] += reg + eps;
-        a.set(a0);
-        ok = choleskyInPlace(a, k);
-      }
-      if (!ok) {
-        for (let c = 0; c < k; c++) out[oe + c] = 0;
-        continue;
-      }
+      for (let c = 0; c < k; c++) out[oe + c] = 0;
+      continue;
     }
     choleskySolveInPlace(a, k, rhs);
     for (let c = 0; c < k; c++) out[oe + c] = rhs[c];
@@ -222,7 +365,7 @@ export function fitLowRank(matrix: RatingMatrix, settings: LowRankSettings, opts
       u = start.rowFactors;
       v = start.colFactors;
     }
-    const work = createWorkspace(k);
+    const work = createWorkspace(k, Math.max(maxDegree(idx.rowPtr), maxDegree(idx.colPtr)));
     const stop = opts.shouldStop;
     const f0 = lowRankObjective(idx, resRow, u, v, k, lambda, scaleByCount);
     if (!Number.isFinite(f0)) throw new FitFailedError('the starting objective is not finite');
