@@ -5,15 +5,16 @@
  * so differences between rows of the table come from the settings, not from the split.
  *   best  = the row with the smallest mean RMSE;
  *   SE    = sdRmse(best) / √k                (standard error of best's mean over k folds);
- *   oneSE = among low-rank rows with meanRmse ≤ meanRmse(best) + SE, the smallest rank
- *           (ties: smaller mean RMSE). The simplest model statistically indistinguishable
- *           from the best (Hastie, Tibshirani & Friedman, The Elements of Statistical
- *           Learning, §7.10). Rows of other families have no rank and are not candidates
- *           unless the grid holds no low-rank row (then oneSE = best).
+ *   oneSE = among rows of best's family with meanRmse ≤ meanRmse(best) + SE, the simplest:
+ *           low-rank → the smallest rank (ties: smaller mean RMSE); gaussian → the largest
+ *           shrinkage, i.e. Σ closest to its diagonal (ties: smaller mean RMSE). The simplest
+ *           model statistically indistinguishable from the best (Hastie, Tibshirani &
+ *           Friedman, The Elements of Statistical Learning, §7.10). The family itself is the
+ *           one with the lowest mean RMSE: cross-validation chooses between families.
  * A setting whose fit fails is kept in the table with its error and NaN metrics.
  */
 import type { RatingMatrix } from '../matrix/ratingMatrix';
-import type { Centering, FitSettings, LowRankSettings } from './types';
+import type { Centering, FitSettings, GaussianSettings, LowRankSettings } from './types';
 import { crossValidate, makeFolds, type FoldScore } from './crossValidation';
 import { defaultLowRankSettings } from './defaults';
 import { FitCancelledError } from './errors';
@@ -84,13 +85,20 @@ export function chooseFromTable(table: TuneRow[], k: number): Omit<TuneResult, '
   let pick = -1;
   for (let t = 0; t < table.length; t++) {
     const row = table[t];
-    if (row.settings.model !== 'lowrank' || !(row.meanRmse <= threshold)) continue;
+    if (row.settings.model !== best.settings.model || !(row.meanRmse <= threshold)) continue;
     if (pick < 0) {
       pick = t;
       continue;
     }
-    const cur = table[pick].settings as LowRankSettings;
-    if (row.settings.rank < cur.rank || (row.settings.rank === cur.rank && row.meanRmse < table[pick].meanRmse)) pick = t;
+    const cur = table[pick].settings;
+    const tie = row.meanRmse < table[pick].meanRmse;
+    if (row.settings.model === 'lowrank') {
+      const rank = (cur as LowRankSettings).rank;
+      if (row.settings.rank < rank || (row.settings.rank === rank && tie)) pick = t;
+    } else {
+      const shrinkage = (cur as GaussianSettings).shrinkage;
+      if (row.settings.shrinkage > shrinkage || (row.settings.shrinkage === shrinkage && tie)) pick = t;
+    }
   }
   if (pick < 0) pick = bestIndex;
   return { bestIndex, best, threshold, oneStandardErrorIndex: pick, oneStandardError: table[pick] };

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { fitModel } from '../../../src-shared/engine/fitModel';
-import { expandLowRankGrid, tune } from '../../../src-shared/engine/tuning';
+import { chooseFromTable, expandLowRankGrid, tune, type TuneRow } from '../../../src-shared/engine/tuning';
 import { defaultGaussianSettings } from '../../../src-shared/engine/gaussian';
 import { ar1Covariance, drawNormal, hideAtRandom, toMatrix } from './helpers';
 
@@ -29,5 +29,34 @@ describe('the Gaussian family inside fitModel and tuning', () => {
     expect(r.best.settings.model).toBe('gaussian');
     const bestLow = Math.min(...r.table.filter((t) => t.settings.model === 'lowrank').map((t) => t.meanRmse));
     expect(r.best.meanRmse).toBeLessThan(bestLow);
+  });
+
+  it('the one-standard-error choice stays in the family with the lowest mean RMSE', () => {
+    // Source: one-standard-error rule (Hastie, Tibshirani & Friedman, The Elements of
+    // Statistical Learning, §7.10): the simplest model within one SE of the best; here
+    // "simplest" is read inside the winning family (largest shrinkage for the Gaussian one).
+    const g = (shrinkage: number, meanRmse: number): TuneRow => ({
+      settings: { ...defaultGaussianSettings(), shrinkage },
+      meanRmse,
+      sdRmse: 0.02,
+      meanMae: meanRmse,
+      sdMae: 0,
+      folds: [],
+    });
+    const l = (rank: number, meanRmse: number): TuneRow => ({
+      settings: { ...expandLowRankGrid({ ranks: [rank], lambdas: [1], centerings: ['both'] })[0] },
+      meanRmse,
+      sdRmse: 0.02,
+      meanMae: meanRmse,
+      sdMae: 0,
+      folds: [],
+    });
+    // SE = 0.02 / √4 = 0.01; threshold 0.81
+    const a = chooseFromTable([l(1, 0.805), l(3, 0.83), g(0, 0.8), g(0.1, 0.808), g(0.2, 0.85)], 4);
+    expect(a.best.settings).toMatchObject({ model: 'gaussian', shrinkage: 0 });
+    expect(a.threshold).toBeCloseTo(0.81, 12);
+    expect(a.oneStandardError.settings).toMatchObject({ model: 'gaussian', shrinkage: 0.1 });
+    const b = chooseFromTable([l(1, 0.805), l(3, 0.79), g(0, 0.8)], 4);
+    expect(b.oneStandardError.settings).toMatchObject({ model: 'lowrank', rank: 1 });
   });
 });
