@@ -104,6 +104,24 @@ describe('determinism and failures', () => {
     expect(() => fitModel(matrixOf(2, 2, values.map(() => 1)), { ...base(), rank: -1 })).toThrow('rank');
   });
 
+  it('a non-finite start ends the fit with a clear error instead of returning NaN', () => {
+    // Source: IEEE 754 — Infinity · 0 and Infinity − Infinity are NaN; the objective must be checked, not trusted.
+    const { matrix } = lowRankCase(12, 9, 2, 0.3, 0.7, 24);
+    const rowFactors = new Float64Array(12 * 2).fill(Infinity);
+    const colFactors = new Float64Array(9 * 2).fill(1);
+    expect(() => fitModel(matrix, { ...base(), rank: 2 }, { warmStart: { rowFactors, colFactors } })).toThrow(/not finite/);
+  });
+
+  it('a warm start from a converged fit converges again at once', () => {
+    // Source: a fixed point of the alternating updates stays fixed (each half-step returns the same minimizer).
+    const { matrix } = lowRankCase(30, 20, 2, 0.3, 0.6, 25);
+    const s = { ...base(), rank: 2, tolerance: 1e-10, maxIterations: 500 };
+    const first = fitModel(matrix, s);
+    const again = fitModel(matrix, s, { warmStart: { rowFactors: first.rowFactors, colFactors: first.colFactors } });
+    expect(again.iterations).toBeLessThan(first.iterations);
+    expect(again.objectiveTrace[again.objectiveTrace.length - 1]).toBeCloseTo(first.objectiveTrace[first.objectiveTrace.length - 1], 6);
+  });
+
   it('reports progress and stops when asked', () => {
     const { matrix } = lowRankCase(40, 30, 3, 0.3, 0.5, 22);
     const seen: number[] = [];
