@@ -7,7 +7,29 @@
  * cheap, stores only the touched cells) or a whole-matrix swap (row/column
  * operations, transposition, scale changes: the matrices are small).
  */
+import type { FitSettings } from '../../src-shared/engine/types';
 import { cloneMatrix, type RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
+import { newProjectDocument, type ProjectDocument, type SavedRun } from '../../src-shared/project/projectDocument';
+
+/**
+ * The parts of a project file that are not the matrix (model settings, saved
+ * runs, notes). Other panels (the model and runs panels) read and write these;
+ * `contribute` hooks let them fill in their current state just before a save
+ * and take it back after an open.
+ */
+export interface ProjectParts {
+  settings: FitSettings | null;
+  runs: SavedRun[];
+  notes: string;
+  createdAt: string;
+}
+
+export interface ProjectContributor {
+  /** Called before a save or recovery snapshot: write your state into `parts`. */
+  collect?(parts: ProjectParts): void;
+  /** Called after a project was opened or restored. */
+  load?(parts: Readonly<ProjectParts>): void;
+}
 
 export interface CellPatch {
   kind: 'cells';
@@ -48,6 +70,15 @@ export class DocumentStore {
   source: DocumentSource = { kind: 'new', name: '' };
   /** Revision at the last save (or open); differs from `revision` when there are unsaved changes. */
   savedRevision = 0;
+  /** The project file this document was opened from or last saved to; null when never saved. */
+  filePath: string | null = null;
+  /** Settings, saved runs and notes that travel with the project file. */
+  parts: ProjectParts = { settings: null, runs: [], notes: '', createdAt: new Date().toISOString() };
+  private readonly contributors = new Set<ProjectContributor>();
+  private readonly seqOf = new WeakMap<Change, number>();
+  private nextSeq = 1;
+  private savedSeq = 0;
+  private forcedDirty = false;
 
   constructor(matrix: RatingMatrix) {
     this.matrix = matrix;
@@ -57,8 +88,13 @@ export class DocumentStore {
     return this.matrix;
   }
 
+  /** Unsaved changes: the history position differs from the one saved (undoing back to it makes the document clean again). */
   get dirty(): boolean {
-    return this.revision !== this.savedRevision;
+    return this.forcedDirty || this.topSeq() !== this.savedSeq;
+  }
+
+  private topSeq(): number {
+    return this.undoStack.length ? this.seqOf.get(this.undoStack[this.undoStack.length - 1]) ?? -1 : 0;
   }
 
   subscribe(listener: (e: DocumentEvent) => void): () => void {
@@ -71,21 +107,57 @@ export class DocumentStore {
   }
 
   /** Open a different document: history starts afresh. */
-  replace(matrix: RatingMatrix, title: string, source: DocumentSource): void {
+  replace(matrix: RatingMatrix, title: string, source: DocumentSource, filePath: string | null = null, parts?: ProjectParts): void {
     this.matrix = matrix;
+    this.filePath = filePath;
+    this.parts = parts ?? { settings: null, runs: [], notes: '', createdAt: new Date().toISOString() };
+    for (const c of this.contributors) c.load?.(this.parts);
     this.title = title;
     this.source = source;
     this.undoStack = [];
     this.redoStack = [];
     this.revision++;
     this.savedRevision = this.revision;
+    this.savedSeq = 0;
+    this.forcedDirty = false;
     this.emit({ type: 'replaced' });
     this.emit({ type: 'history' });
   }
 
-  markSaved(): void {
+  /** After a save: the document is clean; the undo/redo history stays (it survives a save). */
+  markSaved(filePath?: string): void {
+    if (filePath !== undefined) this.filePath = filePath;
     this.savedRevision = this.revision;
+    this.savedSeq = this.topSeq();
+    this.forcedDirty = false;
     this.emit({ type: 'history' });
+  }
+
+  /** Mark the document as changed without an undoable edit (e.g. restored from a recovery file). */
+  markUnsaved(): void {
+    this.forcedDirty = true;
+    if (this.savedRevision === this.revision) this.savedRevision = -1;
+    this.emit({ type: 'history' });
+  }
+
+  addContributor(c: ProjectContributor): () => void {
+    this.contributors.add(c);
+    return () => this.contributors.delete(c);
+  }
+
+  /** Open a project document: matrix, settings, runs and notes; history starts afresh. */
+  replaceProject(doc: ProjectDocument, title: string, source: DocumentSource, filePath: string | null): void {
+    const parts = { settings: doc.settings, runs: doc.runs.slice(), notes: doc.notes, createdAt: doc.createdAt };
+    this.replace(cloneMatrix(doc.matrix), title, source, filePath, parts);
+  }
+
+  /** The current document as a project (a copy), after every contributor has added its state. */
+  toProject(now: Date = new Date()): ProjectDocument {
+    const parts: ProjectParts = { ...this.parts, runs: this.parts.runs.slice() };
+    for (const c of this.contributors) c.collect?.(parts);
+    this.parts = parts;
+    const doc = newProjectDocument(cloneMatrix(this.matrix), now);
+    return { ...doc, settings: parts.settings, runs: parts.runs, notes: parts.notes, createdAt: parts.createdAt };
   }
 
   /** Set cells (row-major indices) to new values (NaN = missing) as one undoable change. */
@@ -109,6 +181,7 @@ export class DocumentStore {
   }
 
   private apply(change: Change): void {
+    this.seqOf.set(change, this.nextSeq++);
     this.redo_(change);
     this.undoStack.push(change);
     this.redoStack = [];
