@@ -95,6 +95,47 @@ export const fitResultPayloadSchema = z.object({
 });
 export type FitResultPayload = z.infer<typeof fitResultPayloadSchema>;
 
+export const trustRequestSchema = z.discriminatedUnion('method', [
+  z.object({ method: z.literal('folds'), k: z.number().int().min(2).max(20) }),
+  z.object({ method: z.literal('bootstrap'), B: z.number().int().min(2).max(200) }),
+]);
+
+/** Per-cell trust of a fit: ensemble spread and support; weak rows/columns have fewer observations than the rank. */
+export const trustPayloadSchema = z.object({
+  spread: nullableNumbers,
+  rowSupport: z.array(z.number().int()),
+  colSupport: z.array(z.number().int()),
+  weakRows: z.array(z.number().int()),
+  weakCols: z.array(z.number().int()),
+});
+export type TrustPayload = z.infer<typeof trustPayloadSchema>;
+
+const foldScoreSchema = z.object({ rmse: z.number().nullable(), mae: z.number().nullable(), n: z.number().int() });
+
+export const crossValidationPayloadSchema = z.object({
+  folds: z.array(foldScoreSchema),
+  meanRmse: z.number().nullable(),
+  sdRmse: z.number().nullable(),
+  meanMae: z.number().nullable(),
+  sdMae: z.number().nullable(),
+});
+export type CrossValidationPayload = z.infer<typeof crossValidationPayloadSchema>;
+
+export const tuneRowPayloadSchema = crossValidationPayloadSchema.extend({
+  settings: fitSettingsSchema,
+  error: z.string().optional(),
+});
+
+export const tunePayloadSchema = z.object({
+  k: z.number().int(),
+  seed: z.number().int(),
+  table: z.array(tuneRowPayloadSchema),
+  bestIndex: z.number().int(),
+  oneStandardErrorIndex: z.number().int(),
+  threshold: z.number().nullable(),
+});
+export type TunePayload = z.infer<typeof tunePayloadSchema>;
+
 export const sampleInfoSchema = z.object({
   id: z.string(),
   title: z.string(),
@@ -288,14 +329,66 @@ export const apiMethods = {
     request: empty,
     reply: z.object({ supported: z.boolean() }),
   },
-  /** Start a fit in the worker; progress and the result arrive as events. */
+  // --- fitting, evaluation, export (issue 5) ---
+  /**
+   * Start a fit in the worker; progress and the result arrive as events. With
+   * `trust`, the result also carries the per-cell spread over an ensemble.
+   * `warmStart` continues from a previous run's factors (live refit after an edit).
+   * Fits run on their own worker, so a long evaluation never delays them.
+   */
   'fit.start': {
-    request: z.object({ matrix: matrixPayloadSchema, settings: fitSettingsSchema }).strict(),
+    request: z
+      .object({
+        matrix: matrixPayloadSchema,
+        settings: fitSettingsSchema,
+        trust: trustRequestSchema.optional(),
+        warmStart: z.object({ rowFactors: z.array(z.number()), colFactors: z.array(z.number()) }).optional(),
+      })
+      .strict(),
+    reply: z.object({ jobId }),
+  },
+  /** k-fold cross-validation of one setting; answers with a `fit.evaluated` event. */
+  'fit.evaluate': {
+    request: z
+      .object({ matrix: matrixPayloadSchema, settings: fitSettingsSchema, folds: z.number().int().min(2).max(20), seed: z.number().int() })
+      .strict(),
+    reply: z.object({ jobId }),
+  },
+  /** Several settings on the same folds; answers with a `fit.tuned` event. */
+  'fit.tune': {
+    request: z
+      .object({
+        matrix: matrixPayloadSchema,
+        settingsList: z.array(fitSettingsSchema).min(1).max(2000),
+        folds: z.number().int().min(2).max(20),
+        seed: z.number().int(),
+      })
+      .strict(),
     reply: z.object({ jobId }),
   },
   'fit.cancel': {
     request: z.object({ jobId }).strict(),
     reply: z.object({ cancelled: z.boolean() }),
+  },
+  /** Where exports go by default: a folder in the user's home, and a free file name there. */
+  'export.suggestPath': {
+    request: z.object({ fileName: z.string().min(1).max(255) }).strict(),
+    reply: z.object({ path: z.string() }),
+  },
+  /** Write an export (and optionally its settings sidecar) atomically; never overwrites silently. */
+  'export.write': {
+    request: z
+      .object({
+        path: z.string().min(1).max(4096),
+        text: z.string(),
+        sidecar: z.string().optional(),
+        overwrite: z.boolean(),
+      })
+      .strict(),
+    reply: z.union([
+      z.object({ ok: z.literal(true), path: z.string(), sidecarPath: z.string().nullable(), bytes: z.number().int() }),
+      z.object({ ok: z.literal(false), reason: z.enum(['exists', 'invalid-path']), message: z.string() }),
+    ]),
   },
 } as const;
 
@@ -318,7 +411,12 @@ export const apiEvents = {
     objective: z.number().nullable(),
     elapsedMs: z.number(),
   }),
-  'fit.result': z.object({ jobId, result: fitResultPayloadSchema }),
+  /** Folds or grid points done, for evaluate and tune jobs. */
+  'fit.step': z.object({ jobId, done: z.number().int().min(0), total: z.number().int().min(0), elapsedMs: z.number() }),
+  'fit.result': z.object({ jobId, result: fitResultPayloadSchema, trust: trustPayloadSchema.optional() }),
+  'fit.evaluated': z.object({ jobId, result: crossValidationPayloadSchema }),
+  'fit.tuned': z.object({ jobId, result: tunePayloadSchema }),
+  'fit.cancelled': z.object({ jobId }),
   'fit.error': z.object({ jobId, message: z.string() }),
   /** A menu command chosen in the Electron application menu. */
   'menu.command': z.object({ command: z.string().min(1).max(100) }),

@@ -2,7 +2,10 @@
  * Conversions between in-memory objects (typed arrays, NaN = missing) and their
  * JSON-safe wire form in api.ts (plain arrays, null = missing).
  */
-import type { FitResultPayload, MatrixPayload } from './api';
+import type { CrossValidationPayload, FitResultPayload, MatrixPayload, TrustPayload, TunePayload } from './api';
+import type { CrossValidationResult } from './engine/crossValidation';
+import type { CellTrust } from './engine/trust';
+import type { TuneResult } from './engine/tuning';
 import type { FitResult, FitSettings } from './engine/types';
 import type { RatingMatrix } from './matrix/ratingMatrix';
 
@@ -82,5 +85,55 @@ export function fitResultFromPayload(p: FitResultPayload): FitResult {
     converged: p.converged,
     elapsedMs: p.elapsedMs,
     ...(p.spread ? { spread: fromNullable(p.spread) } : {}),
+  };
+}
+
+// ----- evaluation results ------------------------------------------------------------
+
+
+const fin = (x: number): number | null => (Number.isFinite(x) ? x : null);
+
+export function trustToPayload(t: CellTrust): TrustPayload {
+  return {
+    spread: toNullable(t.spread),
+    rowSupport: Array.from(t.rowSupport),
+    colSupport: Array.from(t.colSupport),
+    weakRows: t.weakRows.slice(),
+    weakCols: t.weakCols.slice(),
+  };
+}
+
+export function trustFromPayload(p: TrustPayload): CellTrust {
+  return {
+    spread: fromNullable(p.spread),
+    rowSupport: Int32Array.from(p.rowSupport),
+    colSupport: Int32Array.from(p.colSupport),
+    weakRows: p.weakRows.slice(),
+    weakCols: p.weakCols.slice(),
+  };
+}
+
+export function crossValidationToPayload(r: CrossValidationResult): CrossValidationPayload {
+  return {
+    folds: r.folds.map((f) => ({ rmse: fin(f.rmse), mae: fin(f.mae), n: f.n })),
+    meanRmse: fin(r.meanRmse),
+    sdRmse: fin(r.sdRmse),
+    meanMae: fin(r.meanMae),
+    sdMae: fin(r.sdMae),
+  };
+}
+
+export function tuneToPayload(r: TuneResult): TunePayload {
+  return {
+    k: r.k,
+    seed: r.seed,
+    table: r.table.map((row) => ({
+      settings: row.settings,
+      ...crossValidationToPayload(row),
+      ...(row.error ? { error: row.error } : {}),
+    })),
+    bestIndex: r.bestIndex,
+    oneStandardErrorIndex: r.oneStandardErrorIndex,
+    threshold: fin(r.threshold),
   };
 }

@@ -4,14 +4,18 @@
  * Rows are plain `{ i }` records; every cell reads the document's Float64Array
  * through a value getter, so the grid never holds a copy of the data. Row
  * labels are pinned left; column virtualization stays on so that a
- * 1000 × 1000 matrix opens and scrolls. Model output is drawn from a separate
- * overlay (see setOverlay) into blank cells only; it is never written into the
- * document.
+ * 1000 × 1000 matrix opens and scrolls.
+ *
+ * Model output is a separate layer (`GridLayers`): estimates are drawn into
+ * blank cells only, baselines sit in a pinned right column and a pinned bottom
+ * row, weak rows/columns are marked. None of it is ever written into the
+ * document; typing into a filled cell makes it an observed value.
  */
 import {
   AllCommunityModule,
   ModuleRegistry,
   createGrid,
+  type CellClassParams,
   type CellKeyDownEvent,
   type ColDef,
   type GridApi,
@@ -22,21 +26,13 @@ import { scaleDecimals } from '../../src-shared/matrix/ratingMatrix';
 import type { DocumentStore } from '../state/documentStore';
 import { formatRating, parseEntry } from './cellText';
 import { rankfillGridTheme } from './gridTheme';
+import { diffColour, estimateTint, type GridLayers } from './overlayLayer';
 
 ModuleRegistry.registerModules([AllCommunityModule]);
 
-interface RowRecord {
+/** A data row (i ≥ 0) or the pinned bottom row of column baselines (i = -1). */
+export interface RowRecord {
   i: number;
-}
-
-/** What the overlay layer offers for a blank cell. */
-export interface OverlayLayer {
-  /** Row-major predictions for every cell. */
-  predictions: Float64Array;
-  /** Row-major spread (std. dev.) per cell, when known. */
-  spread?: Float64Array;
-  /** Largest spread, for scaling the tint. */
-  maxSpread: number;
 }
 
 export interface RatingGridOptions {
@@ -48,13 +44,15 @@ export interface RatingGridOptions {
 }
 
 export const LABEL_COL_ID = 'rowLabel';
+export const BASELINE_COL_ID = 'rowBaseline';
+export const COUNT_COL_ID = 'rowCount';
 export const colIdFor = (j: number) => `c${j}`;
-const colIndexOf = (colId: string | undefined): number => (colId && colId.startsWith('c') ? Number(colId.slice(1)) : -1);
+export const colIndexOf = (colId: string | undefined): number => (colId && /^c\d+$/.test(colId) ? Number(colId.slice(1)) : -1);
+const BASELINE_ROW = -1;
 
 export class RatingGrid {
   readonly api: GridApi<RowRecord>;
-  private overlay: OverlayLayer | null = null;
-  private overlayVisible = true;
+  private layers: GridLayers = { overlay: null, overlayVisible: true, diff: null, baselines: null, weak: null };
 
   constructor(
     private readonly host: HTMLElement,
@@ -73,13 +71,14 @@ export class RatingGrid {
       enterNavigatesVerticallyAfterEdit: true,
       undoRedoCellEditing: false,
       animateRows: false,
+      tooltipShowDelay: 300,
       defaultColDef: { sortable: false, resizable: true, suppressMovable: true },
       onCellKeyDown: (e) => {
         if ('column' in e) this.onKeyDown(e);
       },
       onCellFocused: (e) => {
         const j = colIndexOf(typeof e.column === 'string' ? e.column : e.column?.getColId());
-        if (e.rowIndex !== null && e.rowIndex !== undefined && j >= 0) opts.onCellFocused?.(e.rowIndex, j);
+        if (e.rowIndex !== null && e.rowIndex !== undefined && e.rowPinned == null && j >= 0) opts.onCellFocused?.(e.rowIndex, j);
       },
     });
     opts.store.subscribe((e) => {
@@ -89,10 +88,13 @@ export class RatingGrid {
     this.rebuild();
   }
 
+  private get doc() {
+    return this.opts.store.current;
+  }
+
   /** Column definitions and row records for the current shape. */
   private rebuild(): void {
-    const m = this.opts.store.current;
-    const cols = m.colLabels.length;
+    const m = this.doc;
     const decimals = scaleDecimals(m.scale);
     const labelCol: ColDef<RowRecord> = {
       colId: LABEL_COL_ID,
@@ -101,54 +103,116 @@ export class RatingGrid {
       lockPinned: true,
       width: 170,
       editable: false,
-      cellClass: 'rf-row-label',
-      valueGetter: (p: ValueGetterParams<RowRecord>) => (p.data ? this.opts.store.current.rowLabels[p.data.i] : ''),
+      valueGetter: (p: ValueGetterParams<RowRecord>) => {
+        if (!p.data) return '';
+        return p.data.i === BASELINE_ROW ? this.baselineRowLabel() : this.doc.rowLabels[p.data.i];
+      },
+      cellClass: (p: CellClassParams<RowRecord>) => {
+        if (p.data?.i === BASELINE_ROW) return 'rf-row-label rf-baseline-label';
+        return p.data && this.layers.weak?.rows.has(p.data.i) ? 'rf-row-label rf-weak' : 'rf-row-label';
+      },
+      tooltipValueGetter: (p) => (p.data && p.data.i >= 0 ? this.layers.weak?.rows.get(p.data.i) : undefined),
     };
     const valueCols: ColDef<RowRecord>[] = m.colLabels.map((label, j) => ({
       colId: colIdFor(j),
       headerName: label,
       headerTooltip: label,
+      headerClass: () => (this.layers.weak?.cols.has(j) ? 'rf-weak-col' : ''),
+      headerTooltipValueGetter: () => this.layers.weak?.cols.get(j) ?? label,
       width: 92,
-      editable: true,
+      editable: (p) => p.data?.i !== BASELINE_ROW,
       type: 'rightAligned',
       cellDataType: false,
       valueGetter: (p: ValueGetterParams<RowRecord>) => {
         if (!p.data) return null;
-        const doc = this.opts.store.current;
-        const v = doc.values[p.data.i * doc.colLabels.length + j];
+        if (p.data.i === BASELINE_ROW) return null;
+        const v = this.doc.values[p.data.i * this.doc.colLabels.length + j];
         return Number.isNaN(v) ? null : v;
       },
       valueFormatter: (p) => {
+        if (!p.data) return '';
+        if (p.data.i === BASELINE_ROW) return formatRating(this.layers.baselines?.col?.[j], 2);
         if (p.value !== null && p.value !== undefined) return formatRating(p.value as number, decimals);
-        const est = p.data ? this.estimateAt(p.data.i, j) : undefined;
-        return est === undefined ? '' : formatRating(est, decimals);
+        const diff = this.diffAt(p.data.i, j);
+        if (diff !== undefined) return (diff > 0 ? '+' : '') + formatRating(diff, Math.max(2, decimals));
+        const est = this.estimateAt(p.data.i, j);
+        return est === undefined ? '' : formatRating(est, Math.max(1, decimals));
       },
       valueSetter: (p: ValueSetterParams<RowRecord>) => this.commitEdit(p, j),
-      cellClassRules: {
-        'rf-filled': (p) => (p.value === null || p.value === undefined) && !!p.data && this.estimateAt(p.data.i, j) !== undefined,
+      cellClass: (p: CellClassParams<RowRecord>) => {
+        if (!p.data) return undefined;
+        if (p.data.i === BASELINE_ROW) return 'rf-baseline-cell';
+        if (p.value !== null && p.value !== undefined) return undefined;
+        if (this.diffAt(p.data.i, j) !== undefined) return 'rf-diff';
+        return this.estimateAt(p.data.i, j) !== undefined ? 'rf-filled' : undefined;
       },
       cellStyle: (p) => {
-        if (p.value !== null && p.value !== undefined) return null;
-        const tint = p.data ? this.tintAt(p.data.i, j) : undefined;
-        return tint === undefined ? null : { backgroundColor: `rgba(196, 122, 44, ${tint.toFixed(3)})` };
+        if (!p.data || p.data.i === BASELINE_ROW || (p.value !== null && p.value !== undefined)) return null;
+        const diff = this.diffAt(p.data.i, j);
+        if (diff !== undefined && this.layers.diff) return { backgroundColor: diffColour(diff, this.layers.diff.maxAbs) };
+        const tint = this.overlayOn() ? estimateTint(this.layers.overlay!, p.data.i * this.doc.colLabels.length + j) : undefined;
+        return tint === undefined ? null : { backgroundColor: tint };
       },
     }));
-    void cols;
-    this.api.setGridOption('columnDefs', [labelCol, ...valueCols]);
+    const sideCols: ColDef<RowRecord>[] = this.layers.baselines
+      ? [
+          {
+            colId: BASELINE_COL_ID,
+            headerName: 'Baseline',
+            headerTooltip: 'The row’s baseline under the run’s centering: what the model predicts before the interaction term',
+            pinned: 'right',
+            width: 92,
+            editable: false,
+            type: 'rightAligned',
+            cellClass: 'rf-baseline-cell',
+            valueGetter: (p) => (p.data && p.data.i >= 0 ? this.layers.baselines?.row[p.data.i] ?? null : null),
+            valueFormatter: (p) => formatRating(p.value as number | null, 2),
+          },
+          {
+            colId: COUNT_COL_ID,
+            headerName: 'Observed',
+            headerTooltip: 'How many cells of the row are observed',
+            pinned: 'right',
+            width: 86,
+            editable: false,
+            type: 'rightAligned',
+            cellClass: 'rf-baseline-cell',
+            valueGetter: (p) => (p.data && p.data.i >= 0 ? this.rowObservedCount(p.data.i) : null),
+          },
+        ]
+      : [];
+    this.api.setGridOption('columnDefs', [labelCol, ...valueCols, ...sideCols]);
     this.api.setGridOption(
       'rowData',
       m.rowLabels.map((_, i) => ({ i })),
     );
+    this.updatePinnedRows();
+  }
+
+  private baselineRowLabel(): string {
+    return this.layers.baselines?.colLabel ?? 'Column baseline';
+  }
+
+  private updatePinnedRows(): void {
+    const show = !!this.layers.baselines?.col && this.layers.baselines.col.length === this.doc.colLabels.length;
+    this.api.setGridOption('pinnedBottomRowData', show ? [{ i: BASELINE_ROW }] : []);
+  }
+
+  private rowObservedCount(i: number): number {
+    const cols = this.doc.colLabels.length;
+    let n = 0;
+    for (let j = 0; j < cols; j++) if (!Number.isNaN(this.doc.values[i * cols + j])) n++;
+    return n;
   }
 
   private refreshCells(indices: Int32Array): void {
-    const cols = this.opts.store.current.colLabels.length;
+    const cols = this.doc.colLabels.length;
     if (indices.length > 200) {
       this.api.refreshCells({ force: true });
       return;
     }
     const rowNodes = [];
-    const columns = new Set<string>();
+    const columns = new Set<string>(this.layers.baselines ? [COUNT_COL_ID] : []);
     for (const idx of indices) {
       const node = this.api.getRowNode(String(Math.floor(idx / cols)));
       if (node) rowNodes.push(node);
@@ -158,7 +222,7 @@ export class RatingGrid {
   }
 
   private commitEdit(p: ValueSetterParams<RowRecord>, j: number): boolean {
-    const doc = this.opts.store.current;
+    const doc = this.doc;
     const entry = parseEntry(p.newValue, doc.scale);
     if (entry.kind === 'refused') {
       this.opts.onRefused(`${doc.rowLabels[p.data.i]} × ${doc.colLabels[j]}: ${entry.reason}. The cell keeps its previous value.`);
@@ -175,38 +239,47 @@ export class RatingGrid {
     if (!ev || (ev.key !== 'Delete' && ev.key !== 'Backspace')) return;
     if (this.api.getEditingCells().length > 0) return;
     const j = colIndexOf(e.column.getColId());
-    if (j < 0 || !e.data) return;
-    const doc = this.opts.store.current;
+    if (j < 0 || !e.data || e.data.i < 0) return;
+    const doc = this.doc;
     this.opts.store.setCells('Clear cell', [e.data.i * doc.colLabels.length + j], [NaN]);
     ev.preventDefault();
   }
 
-  // ----- overlay layer ------------------------------------------------------------
+  // ----- model layers ---------------------------------------------------------------
 
-  setOverlay(layer: OverlayLayer | null): void {
-    this.overlay = layer;
+  /** Replace some of the model layers; columns are rebuilt only when the side column appears or goes. */
+  setLayers(patch: Partial<GridLayers>): void {
+    const hadSide = !!this.layers.baselines;
+    this.layers = { ...this.layers, ...patch };
+    if (hadSide !== !!this.layers.baselines) {
+      this.rebuild();
+      return;
+    }
+    this.updatePinnedRows();
+    this.api.refreshHeader();
     this.api.refreshCells({ force: true });
   }
 
-  setOverlayVisible(visible: boolean): void {
-    this.overlayVisible = visible;
-    this.api.refreshCells({ force: true });
+  get currentLayers(): Readonly<GridLayers> {
+    return this.layers;
+  }
+
+  private overlayOn(): boolean {
+    const o = this.layers.overlay;
+    return !!o && this.layers.overlayVisible && o.predictions.length === this.doc.values.length;
   }
 
   private estimateAt(i: number, j: number): number | undefined {
-    if (!this.overlay || !this.overlayVisible) return undefined;
-    const cols = this.opts.store.current.colLabels.length;
-    const v = this.overlay.predictions[i * cols + j];
+    if (!this.overlayOn()) return undefined;
+    const v = this.layers.overlay!.predictions[i * this.doc.colLabels.length + j];
     return Number.isFinite(v) ? v : undefined;
   }
 
-  /** Tint strength 0.06–0.42 grows with the cell's spread; undefined when no estimate. */
-  private tintAt(i: number, j: number): number | undefined {
-    if (this.estimateAt(i, j) === undefined || !this.overlay) return undefined;
-    const cols = this.opts.store.current.colLabels.length;
-    const s = this.overlay.spread?.[i * cols + j];
-    if (s === undefined || !Number.isFinite(s) || !(this.overlay.maxSpread > 0)) return 0.1;
-    return 0.06 + 0.36 * Math.min(1, s / this.overlay.maxSpread);
+  private diffAt(i: number, j: number): number | undefined {
+    const d = this.layers.diff;
+    if (!d || d.values.length !== this.doc.values.length) return undefined;
+    const v = d.values[i * this.doc.colLabels.length + j];
+    return Number.isFinite(v) ? v : undefined;
   }
 
   focusCell(row: number, col: number): void {

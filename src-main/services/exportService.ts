@@ -1,0 +1,48 @@
+/**
+ * Writing exports chosen in the page: the text (built in the page by the shared
+ * writers) goes to disk atomically, with its settings sidecar beside it as
+ * NAME.settings.json. An existing file is never replaced unless the user said so.
+ */
+import { existsSync } from 'node:fs';
+import { mkdir } from 'node:fs/promises';
+import { homedir } from 'node:os';
+import { basename, dirname, extname, isAbsolute, join } from 'node:path';
+import type { ApiReply, ApiRequest } from '../../src-shared/api';
+import { atomicWrite } from './atomicWrite';
+
+export function sidecarPathFor(path: string): string {
+  const ext = extname(path);
+  return join(dirname(path), `${basename(path, ext)}.settings.json`);
+}
+
+export function defaultExportDir(env: NodeJS.ProcessEnv = process.env): string {
+  return env.RANKFILL_EXPORT_DIR ?? join(homedir(), 'Rankfill exports');
+}
+
+/** A path in the export folder that does not exist yet: name.csv, name-2.csv, … */
+export function suggestExportPath(fileName: string, dir = defaultExportDir()): string {
+  const safe = fileName.replace(/[\\/:*?"<>|\u0000-\u001f]/g, '_').slice(0, 200) || 'export.csv';
+  const ext = extname(safe) || '.csv';
+  const stem = basename(safe, extname(safe));
+  for (let n = 1; n < 10_000; n++) {
+    const candidate = join(dir, n === 1 ? `${stem}${ext}` : `${stem}-${n}${ext}`);
+    if (!existsSync(candidate) && !existsSync(sidecarPathFor(candidate))) return candidate;
+  }
+  return join(dir, `${stem}-${Date.now()}${ext}`);
+}
+
+export async function writeExport(req: ApiRequest<'export.write'>): Promise<ApiReply<'export.write'>> {
+  const { path } = req;
+  if (!isAbsolute(path) || path.endsWith('/') || path.includes('\u0000')) {
+    return { ok: false, reason: 'invalid-path', message: `“${path}” is not a full file path` };
+  }
+  const sidecarPath = req.sidecar === undefined ? null : sidecarPathFor(path);
+  if (!req.overwrite) {
+    const existing = [path, sidecarPath].find((p) => p !== null && existsSync(p));
+    if (existing) return { ok: false, reason: 'exists', message: `${existing} already exists` };
+  }
+  await mkdir(dirname(path), { recursive: true });
+  await atomicWrite(path, req.text, { backup: false });
+  if (sidecarPath !== null && req.sidecar !== undefined) await atomicWrite(sidecarPath, req.sidecar, { backup: false });
+  return { ok: true, path, sidecarPath, bytes: Buffer.byteLength(req.text) };
+}

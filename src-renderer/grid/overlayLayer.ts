@@ -1,0 +1,56 @@
+/**
+ * The model's layers as the grid draws them. Everything here is derived from
+ * a run (or a pair of runs) and is never stored in the document.
+ */
+
+export interface OverlayLayer {
+  /** Row-major predictions for every cell; drawn only where the document is blank. */
+  predictions: Float64Array;
+  /** Row-major spread (std. dev.) per cell, when the run computed it. */
+  spread?: Float64Array;
+  /** Largest spread over blank cells, for scaling the tint. */
+  maxSpread: number;
+}
+
+export interface DiffLayer {
+  /** Row-major B − A on cells blank in the document; NaN elsewhere. */
+  values: Float64Array;
+  maxAbs: number;
+}
+
+export interface BaselineLayer {
+  /** One baseline per row (side column). */
+  row: Float64Array;
+  /** One per column (pinned bottom row), or null when the centering has none. */
+  col: Float64Array | null;
+  /** Label of the bottom row. */
+  colLabel: string;
+}
+
+export interface WeakMarks {
+  /** Row index → reason shown on hover. */
+  rows: Map<number, string>;
+  cols: Map<number, string>;
+}
+
+export interface GridLayers {
+  overlay: OverlayLayer | null;
+  overlayVisible: boolean;
+  diff: DiffLayer | null;
+  baselines: BaselineLayer | null;
+  weak: WeakMarks | null;
+}
+
+/** Amber tint whose strength grows with the cell's spread: faint = sure, strong = unsure. */
+export function estimateTint(layer: OverlayLayer, index: number): string {
+  const s = layer.spread?.[index];
+  const strength = s === undefined || !Number.isFinite(s) || !(layer.maxSpread > 0) ? 0.1 : 0.06 + 0.36 * Math.min(1, s / layer.maxSpread);
+  return `rgba(214, 138, 54, ${strength.toFixed(3)})`;
+}
+
+/** Our diverging scale for B − A: slate blue below zero, paper at zero, brick red above. */
+export function diffColour(d: number, maxAbs: number): string {
+  const t = maxAbs > 0 ? Math.max(-1, Math.min(1, d / maxAbs)) : 0;
+  const a = (0.08 + 0.5 * Math.abs(t)).toFixed(3);
+  return t < 0 ? `rgba(58, 96, 160, ${a})` : `rgba(178, 64, 44, ${a})`;
+}

@@ -1,0 +1,84 @@
+/**
+ * Details of the focused cell: the observed value, or the filled value taken
+ * apart as baseline + interaction term, its spread and support, and the
+ * observed cells in its row that moved it most.
+ */
+import { explainCell } from '../../src-shared/engine/contributions';
+import { scaleDecimals } from '../../src-shared/matrix/ratingMatrix';
+import { el, fmt } from './dom';
+import type { PanelContext } from './panelContext';
+
+export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(row: number, col: number): void } {
+  const body = el('div', { testid: 'cell-details' }, [el('p', { className: 'rf-hint' }, ['Select a cell to see where its value comes from.'])]);
+  root.append(el('h2', {}, ['Cell details']), body);
+  let focused: { row: number; col: number } | null = null;
+
+  const render = () => {
+    if (!focused) return;
+    const { row, col } = focused;
+    const m = ctx.store.current;
+    if (row >= m.rowLabels.length || col >= m.colLabels.length) return;
+    const cols = m.colLabels.length;
+    const idx = row * cols + col;
+    const y = m.values[idx];
+    const run = ctx.runs.shown;
+    const dec = scaleDecimals(m.scale);
+    const rows: [string, string][] = [];
+    const title = el('p', { className: 'rf-cell-title' }, [`${m.rowLabels[row]} × ${m.colLabels[col]}`]);
+    const parts: HTMLElement[] = [title];
+    let rowObs = 0;
+    let colObs = 0;
+    for (let j = 0; j < cols; j++) if (!Number.isNaN(m.values[row * cols + j])) rowObs++;
+    for (let i = 0; i < m.rowLabels.length; i++) if (!Number.isNaN(m.values[i * cols + col])) colObs++;
+    const matches = run && run.rows === m.rowLabels.length && run.cols === cols;
+    if (!Number.isNaN(y)) {
+      rows.push(['Observed rating', y.toFixed(dec)]);
+      if (matches) rows.push(['Model’s fit of it', fmt(run.result.predictions[idx], 2)]);
+    } else if (!matches) {
+      rows.push(['Value', 'blank (no estimate yet: use Fill)']);
+    } else {
+      const r = run.result;
+      const ex = explainCell(m.values, r, row, col);
+      rows.push(['Filled value (estimate)', fmt(r.predictions[idx], 2)]);
+      rows.push(['= baseline', fmt(r.baseline[idx], 2)]);
+      if (r.settings.model === 'lowrank') rows.push(['+ interaction term', fmt(ex ? ex.interaction : r.predictions[idx] - r.baseline[idx], 2)]);
+      const spread = run.trust?.spread[idx] ?? r.spread?.[idx];
+      rows.push(['Spread (std. dev.)', fmt(spread, 2)]);
+      if (ex) {
+        const raw = r.baseline[idx] + ex.interaction;
+        if (Math.abs(raw - r.predictions[idx]) > 1e-6) rows.push(['before clipping to the scale', fmt(raw, 2)]);
+        const top = ex.contributions.slice(0, 5);
+        if (top.length) {
+          const table = el('table', { className: 'rf-table', testid: 'cell-contributors' }, [
+            el('tr', {}, [el('th', {}, ['Observed in this row']), el('th', {}, ['value']), el('th', {}, ['adds'])]),
+            ...top.map((c) =>
+              el('tr', {}, [el('td', {}, [m.colLabels[c.col]]), el('td', {}, [c.value.toFixed(dec)]), el('td', {}, [(c.contribution >= 0 ? '+' : '') + c.contribution.toFixed(2)])]),
+            ),
+          ]);
+          parts.push(
+            el('h3', {}, ['What moved it most']),
+            el('p', { className: 'rf-hint' }, ['Each observed cell in the row adds its weight × (value − baseline); the sum is the interaction term.']),
+            table,
+          );
+        }
+      }
+    }
+    rows.push(['Support', `${rowObs} observed in the row, ${colObs} in the column`]);
+    if (matches && run.trust) {
+      if (run.trust.weakRows.includes(row)) rows.push(['Caution', `row has fewer observed values than the rank (${run.result.rank})`]);
+      if (run.trust.weakCols.includes(col)) rows.push(['Caution', `column has fewer observed values than the rank (${run.result.rank})`]);
+    }
+    const dl = el('table', { className: 'rf-table rf-kv' }, rows.map(([k, v]) => el('tr', {}, [el('td', {}, [k]), el('td', {}, [v])])));
+    parts.splice(1, 0, dl);
+    body.replaceChildren(...parts);
+  };
+
+  ctx.runs.subscribe(() => render());
+  ctx.store.subscribe(() => render());
+  return {
+    focus(row, col) {
+      focused = { row, col };
+      render();
+    },
+  };
+}

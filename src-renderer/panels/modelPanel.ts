@@ -1,0 +1,231 @@
+/**
+ * The model panel: settings in plain words, the Fill and Stop actions, a
+ * progress bar with the objective drawn live, and the overlay controls with
+ * their legend.
+ */
+import { defaultLowRankSettings } from '../../src-shared/engine/defaults';
+import type { Centering, FitSettings, GaussianSettings, LowRankSettings } from '../../src-shared/engine/types';
+import { ObjectiveChart } from '../charts/objectiveChart';
+import type { FillState, FitController } from '../runs/fitController';
+import { el, field, numberInput } from './dom';
+
+export interface ModelPanelHooks {
+  controller: FitController;
+  setOverlayVisible(visible: boolean): void;
+}
+
+const GAUSSIAN_DEFAULTS: Omit<GaussianSettings, 'seed' | 'clipToScale' | 'snapToStep' | 'maxIterations' | 'tolerance'> = {
+  model: 'gaussian',
+  shrinkage: 0.1,
+  transpose: false,
+};
+
+export class ModelPanel {
+  private readonly family: HTMLSelectElement;
+  private readonly rank: HTMLInputElement;
+  private readonly lambda: HTMLInputElement;
+  private readonly centering: HTMLSelectElement;
+  private readonly iterations: HTMLInputElement;
+  private readonly seed: HTMLInputElement;
+  private readonly clip: HTMLInputElement;
+  private readonly shrinkage: HTMLInputElement;
+  private readonly transpose: HTMLInputElement;
+  private readonly lowRankBox: HTMLElement;
+  private readonly gaussianBox: HTMLElement;
+  private readonly fillButton: HTMLButtonElement;
+  private readonly stopButton: HTMLButtonElement;
+  private readonly bar: HTMLProgressElement;
+  private readonly progressText: HTMLElement;
+  private readonly message: HTMLElement;
+  private readonly chart: ObjectiveChart;
+
+  constructor(root: HTMLElement, private readonly hooks: ModelPanelHooks) {
+    const d = defaultLowRankSettings();
+    this.family = el('select', { testid: 'model-family' }) as HTMLSelectElement;
+    this.family.append(new Option('Low-rank with centering', 'lowrank'), new Option('Gaussian, for tall panels', 'gaussian'));
+    this.rank = numberInput('model-rank', d.rank, { min: 0, max: 50, step: 1 });
+    this.lambda = numberInput('model-lambda', d.lambda, { min: 0, step: 0.1 });
+    this.centering = el('select', { testid: 'model-centering' }) as HTMLSelectElement;
+    this.centering.append(
+      new Option('none', 'none'),
+      new Option('by row', 'row'),
+      new Option('by column', 'column'),
+      new Option('both (row and column)', 'both'),
+    );
+    this.centering.value = d.centering;
+    this.iterations = numberInput('model-iterations', d.maxIterations, { min: 1, max: 10000, step: 1 });
+    this.seed = numberInput('model-seed', d.seed, { step: 1 });
+    this.clip = el('input', { testid: 'model-clip' }) as HTMLInputElement;
+    this.clip.type = 'checkbox';
+    this.clip.checked = d.clipToScale;
+    this.shrinkage = numberInput('model-shrinkage', GAUSSIAN_DEFAULTS.shrinkage, { min: 0, max: 0.95, step: 0.05 });
+    this.transpose = el('input', { testid: 'model-transpose' }) as HTMLInputElement;
+    this.transpose.type = 'checkbox';
+
+    this.lowRankBox = el('div', { className: 'rf-fields' }, [
+      field('Rank', this.rank, 'How many hidden traits explain the ratings. 0 = baselines only.'),
+      field('Regularization λ', this.lambda, 'Pulls the traits toward zero; larger is more cautious with sparse rows and columns.'),
+      field('Centering', this.centering, 'What is taken out before the traits are fitted: each row’s mean, each column’s mean, both, or nothing.'),
+    ]);
+    this.gaussianBox = el('div', { className: 'rf-fields', hidden: true }, [
+      field('Shrinkage', this.shrinkage, 'Pulls the correlations between columns toward zero (0–0.95); helps small panels.'),
+      field('Variables are rows', this.transpose, 'Treat rows, not columns, as the measured variables.'),
+      el('p', { className: 'rf-hint', testid: 'gaussian-centering-note' }, [
+        'Centering does not apply: this model estimates each variable’s mean itself.',
+      ]),
+    ]);
+    const familyNote = el('p', { className: 'rf-hint', testid: 'family-note' });
+    const updateFamily = () => {
+      const g = this.family.value === 'gaussian';
+      this.lowRankBox.hidden = g;
+      this.gaussianBox.hidden = !g;
+      familyNote.textContent = g
+        ? 'Suits tall, narrow sets (many respondents, a few dozen items): fills each blank from the row’s other answers and the items’ correlations.'
+        : 'Suits most rating sets: a baseline plus a few hidden traits shared by rows and columns.';
+    };
+    this.family.addEventListener('change', updateFamily);
+    updateFamily();
+
+    this.fillButton = el('button', { className: 'rf-button rf-primary', testid: 'fill-button' }, ['Fill blank cells']) as HTMLButtonElement;
+    this.stopButton = el('button', { className: 'rf-button', testid: 'cancel-button', disabled: true }, ['Stop']) as HTMLButtonElement;
+    this.fillButton.addEventListener('click', () => void this.hooks.controller.fill(this.settings()));
+    this.stopButton.addEventListener('click', () => void this.hooks.controller.cancelFill());
+    this.bar = el('progress', { testid: 'fill-progress' }) as HTMLProgressElement;
+    this.bar.max = 1;
+    this.bar.value = 0;
+    this.progressText = el('div', { className: 'rf-hint', testid: 'fill-progress-text' }, ['No fit yet.']);
+    this.message = el('div', { className: 'rf-panel-error', testid: 'fill-message', hidden: true });
+    const chartHost = el('div', { className: 'rf-chart', testid: 'objective-chart' });
+
+    const overlayToggle = el('input', { testid: 'overlay-toggle' }) as HTMLInputElement;
+    overlayToggle.type = 'checkbox';
+    overlayToggle.checked = true;
+    overlayToggle.addEventListener('change', () => this.hooks.setOverlayVisible(overlayToggle.checked));
+    const liveToggle = el('input', { testid: 'live-toggle' }) as HTMLInputElement;
+    liveToggle.type = 'checkbox';
+    liveToggle.checked = hooks.controller.liveRefit;
+    liveToggle.addEventListener('change', () => (hooks.controller.liveRefit = liveToggle.checked));
+
+    root.append(
+      el('h2', {}, ['Model']),
+      field('Family', this.family),
+      familyNote,
+      this.lowRankBox,
+      this.gaussianBox,
+      el('details', { className: 'rf-more' }, [
+        el('summary', {}, ['More settings']),
+        field('Iterations', this.iterations, 'Upper limit on fitting rounds; fitting stops earlier once it settles.'),
+        field('Seed', this.seed, 'Same seed and data, same result.'),
+        field('Keep estimates on the scale', this.clip, 'Clip filled values to the scale’s minimum and maximum.'),
+      ]),
+      el('div', { className: 'rf-row' }, [this.fillButton, this.stopButton]),
+      this.bar,
+      this.progressText,
+      this.message,
+      chartHost,
+      el('h3', {}, ['Estimates in the grid']),
+      el('label', { className: 'rf-check' }, [overlayToggle, ' Show estimates in blank cells']),
+      el('label', { className: 'rf-check' }, [liveToggle, ' Refit after each edit']),
+      el('div', { className: 'rf-legend', testid: 'overlay-legend' }, [
+        el('span', { className: 'rf-legend-observed' }, ['5']),
+        ' observed rating  ',
+        el('span', { className: 'rf-legend-estimate rf-legend-sure' }, ['4.6']),
+        el('span', { className: 'rf-legend-estimate rf-legend-unsure' }, ['4.6']),
+        ' estimate: pale = folds agree, deep = folds disagree',
+      ]),
+      el('p', { className: 'rf-caution', testid: 'estimate-caution' }, [
+        'Filled values are model estimates, not measurements. Where rows or columns are people being judged, an estimate is not that person’s score.',
+      ]),
+    );
+    this.chart = new ObjectiveChart(chartHost);
+    hooks.controller.onFillState((s) => this.render(s));
+  }
+
+  /** The settings as the form shows them. */
+  settings(): FitSettings {
+    const iterations = Math.max(1, Math.round(Number(this.iterations.value) || 100));
+    const seed = Math.round(Number(this.seed.value) || 0);
+    if (this.family.value === 'gaussian') {
+      return {
+        ...GAUSSIAN_DEFAULTS,
+        shrinkage: Math.min(0.95, Math.max(0, Number(this.shrinkage.value) || 0)),
+        transpose: this.transpose.checked,
+        maxIterations: iterations,
+        tolerance: 1e-6,
+        seed,
+        clipToScale: this.clip.checked,
+        snapToStep: false,
+      };
+    }
+    const s: LowRankSettings = {
+      ...defaultLowRankSettings(),
+      rank: Math.max(0, Math.round(Number(this.rank.value) || 0)),
+      lambda: Math.max(0, Number(this.lambda.value) || 0),
+      centering: this.centering.value as Centering,
+      maxIterations: iterations,
+      seed,
+      clipToScale: this.clip.checked,
+    };
+    return s;
+  }
+
+  /** Put settings into the form (e.g. "apply" from the tuning panel or a run). */
+  apply(s: FitSettings): void {
+    this.family.value = s.model;
+    this.family.dispatchEvent(new Event('change'));
+    this.iterations.value = String(s.maxIterations);
+    this.seed.value = String(s.seed);
+    this.clip.checked = s.clipToScale;
+    if (s.model === 'gaussian') {
+      this.shrinkage.value = String(s.shrinkage);
+      this.transpose.checked = s.transpose;
+    } else {
+      this.rank.value = String(s.rank);
+      this.lambda.value = String(s.lambda);
+      this.centering.value = s.centering;
+    }
+  }
+
+  setCentering(c: Centering): void {
+    this.family.value = 'lowrank';
+    this.family.dispatchEvent(new Event('change'));
+    this.centering.value = c;
+  }
+
+  private render(s: FillState): void {
+    const running = s.phase === 'running';
+    this.fillButton.disabled = running;
+    this.stopButton.disabled = !running;
+    this.message.hidden = s.phase !== 'failed';
+    if (s.phase === 'failed') {
+      this.message.textContent = `The fit stopped: ${s.message}`;
+      this.progressText.textContent = 'No new run.';
+    } else if (s.phase === 'cancelled') {
+      this.progressText.textContent = 'Stopped; the previous estimates stay shown.';
+      this.bar.value = 0;
+    } else if (s.phase === 'running') {
+      const last = s.progress[s.progress.length - 1];
+      const max = s.settings.maxIterations;
+      this.bar.max = max;
+      this.bar.value = last ? Math.min(max, last.iteration) : 0;
+      this.progressText.textContent = last
+        ? `Iteration ${last.iteration} of at most ${max} · objective ${last.objective === null ? '—' : last.objective.toPrecision(6)} · ${Math.round(last.elapsedMs)} ms`
+        : 'Starting…';
+      this.chart.set(
+        s.progress.map((p) => p.iteration),
+        s.progress.map((p) => p.objective ?? NaN),
+      );
+    } else {
+      this.bar.value = this.bar.max;
+    }
+  }
+
+  /** Show a finished run's trace and summary. */
+  showRunTrace(trace: number[], summary: string): void {
+    this.chart.set(
+      trace.map((_, i) => i + 1),
+      trace,
+    );
+    this.progressText.textContent = summary;
+  }
+}

@@ -1,0 +1,20 @@
+/** What every side-panel section may use: the page's shared objects. */
+import type { HostBridge } from '../bridge/hostBridge';
+import type { RatingGrid } from '../grid/ratingGrid';
+import type { FitController } from '../runs/fitController';
+import type { RunStore } from '../runs/runStore';
+import type { DocumentStore } from '../state/documentStore';
+import type { ModelPanel } from './modelPanel';
+import type { Notice } from './notice';
+import type { SidePanel } from './sidePanel';
+
+export interface PanelContext {
+  bridge: HostBridge;
+  store: DocumentStore;
+  runs: RunStore;
+  controller: FitController;
+  grid: RatingGrid;
+  notice: Notice;
+  model: ModelPanel;
+  side: SidePanel;
+}

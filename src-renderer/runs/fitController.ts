@@ -1,0 +1,211 @@
+/**
+ * Runs the model from the page: Fill (a fit with per-cell trust), the live
+ * refit after each edit (warm-started from the shown run's factors, the older
+ * live job cancelled), cross-validation of a run, and setting grids for the
+ * centering comparison and the tuning panel. All heavy work happens in the
+ * main side's worker; this class only sends snapshots and collects results.
+ */
+import type { ApiEventPayload, CrossValidationPayload, TunePayload } from '../../src-shared/api';
+import { fitResultFromPayload, matrixToPayload, toNullable, trustFromPayload } from '../../src-shared/apiCodec';
+import type { FitSettings } from '../../src-shared/engine/types';
+import type { HostBridge } from '../bridge/hostBridge';
+import { JobEndedError, JobTracker } from '../bridge/jobTracker';
+import type { DocumentStore } from '../state/documentStore';
+import type { Run, RunStore } from './runStore';
+
+/** Ensemble used for the per-cell spread: the k fold models. */
+export const TRUST_FOLDS = 5;
+export const EVALUATION_FOLDS = 5;
+
+export type FillState =
+  | { phase: 'idle' }
+  | { phase: 'running'; jobId: string | null; settings: FitSettings; progress: ApiEventPayload<'fit.progress'>[] }
+  | { phase: 'failed'; message: string }
+  | { phase: 'cancelled' };
+
+export class FitController {
+  private readonly jobs: JobTracker;
+  private fillJob: string | null = null;
+  private liveJob: string | null = null;
+  private liveTimer: ReturnType<typeof setTimeout> | undefined;
+  private readonly fillListeners = new Set<(s: FillState) => void>();
+  /** Refit the shown run after each edit. */
+  liveRefit = true;
+  /** When the last live refit finished: edit revision → overlay latency, for the status line and benchmarks. */
+  lastLiveRefit: { revision: number; startedAt: number; finishedAt: number } | null = null;
+
+  constructor(
+    private readonly bridge: HostBridge,
+    private readonly doc: DocumentStore,
+    private readonly runs: RunStore,
+  ) {
+    this.jobs = new JobTracker(bridge);
+    doc.subscribe((e) => {
+      if (e.type === 'cells') this.scheduleLiveRefit();
+      else if (e.type === 'replaced') {
+        void this.cancelLive();
+        runs.clear();
+      } else if (e.type === 'shape') this.scheduleLiveRefit();
+    });
+  }
+
+  onFillState(l: (s: FillState) => void): () => void {
+    this.fillListeners.add(l);
+    return () => this.fillListeners.delete(l);
+  }
+
+  private setFill(s: FillState): void {
+    for (const l of this.fillListeners) l(s);
+  }
+
+  get filling(): boolean {
+    return this.fillJob !== null;
+  }
+
+  /** Fill the blank cells with a new run. Resolves with the run, or undefined when cancelled or failed. */
+  async fill(settings: FitSettings): Promise<Run | undefined> {
+    if (this.fillJob) await this.cancelFill();
+    await this.cancelLive();
+    const revision = this.doc.revision;
+    const matrix = this.doc.current;
+    const state: FillState = { phase: 'running', jobId: null, settings, progress: [] };
+    this.setFill(state);
+    let jobId: string;
+    try {
+      ({ jobId } = await this.bridge.call('fit.start', {
+        matrix: matrixToPayload(matrix),
+        settings,
+        trust: { method: 'folds', k: TRUST_FOLDS },
+      }));
+    } catch (err) {
+      this.setFill({ phase: 'failed', message: err instanceof Error ? err.message : String(err) });
+      return undefined;
+    }
+    this.fillJob = jobId;
+    state.jobId = jobId;
+    try {
+      const outcome = await this.jobs.follow(jobId, {
+        onProgress: (p) => {
+          state.progress.push(p);
+          this.setFill(state);
+        },
+      });
+      if (outcome.kind !== 'fit') throw new Error('unexpected reply to a fit');
+      const result = fitResultFromPayload(outcome.result);
+      const run = this.runs.add({
+        settings,
+        result,
+        trust: outcome.trust ? trustFromPayload(outcome.trust) : undefined,
+        createdAt: Date.now(),
+        docRevision: revision,
+        rows: result.rows,
+        cols: result.cols,
+        refits: 0,
+      });
+      this.setFill({ phase: 'idle' });
+      // Edits made while the fit ran are caught up by a live refit.
+      if (this.doc.revision !== revision) this.scheduleLiveRefit();
+      return run;
+    } catch (err) {
+      if (err instanceof JobEndedError && err.cancelled) this.setFill({ phase: 'cancelled' });
+      else this.setFill({ phase: 'failed', message: err instanceof Error ? err.message : String(err) });
+      return undefined;
+    } finally {
+      if (this.fillJob === jobId) this.fillJob = null;
+    }
+  }
+
+  async cancelFill(): Promise<void> {
+    const id = this.fillJob;
+    this.fillJob = null;
+    if (id) await this.bridge.call('fit.cancel', { jobId: id }).catch(() => undefined);
+  }
+
+  private async cancelLive(): Promise<void> {
+    clearTimeout(this.liveTimer);
+    const id = this.liveJob;
+    this.liveJob = null;
+    if (id) await this.bridge.call('fit.cancel', { jobId: id }).catch(() => undefined);
+  }
+
+  private scheduleLiveRefit(): void {
+    if (!this.liveRefit || this.fillJob) return;
+    const run = this.runs.shown;
+    if (!run) return;
+    clearTimeout(this.liveTimer);
+    // Coalesce a burst of changes (a paste, a quick run of keystrokes) into one refit.
+    this.liveTimer = setTimeout(() => void this.runLiveRefit(run), 0);
+  }
+
+  private async runLiveRefit(run: Run): Promise<void> {
+    const startedAt = performance.now();
+    const revision = this.doc.revision;
+    const matrix = this.doc.current;
+    const sameShape = matrix.rowLabels.length === run.rows && matrix.colLabels.length === run.cols;
+    const previous = this.liveJob;
+    this.liveJob = null;
+    if (previous) void this.bridge.call('fit.cancel', { jobId: previous }).catch(() => undefined);
+    let jobId: string;
+    try {
+      ({ jobId } = await this.bridge.call('fit.start', {
+        matrix: matrixToPayload(matrix),
+        settings: run.settings,
+        trust: { method: 'folds', k: TRUST_FOLDS },
+        ...(sameShape && run.result.rank > 0
+          ? { warmStart: { rowFactors: toNullable(run.result.rowFactors) as number[], colFactors: toNullable(run.result.colFactors) as number[] } }
+          : {}),
+      }));
+    } catch {
+      return;
+    }
+    this.liveJob = jobId;
+    try {
+      const outcome = await this.jobs.follow(jobId);
+      if (outcome.kind !== 'fit' || this.liveJob !== jobId) return;
+      const result = fitResultFromPayload(outcome.result);
+      if (result.rows !== matrix.rowLabels.length || result.cols !== matrix.colLabels.length) return;
+      run.rows = result.rows;
+      run.cols = result.cols;
+      this.runs.refit(run.id, result, outcome.trust ? trustFromPayload(outcome.trust) : undefined, revision);
+      this.lastLiveRefit = { revision, startedAt, finishedAt: performance.now() };
+    } catch {
+      // A cancelled live refit was superseded by a newer one; a failed one leaves the last result shown.
+    } finally {
+      if (this.liveJob === jobId) this.liveJob = null;
+    }
+  }
+
+  /** k-fold cross-validation of a run's settings on the current data; stores the errors on the run. */
+  async evaluate(run: Run, onStep?: (done: number, total: number) => void): Promise<CrossValidationPayload> {
+    const seed = run.settings.seed;
+    const { jobId } = await this.bridge.call('fit.evaluate', {
+      matrix: matrixToPayload(this.doc.current),
+      settings: run.settings,
+      folds: EVALUATION_FOLDS,
+      seed,
+    });
+    const outcome = await this.jobs.follow(jobId, { onStep: (p) => onStep?.(p.done, p.total) });
+    if (outcome.kind !== 'evaluated') throw new Error('unexpected reply to an evaluation');
+    this.runs.setEvaluation(run.id, { ...outcome.result, k: EVALUATION_FOLDS, seed });
+    return outcome.result;
+  }
+
+  /** Evaluate several settings on the same folds (centering comparison, tuning). */
+  async evaluateGrid(
+    settingsList: FitSettings[],
+    folds: number,
+    seed: number,
+    onStep?: (done: number, total: number) => void,
+    onJob?: (jobId: string) => void,
+  ): Promise<TunePayload> {
+    const { jobId } = await this.bridge.call('fit.tune', { matrix: matrixToPayload(this.doc.current), settingsList, folds, seed });
+    onJob?.(jobId);
+    const outcome = await this.jobs.follow(jobId, { onStep: (p) => onStep?.(p.done, p.total) });
+    if (outcome.kind !== 'tuned') throw new Error('unexpected reply to a settings grid');
+    return outcome.result;
+  }
+
+  cancelJob(jobId: string): Promise<unknown> {
+    return this.bridge.call('fit.cancel', { jobId }).catch(() => undefined);
+  }
+}

@@ -1,0 +1,115 @@
+/**
+ * Exports of a completed matrix, and the settings sidecar that records how it
+ * was made. Observed ratings are always written exactly as they are; rounding
+ * options touch filled values only. Filled values are model estimates: the wide
+ * exports say so in their corner cell, the long export marks every record's
+ * source, and the sidecar states it in words.
+ */
+import type { FitResult, FitSettings } from '../engine/types';
+import type { RatingMatrix } from '../matrix/ratingMatrix';
+import type { Delimiter } from './detectDelimiter';
+import { writeFilledLongCsv, writeWideCsv } from './writeDelimited';
+
+export type ExportKind = 'filled-wide' | 'estimates-wide' | 'long';
+
+export interface ExportOptions {
+  kind: ExportKind;
+  /** Snap filled values to the scale's step. */
+  roundToStep: boolean;
+  /** Round filled values to this many decimals (null = full precision). */
+  decimals: number | null;
+  delimiter: Delimiter;
+}
+
+export const ESTIMATE_CAUTION =
+  'Filled values are model estimates computed from the other ratings, not measurements. ' +
+  'Where rows or columns are people being judged (grades, hiring or award panels), a filled value is not that person’s score: ' +
+  'follow your organisation’s own rules and review.';
+
+export const CORNER_LABEL: Record<Exclude<ExportKind, 'long'>, string> = {
+  'filled-wide': 'row \\ column (blank cells filled with model estimates)',
+  'estimates-wide': 'row \\ column (model estimates only; observed cells left blank)',
+};
+
+/** A filled value as exported: clipped results from the fit, then the chosen rounding. */
+export function exportedEstimate(x: number, matrix: RatingMatrix, opts: Pick<ExportOptions, 'roundToStep' | 'decimals'>): number {
+  if (!opts.roundToStep && opts.decimals === null) return x;
+  let v = x;
+  const { min, max, step } = matrix.scale;
+  if (opts.roundToStep && step > 0) v = Math.min(max, Math.max(min, min + Math.round((v - min) / step) * step));
+  if (opts.decimals !== null) {
+    const f = 10 ** opts.decimals;
+    v = Math.round(v * f) / f;
+  }
+  // Remove float noise from the step arithmetic (e.g. 3.5000000000000004).
+  return Number(v.toPrecision(12));
+}
+
+export function buildExport(matrix: RatingMatrix, result: FitResult, spread: ArrayLike<number> | undefined, opts: ExportOptions): string {
+  const cols = matrix.colLabels.length;
+  if (result.rows !== matrix.rowLabels.length || result.cols !== cols) {
+    throw new Error('the run does not match the matrix shape; fill again before exporting');
+  }
+  const estimate = (i: number, j: number) => exportedEstimate(result.predictions[i * cols + j], matrix, opts);
+  if (opts.kind === 'long') {
+    const predictions = new Float64Array(result.predictions.length);
+    for (let c = 0; c < predictions.length; c++) predictions[c] = estimate(Math.floor(c / cols), c % cols);
+    return writeFilledLongCsv(matrix, { predictions, baseline: result.baseline, spread }, { delimiter: opts.delimiter });
+  }
+  const onlyEstimates = opts.kind === 'estimates-wide';
+  return writeWideCsv(matrix, {
+    delimiter: opts.delimiter,
+    cornerLabel: CORNER_LABEL[opts.kind],
+    layer: (i, j) => {
+      const y = matrix.values[i * cols + j];
+      if (y === y) return onlyEstimates ? undefined : y;
+      return estimate(i, j);
+    },
+  });
+}
+
+/** Canonical text of a matrix for hashing: labels, scale and values, independent of file format. */
+export function matrixFingerprintText(matrix: RatingMatrix): string {
+  const parts = [
+    JSON.stringify(matrix.rowLabels),
+    JSON.stringify(matrix.colLabels),
+    JSON.stringify(matrix.scale),
+    Array.from(matrix.values, (v) => (v === v ? String(v) : '')).join(','),
+  ];
+  return parts.join('\n');
+}
+
+export interface SidecarInput {
+  app: { name: string; version: string };
+  exportedAt: Date;
+  file: string;
+  options: ExportOptions;
+  document: { title: string; rows: number; cols: number; observed: number; filled: number };
+  settings: FitSettings;
+  run: { iterations: number; converged: boolean; finalObjective: number | null; refitsAfterEdits: number };
+  metrics: { folds: number; seed: number; meanRmse: number | null; sdRmse: number | null; meanMae: number | null; sdMae: number | null } | null;
+  /** SHA-256 of matrixFingerprintText(matrix), hex. */
+  inputSha256: string;
+}
+
+export function buildSidecar(s: SidecarInput): string {
+  return (
+    JSON.stringify(
+      {
+        format: 'rankfill-export-settings',
+        formatVersion: 1,
+        caution: ESTIMATE_CAUTION,
+        app: s.app,
+        exportedAt: s.exportedAt.toISOString(),
+        file: s.file,
+        export: s.options,
+        input: { ...s.document, sha256: s.inputSha256, hashOf: 'labels, scale and values (see matrixFingerprintText)' },
+        model: { family: s.settings.model, settings: s.settings, seed: s.settings.seed },
+        run: s.run,
+        crossValidation: s.metrics,
+      },
+      null,
+      2,
+    ) + '\n'
+  );
+}
