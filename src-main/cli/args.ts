@@ -4,23 +4,31 @@
  * Every mistake becomes a UsageError whose message is one line; main.ts prints it with
  * the usage line and exits 2.
  */
-import type { Centering } from '../../src-shared/engine/types';
+import type { Centering, ModelFamily } from '../../src-shared/engine/types';
 
 export const USAGE = [
-  'usage: rankfill fill IN.csv --out OUT.csv [--rank K] [--lambda L] [--centering none|row|column|both]',
+  'usage: rankfill fill IN.csv --out OUT.csv [--model lowrank|gaussian] [--rank K] [--lambda L]',
+  '                [--centering none|row|column|both] [--shrinkage S] [--transpose]',
   '                [--iterations N] [--tolerance T] [--seed S] [--scale MIN:MAX[:STEP]] [--long] [--decimals D] [--json]',
   '       rankfill evaluate IN.csv [model options] [--folds 5] [--json]',
-  '       rankfill tune IN.csv [--ranks 0,1,2,3,5,8] [--lambdas 0.1,1,10,30] [--centering none,row,column,both]',
+  '       rankfill tune IN.csv [--models lowrank,gaussian] [--ranks 0,1,2,3,5,8] [--lambdas 0.1,1,10,30]',
+  '                [--centering none,row,column,both] [--shrinkages 0,0.05,0.1,0.2] [--transpose]',
   '                [--folds 5] [--seed S] [--iterations N] [--tolerance T] [--scale MIN:MAX[:STEP]] [--long] [--json]',
 ].join('\n');
 
 export const HELP = `${USAGE}
 
-Completes a sparse rating matrix with a centred low-rank model (p = baseline + u·v).
+Completes a sparse rating matrix with a centred low-rank model (p = baseline + u·v), or with
+a Gaussian model (--model gaussian): the columns are variables of one multivariate normal,
+fitted by EM, and a missing cell is its conditional mean given the row's observed cells. The
+Gaussian model suits tall panels (many rows, at most 300 columns); it has its own mean, so
+--centering does not apply, and --shrinkage S in [0, 1) pulls its covariance toward the
+diagonal; --transpose makes the rows the variables.
   fill       fit once and write every cell (observed values unchanged, missing ones predicted)
   evaluate   k-fold cross-validation of one setting (RMSE and MAE per fold)
-  tune       cross-validate a grid of ranks × lambdas × centerings on the same folds and pick
-             the best setting and the smallest rank within one standard error of it
+  tune       cross-validate a grid of ranks × lambdas × centerings (and, when the shape allows,
+             Gaussian shrinkages) on the same folds; the family with the lowest mean RMSE
+             wins, and its simplest setting within one standard error is the choice
 
 Input is wide CSV (header row = column labels, first column = row labels, blank = missing);
 --long reads and writes row,column,value triples. Without --scale the scale is the observed
@@ -54,17 +62,26 @@ export interface CliOptions {
   ranks: number[];
   lambdas: number[];
   centerings: Centering[];
+  /** fill / evaluate: the model family (default lowrank). */
+  model: ModelFamily;
+  shrinkage?: number;
+  /** Gaussian model: the rows are the variables. */
+  transpose: boolean;
+  /** tune: families to compare; undefined = both when the shape allows the Gaussian one. */
+  models?: ModelFamily[];
+  shrinkages: number[];
 }
 
 export type ParsedArgs = { kind: 'help' } | { kind: 'version' } | { kind: 'run'; options: CliOptions };
 
 const CENTERINGS: readonly Centering[] = ['none', 'row', 'column', 'both'];
-const VALUE_OPTIONS = new Set(['out', 'rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'decimals', 'folds', 'ranks', 'lambdas']);
-const FLAG_OPTIONS = new Set(['long', 'json']);
+const MODELS: readonly ModelFamily[] = ['lowrank', 'gaussian'];
+const VALUE_OPTIONS = new Set(['out', 'rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'decimals', 'folds', 'ranks', 'lambdas', 'model', 'shrinkage', 'models', 'shrinkages']);
+const FLAG_OPTIONS = new Set(['long', 'json', 'transpose']);
 const ALLOWED: Record<Command, Set<string>> = {
-  fill: new Set(['out', 'rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'long', 'json', 'decimals']),
-  evaluate: new Set(['rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'long', 'json', 'folds']),
-  tune: new Set(['ranks', 'lambdas', 'centering', 'folds', 'seed', 'iterations', 'tolerance', 'scale', 'long', 'json']),
+  fill: new Set(['out', 'rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'long', 'json', 'decimals', 'model', 'shrinkage', 'transpose']),
+  evaluate: new Set(['rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'long', 'json', 'folds', 'model', 'shrinkage', 'transpose']),
+  tune: new Set(['ranks', 'lambdas', 'centering', 'folds', 'seed', 'iterations', 'tolerance', 'scale', 'long', 'json', 'models', 'shrinkages', 'transpose']),
 };
 
 function number(name: string, text: string): number {
@@ -90,6 +107,18 @@ function centering(name: string, text: string): Centering {
   const c = text.trim() as Centering;
   if (!CENTERINGS.includes(c)) throw new UsageError(`--${name} expects one of ${CENTERINGS.join(', ')}, got "${text}"`);
   return c;
+}
+
+function model(name: string, text: string): ModelFamily {
+  const m = text.trim() as ModelFamily;
+  if (!MODELS.includes(m)) throw new UsageError(`--${name} expects ${name === 'models' ? 'a list of ' : 'one of '}${MODELS.join(', ')}, got "${text}"`);
+  return m;
+}
+
+function shrinkage(name: string, text: string): number {
+  const x = number(name, text);
+  if (!(x >= 0 && x < 1)) throw new UsageError(`--${name} expects a number ≥ 0 and < 1, got "${text}"`);
+  return x;
 }
 
 function list<T>(name: string, text: string, item: (name: string, s: string) => T): T[] {
@@ -155,7 +184,25 @@ export function parseArgs(argv: string[]): ParsedArgs {
     ranks: get('ranks') !== undefined ? list('ranks', get('ranks')!, (n, s) => wholeNumber(n, s, 0)) : [0, 1, 2, 3, 5, 8],
     lambdas: get('lambdas') !== undefined ? list('lambdas', get('lambdas')!, nonNegative) : [0.1, 1, 10, 30],
     centerings: ['none', 'row', 'column', 'both'],
+    model: get('model') !== undefined ? model('model', get('model')!) : 'lowrank',
+    transpose: flags.has('transpose'),
+    shrinkages: get('shrinkages') !== undefined ? list('shrinkages', get('shrinkages')!, shrinkage) : [0, 0.05, 0.1, 0.2],
   };
+  if (get('shrinkage') !== undefined) opts.shrinkage = shrinkage('shrinkage', get('shrinkage')!);
+  if (get('models') !== undefined) opts.models = [...new Set(list('models', get('models')!, model))];
+  if (command !== 'tune') {
+    const family = opts.model;
+    const other = family === 'gaussian' ? ['rank', 'lambda', 'centering'] : ['shrinkage', 'transpose'];
+    for (const n of other) {
+      if (values.has(n) || flags.has(n)) {
+        throw new UsageError(
+          n === 'centering'
+            ? '--centering does not apply to the gaussian model (its mean is part of the model)'
+            : `--${n} applies to the ${family === 'gaussian' ? 'lowrank' : 'gaussian'} model only (add --model ${family === 'gaussian' ? 'lowrank' : 'gaussian'})`,
+        );
+      }
+    }
+  }
   if (get('out') !== undefined) opts.out = get('out');
   if (get('rank') !== undefined) opts.rank = wholeNumber('rank', get('rank')!, 0);
   if (get('lambda') !== undefined) opts.lambda = nonNegative('lambda', get('lambda')!);

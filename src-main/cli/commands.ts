@@ -5,14 +5,16 @@
  */
 import { renameSync, writeFileSync, unlinkSync } from 'node:fs';
 import { fitModel } from '../../src-shared/engine/fitModel';
+import { FitFailedError } from '../../src-shared/engine/errors';
 import { crossValidate, makeFolds } from '../../src-shared/engine/crossValidation';
 import { expandLowRankGrid, tune } from '../../src-shared/engine/tuning';
 import { filledValues } from '../../src-shared/engine/predictions';
-import type { FitSettings } from '../../src-shared/engine/types';
+import type { FitSettings, ModelFamily } from '../../src-shared/engine/types';
+import { gaussianRefusal } from '../../src-shared/engine/gaussian/fitGaussian';
 import { observedCount, type RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
 import { writeLongCsv, writeWideCsv } from '../../src-shared/io';
 import type { CliOptions } from './args';
-import { settingsFromOptions } from './modelSettings';
+import { fitSettingsFromOptions, gaussianSettingsFromOptions, settingsFromOptions } from './modelSettings';
 
 export interface CommandOutput {
   code: number;
@@ -32,7 +34,9 @@ function fmt(x: number, digits = 4): string {
 }
 
 function settingsLabel(s: FitSettings): string {
-  return s.model === 'lowrank' ? `rank ${s.rank}, lambda ${s.lambda}, centering ${s.centering}` : `gaussian, shrinkage ${s.shrinkage}`;
+  return s.model === 'lowrank'
+    ? `rank ${s.rank}, lambda ${s.lambda}, centering ${s.centering}`
+    : `gaussian, shrinkage ${s.shrinkage}${s.transpose ? ', rows are the variables' : ''}`;
 }
 
 /** Write through a temporary file, so a failure never leaves half a file behind. */
@@ -52,7 +56,7 @@ function writeAtomically(path: string, text: string): void {
 }
 
 export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
-  const settings = settingsFromOptions(o);
+  const settings = fitSettingsFromOptions(o);
   const t0 = performance.now();
   const fit = fitModel(m, settings);
   timings.fitMs = performance.now() - t0;
@@ -112,7 +116,7 @@ export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, 
 }
 
 export function runEvaluate(o: CliOptions, m: RatingMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
-  const settings = settingsFromOptions(o);
+  const settings = fitSettingsFromOptions(o);
   const t0 = performance.now();
   const folds = makeFolds(m, o.folds, settings.seed);
   const cv = crossValidate(m, settings, folds);
@@ -132,20 +136,77 @@ export function runEvaluate(o: CliOptions, m: RatingMatrix, timings: Record<stri
   return { code: 0, stderr: [], stdout: lines };
 }
 
+/** The fill/evaluate options that reproduce one setting. */
+function fillArguments(s: FitSettings): string[] {
+  if (s.model === 'lowrank') return ['--model', 'lowrank', '--rank', String(s.rank), '--lambda', String(s.lambda), '--centering', s.centering];
+  return ['--model', 'gaussian', '--shrinkage', String(s.shrinkage), ...(s.transpose ? ['--transpose'] : [])];
+}
+
+/**
+ * Which families `tune` compares. Asked for with --models: those (the Gaussian one left out,
+ * with its reason, when it refuses the matrix). By default: low-rank, plus the Gaussian model
+ * when it accepts the matrix and the panel is tall (at least 2 rows per variable: below that
+ * its p(p+3)/2 means and covariances are poorly determined).
+ */
+function tuneFamilies(o: CliOptions, m: RatingMatrix): { families: ModelFamily[]; skipped: { model: ModelFamily; reason: string }[] } {
+  const asked = o.models ?? ['lowrank', 'gaussian'];
+  const families: ModelFamily[] = [];
+  const skipped: { model: ModelFamily; reason: string }[] = [];
+  for (const f of asked) {
+    if (f !== 'gaussian') {
+      families.push(f);
+      continue;
+    }
+    const refusal = gaussianRefusal(m, o.transpose);
+    const n = o.transpose ? m.colLabels.length : m.rowLabels.length;
+    const p = o.transpose ? m.rowLabels.length : m.colLabels.length;
+    if (refusal !== undefined) skipped.push({ model: 'gaussian', reason: refusal });
+    else if (o.models === undefined && n < 2 * p) {
+      skipped.push({
+        model: 'gaussian',
+        reason: `The panel is not tall enough for the Gaussian model by default (${n} draws for ${p} variables; it is tried from 2 per variable). Ask for it with --models lowrank,gaussian.`,
+      });
+    } else families.push('gaussian');
+  }
+  return { families, skipped };
+}
+
 export function runTune(o: CliOptions, m: RatingMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
   const base = settingsFromOptions(o);
-  const list = expandLowRankGrid({ ranks: o.ranks, lambdas: o.lambdas, centerings: o.centerings, base });
+  const { families, skipped } = tuneFamilies(o, m);
+  if (families.length === 0) throw new FitFailedError(skipped.map((x) => x.reason).join(' '));
+  const list: FitSettings[] = [];
+  if (families.includes('lowrank')) list.push(...expandLowRankGrid({ ranks: o.ranks, lambdas: o.lambdas, centerings: o.centerings, base }));
+  if (families.includes('gaussian')) {
+    const g = gaussianSettingsFromOptions(o);
+    for (const shrinkage of o.shrinkages) list.push({ ...g, shrinkage });
+  }
   const t0 = performance.now();
   const result = tune(m, { settings: list }, o.folds, base.seed);
   timings.tuneMs = performance.now() - t0;
   const row = (r: (typeof result.table)[number]) => ({
-    ...(r.settings.model === 'lowrank' ? { rank: r.settings.rank, lambda: r.settings.lambda, centering: r.settings.centering } : { model: r.settings.model }),
+    model: r.settings.model,
+    ...(r.settings.model === 'lowrank'
+      ? { rank: r.settings.rank, lambda: r.settings.lambda, centering: r.settings.centering }
+      : { shrinkage: r.settings.shrinkage, transpose: r.settings.transpose }),
     meanRmse: r.meanRmse,
     sdRmse: r.sdRmse,
     meanMae: r.meanMae,
     sdMae: r.sdMae,
     ...(r.error ? { error: r.error } : {}),
   });
+  // The choice: the family with the lowest mean RMSE, its simplest setting within one SE.
+  const chosen = result.oneStandardError;
+  const bestOf = (f: ModelFamily) =>
+    result.table.filter((r) => r.settings.model === f && Number.isFinite(r.meanRmse)).reduce<number>((a, r) => Math.min(a, r.meanRmse), Infinity);
+  const rival: ModelFamily = chosen.settings.model === 'lowrank' ? 'gaussian' : 'lowrank';
+  const why =
+    families.includes(rival) && Number.isFinite(bestOf(rival))
+      ? `lowest cross-validated RMSE: ${fmt(bestOf(chosen.settings.model))} for the best ${chosen.settings.model} setting against ${fmt(bestOf(rival))} for the best ${rival} one`
+      : families.includes(rival)
+        ? `every ${rival} setting failed to fit`
+        : (skipped.find((x) => x.model === rival)?.reason ?? `only the ${chosen.settings.model} family was asked for`);
+  const choice = { ...row(chosen), settings: chosen.settings, fillArguments: fillArguments(chosen.settings), reason: why };
   timings.totalMs = performance.now() - startedAt;
   if (o.json) {
     return {
@@ -154,6 +215,9 @@ export function runTune(o: CliOptions, m: RatingMatrix, timings: Record<string, 
       stdout: [
         JSON.stringify({
           command: 'tune',
+          models: families,
+          skipped,
+          choice,
           input: o.input,
           folds: o.folds,
           seed: base.seed,
@@ -166,13 +230,22 @@ export function runTune(o: CliOptions, m: RatingMatrix, timings: Record<string, 
       ],
     };
   }
-  const lines = [`${o.folds}-fold cross-validation of ${list.length} settings (same folds for all)`, 'rank  lambda  centering  mean rmse  sd rmse  mean mae'];
+  const lines = [`${o.folds}-fold cross-validation of ${list.length} settings (same folds for all)`];
+  for (const x of skipped) lines.push(`${x.model} model not tried: ${x.reason}`);
+  if (families.includes('lowrank')) lines.push('rank  lambda  centering  mean rmse  sd rmse  mean mae');
   for (const r of result.table) {
     const s = r.settings;
     if (s.model !== 'lowrank') continue;
     lines.push(`${String(s.rank).padEnd(5)} ${String(s.lambda).padEnd(7)} ${s.centering.padEnd(10)} ${fmt(r.meanRmse).padEnd(10)} ${fmt(r.sdRmse).padEnd(8)} ${fmt(r.meanMae)}${r.error ? `  (failed: ${r.error})` : ''}`);
   }
+  if (families.includes('gaussian')) lines.push('gaussian shrinkage  mean rmse  sd rmse  mean mae');
+  for (const r of result.table) {
+    const s = r.settings;
+    if (s.model !== 'gaussian') continue;
+    lines.push(`${String(s.shrinkage).padEnd(18)} ${fmt(r.meanRmse).padEnd(10)} ${fmt(r.sdRmse).padEnd(8)} ${fmt(r.meanMae)}${r.error ? `  (failed: ${r.error})` : ''}`);
+  }
   lines.push(`best: ${settingsLabel(result.best.settings)} (mean RMSE ${fmt(result.best.meanRmse)})`);
-  lines.push(`smallest rank within one standard error (≤ ${fmt(result.threshold)}): ${settingsLabel(result.oneStandardError.settings)} (mean RMSE ${fmt(result.oneStandardError.meanRmse)})`);
+  lines.push(`simplest within one standard error (≤ ${fmt(result.threshold)}): ${settingsLabel(result.oneStandardError.settings)} (mean RMSE ${fmt(result.oneStandardError.meanRmse)})`);
+  lines.push(`choice: ${chosen.settings.model} (${why}); fill with: ${fillArguments(chosen.settings).join(' ')}`);
   return { code: 0, stderr: [], stdout: lines };
 }
