@@ -7,8 +7,19 @@ import { matrixFromPayload } from '../src-shared/apiCodec';
 import { formatProblem } from '../src-shared/io/problem';
 import { ApiCallError, type HostBridge } from './bridge/hostBridge';
 import { RatingGrid } from './grid/ratingGrid';
+import { mountCellPanel } from './panels/cellPanel';
+import { mountCenteringPanel } from './panels/centeringPanel';
+import { mountTuningPanel } from './panels/tuningPanel';
+import { createExportDialog } from './panels/exportDialog';
+import { ModelPanel } from './panels/modelPanel';
 import { Notice } from './panels/notice';
+import type { PanelContext } from './panels/panelContext';
+import { mountRunsPanel } from './panels/runsPanel';
+import { SidePanel } from './panels/sidePanel';
 import { renderStatusLine } from './panels/statusLine';
+import { syncGridWithRuns } from './runs/gridSync';
+import { FitController } from './runs/fitController';
+import { RunStore } from './runs/runStore';
 import { DocumentStore } from './state/documentStore';
 
 const byTestId = <T extends HTMLElement>(id: string): T => {
@@ -17,32 +28,79 @@ const byTestId = <T extends HTMLElement>(id: string): T => {
   return el;
 };
 
-export interface App {
-  bridge: HostBridge;
-  store: DocumentStore;
-  grid: RatingGrid;
-  notice: Notice;
+export interface App extends PanelContext {
   openDocument(doc: DocumentPayload): void;
+  exportDialog: { open(): Promise<void> };
 }
 
 export async function startApp(bridge: HostBridge, styleNonce: string): Promise<App> {
   const notice = new Notice(byTestId('notice'));
   const store = new DocumentStore({ rowLabels: [], colLabels: [], values: new Float64Array(0), scale: { min: 1, max: 5, step: 1 } });
+  let cellPanel: { focus(row: number, col: number): void } | undefined;
+  let side: SidePanel | undefined;
   const grid = new RatingGrid(byTestId('grid'), {
     store,
     styleNonce,
     onRefused: (message) => notice.show(message, 'error'),
+    onCellFocused: (row, col) => cellPanel?.focus(row, col),
   });
+  const runs = new RunStore();
+  const controller = new FitController(bridge, store, runs);
 
   const info = await bridge.call('app.info', {});
   const hostLine = info.host === 'electron' ? `Rankfill ${info.version}` : `Rankfill ${info.version} · browser host (loopback only)`;
   const statusRoot = byTestId('status-line');
   const refreshStatus = () => {
-    renderStatusLine(statusRoot, store.current, hostLine);
+    const shown = runs.shown;
+    const mean = shown && Number.isFinite(shown.result.globalMean) ? ` · global mean ${shown.result.globalMean.toFixed(2)}` : '';
+    renderStatusLine(statusRoot, store.current, hostLine + mean);
     byTestId('doc-title').textContent = `${store.title}${store.dirty ? ' •' : ''}`;
     document.title = `${store.title} — Rankfill`;
   };
   store.subscribe(refreshStatus);
+  runs.subscribe(refreshStatus);
+
+  // Side panel: model, runs, cell details, centering comparison, tuning.
+  side = new SidePanel(byTestId('side-panel'));
+  const modelRoot = side.add('model', 'Model');
+  const runsRoot = side.add('runs', 'Runs');
+  const cellRoot = side.add('cell', 'Cell');
+  const centeringRoot = side.add('centering', 'Centering');
+  const tuningRoot = side.add('tuning', 'Tuning');
+  const model = new ModelPanel(modelRoot, { controller, setOverlayVisible: (v) => grid.setLayers({ overlayVisible: v }) });
+  const ctx: PanelContext = { bridge, store, runs, controller, grid, notice, model, side };
+  mountRunsPanel(runsRoot, ctx);
+  cellPanel = mountCellPanel(cellRoot, ctx);
+  mountCenteringPanel(centeringRoot, ctx);
+  mountTuningPanel(tuningRoot, ctx);
+  syncGridWithRuns(ctx);
+  runs.subscribe((e) => {
+    const r = runs.shown;
+    if (!r || !(e.type === 'shown' || (e.type === 'updated' && e.id === r.id))) return;
+    const res = r.result;
+    const last = res.objectiveTrace[res.objectiveTrace.length - 1];
+    model.showRunTrace(
+      res.objectiveTrace,
+      `Run ${r.id}: ${res.iterations} iterations, ${res.converged ? 'settled' : 'stopped at the limit'}, ` +
+        `${res.settings.model === 'gaussian' ? 'log-likelihood' : 'objective'} ${Number.isFinite(last) ? last.toPrecision(6) : '—'}, ${Math.round(res.elapsedMs)} ms` +
+        (r.refits ? ` · refitted after ${r.refits} edit${r.refits === 1 ? '' : 's'}` : ''),
+    );
+  });
+  const exportDialog = createExportDialog(ctx, info.version);
+  byTestId('export-button').addEventListener('click', () => void exportDialog.open());
+  bridge.on('menu.command', ({ command }) => {
+    if (command === 'model.fill') void controller.fill(model.settings());
+    else if (command === 'file.export') void exportDialog.open();
+    else if (command === 'model.compareCentering') side?.select('centering');
+    else if (command === 'model.tune') side?.select('tuning');
+    else if (command === 'view.toggleOverlay') {
+      const toggle = document.querySelector<HTMLInputElement>('[data-testid="overlay-toggle"]');
+      if (toggle) {
+        toggle.checked = !toggle.checked;
+        grid.setLayers({ overlayVisible: toggle.checked });
+      }
+    }
+  });
 
   const openDocument = (doc: DocumentPayload) => {
     store.replace(matrixFromPayload(doc.matrix), doc.title, doc.source);
@@ -88,7 +146,7 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
     openDocument(await bridge.call('samples.open', { id: samples[0].id }));
   }
   refreshStatus();
-  return { bridge, store, grid, notice, openDocument };
+  return { ...ctx, openDocument, exportDialog };
 }
 
 export function messageOf(err: unknown): string {

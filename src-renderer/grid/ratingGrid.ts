@@ -53,6 +53,8 @@ const BASELINE_ROW = -1;
 export class RatingGrid {
   readonly api: GridApi<RowRecord>;
   private layers: GridLayers = { overlay: null, overlayVisible: true, diff: null, baselines: null, weak: null };
+  /** The editing selection (editing/cellSelection.ts) marks its cells with rf-selected. */
+  private selectionTest: ((row: number, col: number) => boolean) | null = null;
 
   constructor(
     private readonly host: HTMLElement,
@@ -117,7 +119,7 @@ export class RatingGrid {
       colId: colIdFor(j),
       headerName: label,
       headerTooltip: label,
-      headerClass: () => (this.layers.weak?.cols.has(j) ? 'rf-weak-col' : ''),
+      headerClass: () => (this.layers.weak?.cols.has(j) ? 'ag-right-aligned-header rf-weak-col' : 'ag-right-aligned-header'),
       headerTooltipValueGetter: () => this.layers.weak?.cols.get(j) ?? label,
       width: 92,
       editable: (p) => p.data?.i !== BASELINE_ROW,
@@ -139,12 +141,14 @@ export class RatingGrid {
         return est === undefined ? '' : formatRating(est, Math.max(1, decimals));
       },
       valueSetter: (p: ValueSetterParams<RowRecord>) => this.commitEdit(p, j),
+      cellClassRules: { 'rf-selected': (p) => !!p.data && p.data.i >= 0 && !!this.selectionTest?.(p.data.i, j) },
       cellClass: (p: CellClassParams<RowRecord>) => {
-        if (!p.data) return undefined;
-        if (p.data.i === BASELINE_ROW) return 'rf-baseline-cell';
-        if (p.value !== null && p.value !== undefined) return undefined;
-        if (this.diffAt(p.data.i, j) !== undefined) return 'rf-diff';
-        return this.estimateAt(p.data.i, j) !== undefined ? 'rf-filled' : undefined;
+        const base = 'ag-right-aligned-cell';
+        if (!p.data) return base;
+        if (p.data.i === BASELINE_ROW) return `${base} rf-baseline-cell`;
+        if (p.value !== null && p.value !== undefined) return base;
+        if (this.diffAt(p.data.i, j) !== undefined) return `${base} rf-diff`;
+        return this.estimateAt(p.data.i, j) !== undefined ? `${base} rf-filled` : base;
       },
       cellStyle: (p) => {
         if (!p.data || p.data.i === BASELINE_ROW || (p.value !== null && p.value !== undefined)) return null;
@@ -164,7 +168,7 @@ export class RatingGrid {
             width: 92,
             editable: false,
             type: 'rightAligned',
-            cellClass: 'rf-baseline-cell',
+            cellClass: 'ag-right-aligned-cell rf-baseline-cell',
             valueGetter: (p) => (p.data && p.data.i >= 0 ? this.layers.baselines?.row[p.data.i] ?? null : null),
             valueFormatter: (p) => formatRating(p.value as number | null, 2),
           },
@@ -176,7 +180,7 @@ export class RatingGrid {
             width: 86,
             editable: false,
             type: 'rightAligned',
-            cellClass: 'rf-baseline-cell',
+            cellClass: 'ag-right-aligned-cell rf-baseline-cell',
             valueGetter: (p) => (p.data && p.data.i >= 0 ? this.rowObservedCount(p.data.i) : null),
           },
         ]
@@ -243,6 +247,11 @@ export class RatingGrid {
     const doc = this.doc;
     this.opts.store.setCells('Clear cell', [e.data.i * doc.colLabels.length + j], [NaN]);
     ev.preventDefault();
+  }
+
+  /** Which cells the editing selection covers (redrawn by the caller with api.refreshCells). */
+  setSelectionTest(test: ((row: number, col: number) => boolean) | null): void {
+    this.selectionTest = test;
   }
 
   // ----- model layers ---------------------------------------------------------------

@@ -8,6 +8,12 @@ import { scaleDecimals } from '../../src-shared/matrix/ratingMatrix';
 import { el, fmt } from './dom';
 import type { PanelContext } from './panelContext';
 
+function dotFactors(u: Float64Array, v: Float64Array, i: number, j: number, k: number): number {
+  let s = 0;
+  for (let c = 0; c < k; c++) s += u[i * k + c] * v[j * k + c];
+  return s;
+}
+
 export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(row: number, col: number): void } {
   const body = el('div', { testid: 'cell-details' }, [el('p', { className: 'rf-hint' }, ['Select a cell to see where its value comes from.'])]);
   root.append(el('h2', {}, ['Cell details']), body);
@@ -41,12 +47,13 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
       const ex = explainCell(m.values, r, row, col);
       rows.push(['Filled value (estimate)', fmt(r.predictions[idx], 2)]);
       rows.push(['= baseline', fmt(r.baseline[idx], 2)]);
-      if (r.settings.model === 'lowrank') rows.push(['+ interaction term', fmt(ex ? ex.interaction : r.predictions[idx] - r.baseline[idx], 2)]);
+      const raw = r.baseline[idx] + (r.rank > 0 ? dotFactors(r.rowFactors, r.colFactors, row, col, r.rank) : 0);
+      const clipped = r.settings.model === 'lowrank' && (raw < m.scale.min || raw > m.scale.max);
+      if (r.settings.model === 'lowrank') rows.push(['+ interaction term', fmt(raw - r.baseline[idx], 2)]);
+      if (clipped) rows.push(['clipped to the scale from', fmt(raw, 2)]);
       const spread = run.trust?.spread[idx] ?? r.spread?.[idx];
       rows.push(['Spread (std. dev.)', fmt(spread, 2)]);
       if (ex) {
-        const raw = r.baseline[idx] + ex.interaction;
-        if (Math.abs(raw - r.predictions[idx]) > 1e-6) rows.push(['before clipping to the scale', fmt(raw, 2)]);
         const top = ex.contributions.slice(0, 5);
         if (top.length) {
           const table = el('table', { className: 'rf-table', testid: 'cell-contributors' }, [
@@ -57,7 +64,7 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
           ]);
           parts.push(
             el('h3', {}, ['What moved it most']),
-            el('p', { className: 'rf-hint' }, ['Each observed cell in the row adds its weight × (value − baseline); the sum is the interaction term.']),
+            el('p', { className: 'rf-hint' }, ['Each observed cell in the row adds its weight × (value − baseline); together they make up the interaction term (exactly so once the fit has settled).']),
             table,
           );
         }

@@ -1,0 +1,163 @@
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import Papa from 'papaparse';
+import type { Browser, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { launchBrowser } from './support/browser';
+import { repoRoot, startHost, type RunningHost } from './support/hostProcess';
+
+// The sample is read here with papaparse (a general-purpose CSV reader), independently of the app.
+function readSample(file: string) {
+  const rows = Papa.parse<string[]>(readFileSync(join(repoRoot, 'samples', file), 'utf8').trimEnd()).data;
+  const values = rows.slice(1).map((r) => r.slice(1).map((c) => (c === '' ? null : Number(c))));
+  return { header: rows[0].slice(1), labels: rows.slice(1).map((r) => r[0]), values, blanks: values.flat().filter((v) => v === null).length };
+}
+
+type Snapshot = { predictions: (number | null)[]; filledInGrid: string[] };
+
+describe('fill, compare and export in the browser host', () => {
+  let host: RunningHost;
+  let browser: Browser;
+  let page: Page;
+  const exportDir = mkdtempSync(join(tmpdir(), 'rankfill-export-'));
+  const sample = readSample('coffee-cupping-panel.csv');
+
+  beforeAll(async () => {
+    host = await startHost([], { RANKFILL_EXPORT_DIR: exportDir, RANKFILL_CONFIG_DIR: mkdtempSync(join(tmpdir(), 'rankfill-config-')) });
+    browser = await launchBrowser();
+    // Wide enough that every column of the sample is rendered (column virtualization stays on).
+    page = await browser.newPage({ viewport: { width: 2400, height: 1100 } });
+    await page.goto(host.launchUrl);
+    await page.waitForSelector('body[data-ready="true"]', { timeout: 30_000 });
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await host?.stop();
+  });
+
+  const snapshot = (): Promise<Snapshot> =>
+    page.evaluate(() => {
+      const app = (window as unknown as { rankfillApp: { runs: { shown?: { result: { predictions: Float64Array } } } } }).rankfillApp;
+      const p = app.runs.shown?.result.predictions ?? new Float64Array(0);
+      return {
+        predictions: Array.from(p, (x) => (Number.isFinite(x) ? x : null)),
+        filledInGrid: Array.from(document.querySelectorAll('.ag-row .ag-cell.rf-filled'), (c) => (c.textContent ?? '').trim()),
+      };
+    });
+
+  let first: Snapshot;
+
+  it('Fill puts an estimate in exactly the blank cells, observed cells untouched', async () => {
+    await page.click('[data-testid="fill-button"]');
+    await page.waitForSelector('.ag-row .ag-cell.rf-filled');
+    await expect.poll(async () => (await snapshot()).filledInGrid.length, { timeout: 20_000 }).toBe(sample.blanks);
+    first = await snapshot();
+    expect(first.filledInGrid.every((t) => /^\d+\.\d$/.test(t))).toBe(true);
+    // The document still holds exactly the observed data.
+    const observed = await page.evaluate(() =>
+      Array.from((window as unknown as { rankfillApp: { store: { current: { values: Float64Array } } } }).rankfillApp.store.current.values, (x) =>
+        Number.isNaN(x) ? null : x,
+      ),
+    );
+    expect(observed).toEqual(sample.values.flat());
+    // Baselines side column and the column-offset row appear.
+    expect(await page.locator('.ag-row[row-index="0"] .ag-cell[col-id="rowCount"]').textContent()).toBe(
+      String(sample.values[0].filter((v) => v !== null).length),
+    );
+    await expect.poll(() => page.locator('.ag-floating-bottom .ag-cell[col-id="rowLabel"], .ag-row-pinned .ag-cell[col-id="rowLabel"]').first().textContent()).toBe('Column offset');
+    expect(await page.textContent('[data-testid="status-line"]')).toMatch(/global mean \d\.\d\d/);
+    await page.screenshot({ path: join(repoRoot, 'test-results', 'fill-overlay.png') });
+  });
+
+  it('switching centering to none and refilling changes the estimates; the comparison shows the differences', async () => {
+    await page.selectOption('[data-testid="model-centering"]', 'none');
+    await page.click('[data-testid="fill-button"]');
+    await expect.poll(() => page.evaluate(() => (window as unknown as { rankfillApp: { runs: { runs: unknown[] } } }).rankfillApp.runs.runs.length)).toBe(2);
+    const second = await snapshot();
+    const changed = second.predictions.filter((p, c) => sample.values.flat()[c] === null && Math.abs((p ?? 0) - (first.predictions[c] ?? 0)) > 1e-6).length;
+    expect(changed).toBe(sample.blanks);
+    await page.click('[data-testid="tab-runs"]');
+    await page.selectOption('[data-testid="compare-a"]', '1');
+    await page.selectOption('[data-testid="compare-b"]', '2');
+    await page.click('[data-testid="compare-button"]');
+    await expect.poll(() => page.locator('.ag-row .ag-cell.rf-diff').count()).toBe(sample.blanks);
+    const moved = await page.textContent('[data-testid="compare-moved"]');
+    expect(moved).toMatch(new RegExp(`^\\d+ of ${sample.blanks} filled cells move by more than 1 \\(one scale step\\)`));
+    // One diff cell equals B − A computed here from the two runs' predictions.
+    const diffText = await page.locator('.ag-row[row-index="0"] .ag-cell[col-id="c0"]').textContent();
+    const d = (second.predictions[0] ?? 0) - (first.predictions[0] ?? 0);
+    expect(Number(diffText)).toBeCloseTo(d, 1);
+    await page.screenshot({ path: join(repoRoot, 'test-results', 'compare-runs.png') });
+    await page.click('[data-testid="compare-clear"]');
+    await expect.poll(() => page.locator('.ag-row .ag-cell.rf-diff').count()).toBe(0);
+  });
+
+  it('compare centering evaluates the four modes on the same folds', async () => {
+    await page.click('[data-testid="tab-centering"]');
+    await page.click('[data-testid="centering-run"]');
+    await expect.poll(() => page.locator('[data-testid="centering-row"]').count(), { timeout: 30_000 }).toBe(4);
+    const rmse = await page.locator('[data-testid="centering-rmse"]').allTextContents();
+    expect(rmse).toHaveLength(4);
+    for (const r of rmse) expect(Number(r.split(' ')[0])).toBeGreaterThan(0);
+  });
+
+  it('an edit refits the shown run live; typing into a filled cell makes it observed', async () => {
+    await page.click('[data-testid="tab-model"]');
+    const before = await snapshot();
+    const blankCol = sample.values[0].findIndex((v) => v === null);
+    const cell = page.locator(`.ag-row[row-index="0"] .ag-cell[col-id="c${blankCol}"]`);
+    await cell.dblclick();
+    await page.keyboard.press('ControlOrMeta+a');
+    await page.keyboard.type('9');
+    await page.keyboard.press('Enter');
+    await expect.poll(() => cell.textContent()).toBe('9');
+    await expect.poll(async () => {
+      const now = await snapshot();
+      return now.predictions.some((p, c) => Math.abs((p ?? 0) - (before.predictions[c] ?? 0)) > 1e-9);
+    }).toBe(true);
+    expect(await cell.getAttribute('class')).not.toContain('rf-filled');
+    await page.keyboard.press('ControlOrMeta+z');
+  });
+
+  it('export writes a long file whose observed cells equal the input, plus a sidecar', async () => {
+    await page.click('[data-testid="export-button"]');
+    await page.waitForSelector('[data-testid="export-dialog"][open]');
+    expect(await page.textContent('[data-testid="export-caution"]')).toContain('model estimates');
+    await page.selectOption('[data-testid="export-kind"]', 'long');
+    const path = await page.inputValue('[data-testid="export-path"]');
+    expect(path.startsWith(exportDir)).toBe(true);
+    await page.click('[data-testid="export-write"]');
+    await expect.poll(() => page.textContent('[data-testid="export-status"]')).toContain('Written:');
+    const rows = Papa.parse<string[]>(readFileSync(path, 'utf8').trimEnd()).data;
+    expect(rows[0]).toEqual(['row', 'column', 'value', 'source', 'baseline', 'spread']);
+    const doc = await page.evaluate(() => {
+      const m = (window as unknown as { rankfillApp: { store: { current: { values: Float64Array } } } }).rankfillApp.store.current;
+      return Array.from(m.values, (x) => (Number.isNaN(x) ? null : x));
+    });
+    let observed = 0;
+    let filled = 0;
+    for (const r of rows.slice(1)) {
+      const i = sample.labels.indexOf(r[0]);
+      const j = sample.header.indexOf(r[1]);
+      const y = doc[i * sample.header.length + j];
+      if (r[3] === 'observed') {
+        observed++;
+        expect(Number(r[2])).toBe(y);
+      } else {
+        filled++;
+        expect(r[3]).toBe('filled');
+        expect(y).toBeNull();
+      }
+    }
+    expect(observed + filled).toBe(sample.labels.length * sample.header.length);
+    expect(filled).toBe(doc.filter((v) => v === null).length);
+    const sidecar = JSON.parse(readFileSync(path.replace(/\.csv$/, '.settings.json'), 'utf8'));
+    expect(sidecar.caution).toContain('model estimates');
+    expect(sidecar.model.settings.centering).toBe('none');
+    expect(sidecar.input.sha256).toMatch(/^[0-9a-f]{64}$/);
+    await page.screenshot({ path: join(repoRoot, 'test-results', 'export-dialog.png') });
+    await page.click('[data-testid="export-cancel"]');
+  });
+});
