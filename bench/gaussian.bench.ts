@@ -129,6 +129,8 @@ function main(): void {
   console.log(`  per-row reference: ${refMs.toFixed(0)} ms`);
   console.log(`  ratio:             ${(refMs / ms).toFixed(1)}× faster`);
   console.log(`  max |Δ| of μ, Σ vs reference: ${diff.toExponential(2)}`);
+  // the two implementations must agree; a disagreement fails the benchmark run
+  if (!(diff < 1e-8)) process.exitCode = 1;
 }
 
 main();
