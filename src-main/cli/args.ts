@@ -26,9 +26,11 @@ Gaussian model suits tall panels (many rows, at most 300 columns); it has its ow
 diagonal; --transpose makes the rows the variables.
   fill       fit once and write every cell (observed values unchanged, missing ones predicted)
   evaluate   k-fold cross-validation of one setting (RMSE and MAE per fold)
-  tune       cross-validate a grid of ranks × lambdas × centerings (and, when the shape allows,
-             Gaussian shrinkages) on the same folds; the family with the lowest mean RMSE
-             wins, and its simplest setting within one standard error is the choice
+  tune       cross-validate a grid of ranks × lambdas × centerings and Gaussian shrinkages on the
+             same folds; the family with the lowest mean RMSE wins, and its simplest setting
+             within one standard error is the choice. By default the Gaussian model is tried
+             when it accepts the matrix (at most 300 variables, 3 observed values each) and
+             there are at least 2 rows per variable; --models picks the families explicitly
 
 Input is wide CSV (header row = column labels, first column = row labels, blank = missing);
 --long reads and writes row,column,value triples. Without --scale the scale is the observed
