@@ -6,6 +6,7 @@ import type { DocumentPayload } from '../src-shared/api';
 import { matrixFromPayload } from '../src-shared/apiCodec';
 import { formatProblem } from '../src-shared/io/problem';
 import { ApiCallError, type HostBridge } from './bridge/hostBridge';
+import { installEditing, type Editing } from './editing/installEditing';
 import { RatingGrid } from './grid/ratingGrid';
 import { mountCellPanel } from './panels/cellPanel';
 import { mountCenteringPanel } from './panels/centeringPanel';
@@ -31,6 +32,7 @@ const byTestId = <T extends HTMLElement>(id: string): T => {
 export interface App extends PanelContext {
   openDocument(doc: DocumentPayload): void;
   exportDialog: { open(): Promise<void> };
+  editing: Editing;
 }
 
 export async function startApp(bridge: HostBridge, styleNonce: string): Promise<App> {
@@ -117,27 +119,24 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
     opt.title = s.description;
     picker.append(opt);
   }
+  let editing: Editing | undefined;
   picker.addEventListener('change', () => {
-    void bridge
-      .call('samples.open', { id: picker.value })
-      .then(openDocument)
+    void (editing ? editing.confirmLeave('Opening a sample set') : Promise.resolve(true))
+      .then((go) => (go ? bridge.call('samples.open', { id: picker.value }) : undefined))
+      .then((doc) => doc && openDocument(doc))
       .catch((err: unknown) => notice.show(messageOf(err), 'error'));
   });
 
-  // File import (the page reads the file; the main side parses and checks it)
-  const fileInput = byTestId<HTMLInputElement>('import-file');
-  fileInput.addEventListener('change', () => {
-    const file = fileInput.files?.[0];
-    fileInput.value = '';
-    if (!file) return;
-    void file
-      .text()
-      .then((text) => bridge.call('document.importText', { fileName: file.name, text }))
-      .then((reply) => {
-        if (reply.ok) openDocument(reply.document);
-        else notice.show(`${file.name} was not opened:\n${reply.problems.map(formatProblem).join('\n')}`, 'error', 0);
-      })
-      .catch((err: unknown) => notice.show(messageOf(err), 'error'));
+  // Editing, import with preview, project files and autosave (editing/installEditing.ts).
+  editing = installEditing({
+    bridge,
+    store,
+    grid,
+    notice,
+    gridHost: byTestId('grid'),
+    editBar: byTestId('edit-bar'),
+    importInput: byTestId<HTMLInputElement>('import-file'),
+    openDocument,
   });
 
   // First start: open the first sample.
@@ -146,7 +145,8 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
     openDocument(await bridge.call('samples.open', { id: samples[0].id }));
   }
   refreshStatus();
-  return { ...ctx, openDocument, exportDialog };
+  void editing.files.offerRecovery();
+  return { ...ctx, openDocument, exportDialog, editing };
 }
 
 export function messageOf(err: unknown): string {

@@ -1,0 +1,123 @@
+/**
+ * The edit bar under the title bar: undo/redo (showing what they will take
+ * back or bring back), the rows-and-columns menu, transposition, the scale
+ * (shown and editable), and the project buttons with the recent-files menu.
+ */
+import { el } from '../dialogs/modal';
+import { describeScale } from '../grid/cellText';
+import type { HostBridge } from '../bridge/hostBridge';
+import type { DocumentStore } from '../state/documentStore';
+import type { EditCommands } from './editCommands';
+import type { ProjectFiles } from './projectFiles';
+
+function button(label: string, testId: string, onClick: () => void, title = ''): HTMLButtonElement {
+  const b = el('button', { type: 'button', class: 'rf-button rf-edit-button', 'data-testid': testId, text: label, title });
+  b.addEventListener('click', onClick);
+  return b;
+}
+
+/** A small drop-down menu built on <details>; closes after a choice. */
+function menu(label: string, testId: string, items: ([string, string, () => void] | 'sep')[], onOpen?: (list: HTMLElement) => void): HTMLElement {
+  const list = el('div', { class: 'rf-menu-list', role: 'menu' });
+  const details = el('details', { class: 'rf-menu', 'data-testid': testId }, el('summary', { class: 'rf-button rf-edit-button', text: label }), list);
+  const fill = () => {
+    list.replaceChildren();
+    for (const it of items) {
+      if (it === 'sep') {
+        list.append(el('hr'));
+        continue;
+      }
+      const [text, id, run] = it;
+      const b = el('button', { type: 'button', role: 'menuitem', 'data-testid': id, text });
+      b.addEventListener('click', () => {
+        details.open = false;
+        run();
+      });
+      list.append(b);
+    }
+    onOpen?.(list);
+  };
+  fill();
+  details.addEventListener('toggle', () => {
+    if (details.open) fill();
+  });
+  document.addEventListener('click', (e) => {
+    if (details.open && !details.contains(e.target as Node)) details.open = false;
+  });
+  return details;
+}
+
+export function mountEditBar(root: HTMLElement, deps: { store: DocumentStore; commands: EditCommands; files: ProjectFiles; bridge: HostBridge }): void {
+  const { store, commands: c, files, bridge } = deps;
+  const undo = button('Undo', 'undo-button', () => c.undo());
+  const redo = button('Redo', 'redo-button', () => c.redo());
+  const scale = button('', 'scale-button', () => void c.editScale(), 'Change the rating scale (minimum, maximum, step)');
+  const rowsCols = menu('Rows & columns ▾', 'rows-cols-menu', [
+    ['Add row below', 'cmd-add-row', () => c.addRow()],
+    ['Add column to the right', 'cmd-add-column', () => c.addColumn()],
+    ['Rename row…', 'cmd-rename-row', () => void c.renameRow()],
+    ['Rename column…', 'cmd-rename-column', () => void c.renameColumn()],
+    ['Delete selected rows…', 'cmd-delete-rows', () => void c.deleteRows()],
+    ['Delete selected columns…', 'cmd-delete-columns', () => void c.deleteColumns()],
+    'sep',
+    ['Move row up', 'cmd-row-up', () => c.moveRow(-1)],
+    ['Move row down', 'cmd-row-down', () => c.moveRow(1)],
+    ['Move column left', 'cmd-col-left', () => c.moveColumn(-1)],
+    ['Move column right', 'cmd-col-right', () => c.moveColumn(1)],
+    'sep',
+    ['Sort rows by label, A → Z', 'cmd-sort-label-asc', () => c.sortByLabel('asc')],
+    ['Sort rows by label, Z → A', 'cmd-sort-label-desc', () => c.sortByLabel('desc')],
+    ['Sort rows by this column, low → high', 'cmd-sort-col-asc', () => c.sortByColumn('asc')],
+    ['Sort rows by this column, high → low', 'cmd-sort-col-desc', () => c.sortByColumn('desc')],
+  ]);
+  const swap = button('Swap rows ⇄ columns', 'transpose-button', () => c.transpose(), 'Rows become columns and columns become rows (one undoable change)');
+
+  const recentItems: [string, string, () => void][] = [];
+  const recent = menu('Recent ▾', 'recent-menu', [], (list) => {
+    list.replaceChildren(el('span', { class: 'rf-hint', text: 'Loading…' }));
+    void bridge
+      .call('recent.list', {})
+      .then(({ files: rf }) => {
+        list.replaceChildren();
+        recentItems.length = 0;
+        if (rf.length === 0) list.append(el('span', { class: 'rf-hint', text: 'No recent projects yet' }));
+        rf.forEach((f, i) => {
+          const b = el('button', { type: 'button', role: 'menuitem', 'data-testid': `recent-${i}`, text: f.path, title: `last opened ${new Date(f.openedAt).toLocaleString('en-GB')}` });
+          b.addEventListener('click', () => {
+            (list.parentElement as HTMLDetailsElement).open = false;
+            void files.open(f.path);
+          });
+          list.append(b);
+        });
+      })
+      .catch(() => list.replaceChildren(el('span', { class: 'rf-hint', text: 'Recent files are not available' })));
+  });
+
+  root.replaceChildren(
+    el('div', { class: 'rf-edit-group' }, undo, redo),
+    el('div', { class: 'rf-edit-group' }, rowsCols, swap, scale),
+    el('div', { class: 'rf-edit-spacer' }),
+    el(
+      'div',
+      { class: 'rf-edit-group' },
+      button('Open project…', 'open-project-button', () => void files.open(), 'Open a .rankfill project file'),
+      recent,
+      button('Keep', 'save-button', () => void files.save(), 'Keep the project in its file (Ctrl+S)'),
+      button('Keep as…', 'save-as-button', () => void files.saveAs(), 'Keep the project in a new file (Ctrl+Shift+S)'),
+    ),
+  );
+
+  const refresh = () => {
+    const u = store.undoLabel();
+    const r = store.redoLabel();
+    undo.disabled = !u;
+    redo.disabled = !r;
+    undo.textContent = u ? `↶ Undo: ${u}` : '↶ Undo';
+    redo.textContent = r ? `↷ Redo: ${r}` : '↷ Redo';
+    undo.title = u ? `Take back “${u}” (Ctrl+Z)` : 'Nothing to take back';
+    redo.title = r ? `Bring back “${r}” (Ctrl+Shift+Z or Ctrl+Y)` : 'Nothing to bring back';
+    scale.textContent = `Scale ${describeScale(store.current.scale)}`;
+  };
+  store.subscribe(refresh);
+  refresh();
+}

@@ -1,0 +1,107 @@
+/**
+ * Sets up the editing and project-file half of the workbench on a started page:
+ * selection, clipboard, edit bar, shortcuts, import with preview, project files,
+ * autosave and menu commands. Returns what app.ts needs from it.
+ */
+import type { DocumentPayload } from '../../src-shared/api';
+import type { HostBridge } from '../bridge/hostBridge';
+import { importPreviewDialog } from '../dialogs/importPreview';
+import type { RatingGrid } from '../grid/ratingGrid';
+import type { Notice } from '../panels/notice';
+import type { DocumentStore } from '../state/documentStore';
+import { CellSelection } from './cellSelection';
+import { installClipboard, pasteText, selectionText } from './clipboard';
+import { mountEditBar } from './editBar';
+import { EditCommands } from './editCommands';
+import { ProjectFiles } from './projectFiles';
+import { installShortcuts } from './shortcuts';
+
+/** Largest ratings file the page reads for import (the main side checks the same limit): 50 MB. */
+export const IMPORT_LIMIT_BYTES = 50 * 1024 * 1024;
+
+export interface EditingDeps {
+  bridge: HostBridge;
+  store: DocumentStore;
+  grid: RatingGrid;
+  notice: Notice;
+  gridHost: HTMLElement;
+  editBar: HTMLElement;
+  importInput: HTMLInputElement;
+  openDocument: (doc: DocumentPayload) => void;
+}
+
+export interface Editing {
+  selection: CellSelection;
+  commands: EditCommands;
+  files: ProjectFiles;
+  /** Ask about unsaved work before replacing the document; true to go ahead. */
+  confirmLeave(doing: string): Promise<boolean>;
+  /** Import a file's text through the preview dialog (also used by tests). */
+  importWithPreview(fileName: string, text: string, bytes: number): Promise<boolean>;
+  /** For tests and menus: paste text at the selection; copy the selection as text. */
+  paste(text: string): Promise<boolean>;
+  copyText(): string | null;
+}
+
+export function installEditing(d: EditingDeps): Editing {
+  const isEditing = () => d.grid.api.getEditingCells().length > 0;
+  const selection = new CellSelection(d.grid, d.store, d.gridHost);
+  const clipDeps = { store: d.store, selection, notice: d.notice, gridHost: d.gridHost, isEditing };
+  installClipboard(clipDeps);
+  const commands = new EditCommands({ store: d.store, selection, notice: d.notice });
+  const files = new ProjectFiles(d.bridge, d.store, d.notice);
+  mountEditBar(d.editBar, { store: d.store, commands, files, bridge: d.bridge });
+  installShortcuts({ commands, files, isEditing });
+
+  const importWithPreview = async (fileName: string, text: string, bytes: number): Promise<boolean> => {
+    const doc = await importPreviewDialog(fileName, text, bytes, (req) => d.bridge.call('document.previewImport', req));
+    if (!doc) return false;
+    if (!(await files.confirmLeave('Opening the imported file'))) return false;
+    d.openDocument(doc);
+    return true;
+  };
+
+  d.importInput.addEventListener('change', () => {
+    const file = d.importInput.files?.[0];
+    d.importInput.value = '';
+    if (!file) return;
+    if (file.size > IMPORT_LIMIT_BYTES) {
+      d.notice.show(`${file.name} is too large to import (${(file.size / 1048576).toFixed(1)} MB; the limit is 50 MB). Nothing was opened.`, 'error', 0);
+      return;
+    }
+    void file
+      .text()
+      .then((text) => importWithPreview(file.name, text, file.size))
+      .catch((err: unknown) => d.notice.show(`${file.name} could not be read: ${err instanceof Error ? err.message : String(err)}`, 'error'));
+  });
+
+  d.bridge.on('menu.command', ({ command }) => {
+    const run: Record<string, () => void> = {
+      'file.save': () => void files.save(),
+      'file.saveAs': () => void files.saveAs(),
+      'file.openProject': () => void files.open(),
+      'file.clearRecent': () => void d.bridge.call('recent.clear', {}),
+      'file.import': () => d.importInput.click(),
+      'edit.undo': () => commands.undo(),
+      'edit.redo': () => commands.redo(),
+      'edit.addRow': () => commands.addRow(),
+      'edit.addColumn': () => commands.addColumn(),
+      'edit.transpose': () => commands.transpose(),
+      'edit.scale': () => void commands.editScale(),
+      'app.closeRequested': () => void files.closeRequested(),
+    };
+    const recent = /^file\.openRecent\.(\d+)$/.exec(command);
+    if (recent) void files.openRecent(Number(recent[1]));
+    else run[command]?.();
+  });
+
+  return {
+    selection,
+    commands,
+    files,
+    confirmLeave: (doing) => files.confirmLeave(doing),
+    importWithPreview,
+    paste: (text) => pasteText(clipDeps, text),
+    copyText: () => selectionText(clipDeps),
+  };
+}
