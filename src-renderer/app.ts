@@ -8,6 +8,7 @@ import { formatProblem } from '../src-shared/io/problem';
 import { ApiCallError, type HostBridge } from './bridge/hostBridge';
 import { installEditing, type Editing } from './editing/installEditing';
 import { RatingGrid } from './grid/ratingGrid';
+import { afterPaint } from './panels/afterPaint';
 import { mountCellPanel } from './panels/cellPanel';
 import { mountCenteringPanel } from './panels/centeringPanel';
 import { mountTuningPanel } from './panels/tuningPanel';
@@ -79,6 +80,9 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   runs.subscribe((e) => {
     const r = runs.shown;
     if (!r || !(e.type === 'shown' || (e.type === 'updated' && e.id === r.id))) return;
+    afterPaint('model-trace', () => showTrace(r));
+  });
+  const showTrace = (r: NonNullable<typeof runs.shown>) => {
     const res = r.result;
     const last = res.objectiveTrace[res.objectiveTrace.length - 1];
     model.showRunTrace(
@@ -87,7 +91,7 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
         `${res.settings.model === 'gaussian' ? 'log-likelihood' : 'objective'} ${Number.isFinite(last) ? last.toPrecision(6) : '—'}, ${Math.round(res.elapsedMs)} ms` +
         (r.refits ? ` · refitted after ${r.refits} edit${r.refits === 1 ? '' : 's'}` : ''),
     );
-  });
+  };
   const exportDialog = createExportDialog(ctx, info.version);
   byTestId('export-button').addEventListener('click', () => void exportDialog.open());
   bridge.on('menu.command', ({ command }) => {

@@ -5,6 +5,7 @@
  */
 import { explainCell } from '../../src-shared/engine/contributions';
 import { scaleDecimals } from '../../src-shared/matrix/ratingMatrix';
+import { afterPaint } from './afterPaint';
 import { el, fmt } from './dom';
 import type { PanelContext } from './panelContext';
 
@@ -80,8 +81,8 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
     body.replaceChildren(...parts);
   };
 
-  ctx.runs.subscribe(() => render());
-  ctx.store.subscribe(() => render());
+  ctx.runs.subscribe(() => afterPaint('cell-panel', render));
+  ctx.store.subscribe(() => afterPaint('cell-panel', render));
   return {
     focus(row, col) {
       focused = { row, col };

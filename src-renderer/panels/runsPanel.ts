@@ -7,6 +7,7 @@
 import { runDifference } from '../../src-shared/engine/runDifference';
 import { describeSettings } from '../runs/describeSettings';
 import type { Run } from '../runs/runStore';
+import { afterPaint } from './afterPaint';
 import { el, fmt } from './dom';
 import type { PanelContext } from './panelContext';
 
@@ -139,12 +140,12 @@ export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
   ctx.runs.subscribe((e) => {
     if (e.type === 'compare') renderCompare();
     else {
-      renderList();
-      if (e.type === 'updated' && ctx.runs.compare) renderCompare();
+      afterPaint('runs-list', renderList);
+      if (e.type === 'updated' && ctx.runs.compare) afterPaint('runs-compare', renderCompare);
     }
   });
   ctx.store.subscribe((e) => {
-    if (e.type === 'cells' && ctx.runs.compare) renderCompare();
+    if (e.type === 'cells' && ctx.runs.compare) afterPaint('runs-compare', renderCompare);
   });
   renderList();
 }

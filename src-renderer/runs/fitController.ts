@@ -27,7 +27,6 @@ export class FitController {
   private readonly jobs: JobTracker;
   private fillJob: string | null = null;
   private liveJob: string | null = null;
-  private liveTimer: ReturnType<typeof setTimeout> | undefined;
   private readonly fillListeners = new Set<(s: FillState) => void>();
   /** Refit the shown run after each edit. */
   liveRefit = true;
@@ -122,7 +121,6 @@ export class FitController {
   }
 
   private async cancelLive(): Promise<void> {
-    clearTimeout(this.liveTimer);
     const id = this.liveJob;
     this.liveJob = null;
     if (id) await this.bridge.call('fit.cancel', { jobId: id }).catch(() => undefined);
@@ -132,9 +130,8 @@ export class FitController {
     if (!this.liveRefit || this.fillJob) return;
     const run = this.runs.shown;
     if (!run) return;
-    clearTimeout(this.liveTimer);
-    // Coalesce a burst of changes (a paste, a quick run of keystrokes) into one refit.
-    this.liveTimer = setTimeout(() => void this.runLiveRefit(run), 0);
+    // Start at once; a newer edit cancels this refit (so a burst of changes costs one finished fit).
+    void this.runLiveRefit(run);
   }
 
   private async runLiveRefit(run: Run): Promise<void> {
@@ -147,10 +144,10 @@ export class FitController {
     if (previous) void this.bridge.call('fit.cancel', { jobId: previous }).catch(() => undefined);
     let jobId: string;
     try {
+      // The refit itself first (fast, warm-started); the ensemble spread follows in a second job.
       ({ jobId } = await this.bridge.call('fit.start', {
         matrix: matrixToPayload(matrix),
         settings: run.settings,
-        trust: { method: 'folds', k: TRUST_FOLDS },
         ...(sameShape && run.result.rank > 0
           ? { warmStart: { rowFactors: toNullable(run.result.rowFactors) as number[], colFactors: toNullable(run.result.colFactors) as number[] } }
           : {}),
@@ -166,10 +163,36 @@ export class FitController {
       if (result.rows !== matrix.rowLabels.length || result.cols !== matrix.colLabels.length) return;
       run.rows = result.rows;
       run.cols = result.cols;
-      this.runs.refit(run.id, result, outcome.trust ? trustFromPayload(outcome.trust) : undefined, revision);
+      this.runs.refit(run.id, result, undefined, revision);
       this.lastLiveRefit = { revision, startedAt, finishedAt: performance.now() };
+      void this.refreshTrust(run, revision);
     } catch {
       // A cancelled live refit was superseded by a newer one; a failed one leaves the last result shown.
+    } finally {
+      if (this.liveJob === jobId) this.liveJob = null;
+    }
+  }
+
+  /** Recompute a run's per-cell spread after a live refit, unless newer edits overtake it. */
+  private async refreshTrust(run: Run, revision: number): Promise<void> {
+    if (this.doc.revision !== revision || this.liveJob) return;
+    let jobId: string;
+    try {
+      ({ jobId } = await this.bridge.call('fit.start', {
+        matrix: matrixToPayload(this.doc.current),
+        settings: run.settings,
+        trust: { method: 'folds', k: TRUST_FOLDS },
+      }));
+    } catch {
+      return;
+    }
+    this.liveJob = jobId;
+    try {
+      const outcome = await this.jobs.follow(jobId);
+      if (outcome.kind !== 'fit' || this.liveJob !== jobId || this.doc.revision !== revision || !outcome.trust) return;
+      this.runs.setTrust(run.id, trustFromPayload(outcome.trust));
+    } catch {
+      // Superseded by a newer edit.
     } finally {
       if (this.liveJob === jobId) this.liveJob = null;
     }

@@ -79,6 +79,14 @@ export class RunStore {
     this.emit({ type: 'updated', id });
   }
 
+  /** Replace a run's per-cell trust (spread, support, weak marks) once it has been recomputed. */
+  setTrust(id: number, trust: CellTrust): void {
+    const r = this.get(id);
+    if (!r) return;
+    r.trust = trust;
+    this.emit({ type: 'updated', id });
+  }
+
   setEvaluation(id: number, evaluation: RunEvaluation): void {
     const r = this.get(id);
     if (!r) return;

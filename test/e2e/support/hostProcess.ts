@@ -3,6 +3,8 @@
  * as `npm run serve` would, and reads its address from the line it prints.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 
 export interface RunningHost {
@@ -19,10 +21,12 @@ export interface RunningHost {
 
 export const repoRoot = join(__dirname, '../../..');
 
+/** Starts the host with its own fresh config folder (recovery files, recent list) unless `env` names one. */
 export function startHost(extraArgs: string[] = [], env: NodeJS.ProcessEnv = {}): Promise<RunningHost> {
+  const configDir = mkdtempSync(join(tmpdir(), 'rankfill-e2e-config-'));
   const child = spawn(process.execPath, [join(repoRoot, 'out/main/browserHost.js'), '--port', '0', '--no-open', ...extraArgs], {
     cwd: repoRoot,
-    env: { ...process.env, ...env },
+    env: { ...process.env, RANKFILL_CONFIG_DIR: configDir, RANKFILL_EXPORT_DIR: join(configDir, 'exports'), ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   let out = '';
