@@ -76,6 +76,10 @@ export function fitGaussian(matrix: RatingMatrix, settings: GaussianSettings, op
     );
   }
   const transpose = settings.transpose;
+  if ((transpose ? rows : cols) > GAUSSIAN_MAX_VARIABLES) {
+    // refuse on the shape alone, before copying anything
+    assertGaussianLimits(new Float64Array(0), 0, transpose ? rows : cols, [], transpose ? 'row' : 'column');
+  }
   const { data, n, p, labels } = gaussianDataBlock(matrix, transpose);
   assertGaussianLimits(data, n, p, labels, transpose ? 'row' : 'column');
 
