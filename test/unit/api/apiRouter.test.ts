@@ -10,7 +10,7 @@ const goodDoc = {
 };
 
 function router(overrides: Partial<ApiHandlers> = {}, log: string[] = []): ApiRouter {
-  const handlers: ApiHandlers = {
+  const handlers = {
     'app.info': async () => ({ name: 'Rankfill', version: '0.0.0', apiVersion: 1, host: 'browser' }),
     'samples.list': async () => ({ samples: [] }),
     'samples.open': async () => goodDoc,
@@ -18,7 +18,7 @@ function router(overrides: Partial<ApiHandlers> = {}, log: string[] = []): ApiRo
     'fit.start': async () => ({ jobId: 'job-1' }),
     'fit.cancel': async () => ({ cancelled: true }),
     ...overrides,
-  };
+  } as unknown as ApiHandlers;
   return new ApiRouter(handlers, (l) => log.push(l));
 }
 

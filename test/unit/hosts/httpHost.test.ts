@@ -56,7 +56,7 @@ describe('browser host (loopback HTTP)', () => {
   });
 
   it('refuses a call without the token or with a wrong one', async () => {
-    for (const headers of [{}, { 'x-rankfill-token': 'secret-token-124' }, { 'x-rankfill-token': 'short' }]) {
+    for (const headers of [{}, { 'x-rankfill-token': 'secret-token-124' }, { 'x-rankfill-token': 'short' }] as Record<string, string>[]) {
       const r = await call(headers);
       expect(r.status).toBe(401);
       expect(JSON.parse(r.body)).toEqual({ ok: false, error: { code: 'unauthorized', message: 'missing or wrong API token' } });
