@@ -57,7 +57,7 @@ export function gaussianRefusal(matrix: RatingMatrix, transpose = false): string
   const p = transpose ? rows : cols;
   if (p > GAUSSIAN_MAX_VARIABLES) {
     // decide on the shape alone, without building the block
-    return gaussianRefusalReason(new Float64Array(0), 0, p, [], transpose ? 'row' : 'column');
+    return gaussianRefusalReason(new Float64Array(0), transpose ? cols : rows, p, [], transpose ? 'row' : 'column');
   }
   const block = gaussianDataBlock(matrix, transpose);
   const reason = gaussianRefusalReason(block.data, block.n, block.p, block.labels, transpose ? 'row' : 'column');
@@ -78,7 +78,7 @@ export function fitGaussian(matrix: RatingMatrix, settings: GaussianSettings, op
   const transpose = settings.transpose;
   if ((transpose ? rows : cols) > GAUSSIAN_MAX_VARIABLES) {
     // refuse on the shape alone, before copying anything
-    assertGaussianLimits(new Float64Array(0), 0, transpose ? rows : cols, [], transpose ? 'row' : 'column');
+    assertGaussianLimits(new Float64Array(0), transpose ? cols : rows, transpose ? rows : cols, [], transpose ? 'row' : 'column');
   }
   const { data, n, p, labels } = gaussianDataBlock(matrix, transpose);
   assertGaussianLimits(data, n, p, labels, transpose ? 'row' : 'column');

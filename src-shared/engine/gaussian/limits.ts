@@ -29,7 +29,7 @@ export function gaussianRefusalReason(
   if (p > GAUSSIAN_MAX_VARIABLES) {
     return (
       `The Gaussian model handles at most ${GAUSSIAN_MAX_VARIABLES} variables, but this matrix has ${p} ${plural}. ` +
-      `Use the low-rank model instead${kind === 'column' ? ' (or make the variables the rows, if there are fewer of them)' : ''}.`
+      `Use the low-rank model instead${n <= GAUSSIAN_MAX_VARIABLES ? ` (or make the ${other} the variables: there are ${n} of them)` : ''}.`
     );
   }
   for (let j = 0; j < p; j++) {

@@ -20,6 +20,9 @@ describe('fitGaussian refusals', () => {
     const m = toMatrix(new Float64Array(5 * 301).fill(3), 5, 301);
     expect(() => fitGaussian(m, settings())).toThrow(/at most 300 variables.*301 columns.*low-rank/);
     expect(() => fitGaussian(m, settings())).toThrow(FitFailedError);
+    expect(() => fitGaussian(m, settings())).toThrow(/make the rows the variables: there are 5 of them/);
+    const tall = toMatrix(new Float64Array(301 * 301).fill(3), 301, 301);
+    expect(gaussianRefusal(tall)).not.toMatch(/make the rows/);
     expect(gaussianRefusal(m)).toMatch(/low-rank/);
     // transposed, the same matrix has 5 variables and is fine
     expect(gaussianRefusal(m, true)).toBeUndefined();
