@@ -8,6 +8,7 @@
  * validates with parseProject before anything is written, and an opened file is
  * validated here before its text goes back to the page (never partly loaded).
  */
+import { existsSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import type { ApiReply, ApiRequest } from '../../src-shared/api';
@@ -53,6 +54,17 @@ export type DocumentMethod =
   | 'app.closeWindow';
 
 export type DocumentHandlers = { [M in DocumentMethod]: (req: ApiRequest<M>) => Promise<ApiReply<M>> };
+
+/** Where the page's path dialog starts and relative paths resolve: ~/Documents when present, else home. */
+export function defaultProjectFolder(): string {
+  const docs = path.join(os.homedir(), 'Documents');
+  return existsSync(docs) ? docs : os.homedir();
+}
+
+function resolveUserPath(p: string): string {
+  const expanded = p.startsWith('~/') || p === '~' ? path.join(os.homedir(), p.slice(2)) : p;
+  return path.resolve(defaultProjectFolder(), expanded);
+}
 
 function titleOf(fileName: string): string {
   return path.basename(fileName).replace(/\.[^.]+$/, '') || 'Untitled';
@@ -103,14 +115,14 @@ export function createDocumentHandlers(deps: DocumentHandlerDeps): DocumentHandl
     },
 
     'project.open': async ({ path: p }) => {
-      const opened = await openProjectFile(p);
+      const opened = await openProjectFile(resolveUserPath(p));
       if (!opened.ok) return { ok: false, problems: opened.problems };
       await noteRecent(opened.path);
       return { ok: true, path: opened.path, projectText: serializeProject(opened.project) };
     },
 
     'project.save': async ({ path: p, projectText }) => {
-      const target = withProjectExtension(path.resolve(p));
+      const target = withProjectExtension(resolveUserPath(p));
       const parsed = parseProject(projectText, path.basename(target));
       if (!parsed.ok) return { ok: false, problems: parsed.problems };
       const saved = await saveProjectFile(target, parsed.project);
@@ -126,7 +138,7 @@ export function createDocumentHandlers(deps: DocumentHandlerDeps): DocumentHandl
       return { supported: true, path: chosen };
     },
 
-    'project.defaultFolder': async () => ({ folder: path.resolve(process.cwd() === '/' ? os.homedir() : process.cwd()) }),
+    'project.defaultFolder': async () => ({ folder: defaultProjectFolder() }),
 
     'recovery.write': async ({ id, title, sourcePath, projectText }) => {
       const parsed = parseProject(projectText, `${id}.rankfill-recovery`);

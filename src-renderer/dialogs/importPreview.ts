@@ -106,7 +106,7 @@ function summary(reply: PreviewReply, fileName: string, bytes: number): HTMLElem
   const i = reply.info;
   const cells = i.rows * i.cols;
   const facts: [string, string][] = [
-    ['Size', `${i.rows} rows × ${i.cols} columns (${cells.toLocaleString('en')} cells, ${(bytes / 1024).toFixed(1)} KB)`],
+    ['Size', `${i.rows} rows × ${i.cols} columns (${cells.toLocaleString('en')} cells; file ${bytes < 1024 ? `${bytes} bytes` : bytes < 1048576 ? `${(bytes / 1024).toFixed(1)} KB` : `${(bytes / 1048576).toFixed(1)} MB`})`],
     ['Observed', `${i.observed.toLocaleString('en')} values (${cells ? ((100 * (cells - i.observed)) / cells).toFixed(1) : '0'} % blank)`],
     ['Delimiter', `${delimiterNames[i.delimiter]}${i.decimalComma ? ', decimal comma' : ''}${i.hadBom ? ', byte-order mark skipped' : ''}`],
     ['Layout', i.layout === 'wide' ? 'wide' : `long (pivoted${i.duplicatePairs ? `, ${i.duplicatePairs} repeated pairs` : ''})`],

@@ -55,6 +55,7 @@ export function restoreDialog(entries: readonly RecoveryEntryPayload[]): Promise
 export async function pathDialog(opts: {
   purpose: 'open' | 'save';
   initial: string;
+  folder: string;
   recent: readonly string[];
   check?: (path: string) => string | undefined;
 }): Promise<string | null> {
@@ -76,7 +77,7 @@ export async function pathDialog(opts: {
     label: 'Path of the project file on this computer',
     initial: opts.initial,
     confirmLabel: opts.purpose === 'open' ? 'Open' : 'Keep',
-    hint: 'Rankfill project files end in .rankfill. A relative path starts from the folder the browser host was started in.',
+    hint: `Rankfill project files end in .rankfill. A relative path (or ~/…) starts from ${opts.folder}.`,
     testId: 'path-dialog',
     extra,
     check: (v) => (v.trim() === '' ? 'type a path' : opts.check?.(v.trim())),

@@ -162,7 +162,7 @@ export class ProjectFiles {
     const recent = (await this.bridge.call('recent.list', {})).files.map((f) => f.path);
     const sep = this.folder.includes('\\') && !this.folder.includes('/') ? '\\' : '/';
     const initial = purpose === 'save' ? this.store.filePath ?? `${this.folder}${this.folder.endsWith(sep) ? '' : sep}${suggested}` : recent[0] ?? `${this.folder}${sep}`;
-    return pathDialog({ purpose, initial, recent: purpose === 'open' ? recent : [] });
+    return pathDialog({ purpose, initial, folder: this.folder, recent: purpose === 'open' ? recent : [] });
   }
 
   /** Keep the project in its file (asks for a path the first time). True when saved. */
