@@ -55,7 +55,8 @@ function fmt(x: number, d = 1): string {
 
 // ---------------------------------------------------------------- 1. ms per iteration
 console.log('1. ALS iteration time, rank 10, centering both, λ 1 (median over iterations 2..N)');
-console.log('   size            observed   obs. cells   ms/iter   ms/iter per 100k obs   peak heap+buffers over start (MB)   engine working set (MB, linear part)');
+console.log('   wall = elapsed time; cpu = this process\'s CPU time (less sensitive to other load on the 2 cores)');
+console.log('   size            observed   obs. cells   wall ms/iter   cpu ms/iter   per 100k obs (wall / cpu)   peak RSS (MB)   linear working set (MB)');
 const sizes: [number, number, number, number][] = [
   [100, 100, 0.1, 10],
   [1000, 500, 0.05, 10],
@@ -64,34 +65,39 @@ const sizes: [number, number, number, number][] = [
   [10000, 1000, 0.1, 6],
 ];
 const perIterPer100k: number[] = [];
+const perIterPer100kCpu: number[] = [];
 for (const [rows, cols, fraction, iters] of sizes) {
   const m = generate(rows, cols, fraction, 10, rows + cols);
   gc?.();
-  const before = process.memoryUsage();
-  const baseMem = before.heapUsed + before.arrayBuffers;
-  let peak = 0;
   const stamps: number[] = [];
+  const cpu: number[] = [];
   const fit = fitModel(m, { ...defaultLowRankSettings(), rank: 10, lambda: 1, tolerance: 0, maxIterations: iters }, {
     onProgress: () => {
       stamps.push(performance.now());
-      const mu = process.memoryUsage();
-      peak = Math.max(peak, mu.heapUsed + mu.arrayBuffers - baseMem);
+      const c = process.cpuUsage();
+      cpu.push((c.user + c.system) / 1000);
     },
   });
-  const deltas = stamps.slice(1).map((t, i) => t - stamps[i]);
-  const perIter = median(deltas);
+  const perIter = median(stamps.slice(1).map((t, i) => t - stamps[i]));
+  const perIterCpu = median(cpu.slice(1).map((t, i) => t - cpu[i]));
   const n = m.values.reduce((a, x) => (x === x ? a + 1 : a), 0);
   const per100k = (perIter * 100_000) / n;
-  if (n >= 100_000) perIterPer100k.push(per100k);
+  const per100kCpu = (perIterCpu * 100_000) / n;
+  if (n >= 100_000) {
+    perIterPer100k.push(per100k);
+    perIterPer100kCpu.push(per100kCpu);
+  }
   // Linear part: sparse index (4 Int32 + 2 Float64 per observed cell) + factors (rows+cols)·k·8 bytes.
   const linear = (n * (4 * 4 + 2 * 8) + (rows + cols) * 10 * 8) / MB;
+  const peakRss = process.resourceUsage().maxRSS / 1024; // maxRSS is in kilobytes
   console.log(
-    `   ${`${rows} × ${cols}`.padEnd(15)} ${`${fraction * 100} %`.padEnd(10)} ${String(n).padEnd(12)} ${fmt(perIter, 2).padEnd(9)} ${fmt(per100k, 2).padEnd(22)} ${fmt(peak / MB).padEnd(35)} ${fmt(linear)}`,
+    `   ${`${rows} × ${cols}`.padEnd(15)} ${`${fraction * 100} %`.padEnd(10)} ${String(n).padEnd(12)} ${fmt(perIter, 2).padEnd(14)} ${fmt(perIterCpu, 2).padEnd(13)} ${`${fmt(per100k, 2)} / ${fmt(per100kCpu, 2)}`.padEnd(27)} ${fmt(peakRss, 0).padEnd(15)} ${fmt(linear)}`,
   );
   if (fit.iterations !== iters) console.log(`   (stopped after ${fit.iterations} iterations)`);
 }
-console.log(`   dense layers (input values, predictions, baseline) add 24 bytes per cell (rows × cols) on top of the linear part.`);
-console.log(`   target ≤ 20 ms per iteration per 100k observed cells: worst measured ${fmt(Math.max(...perIterPer100k), 2)} ms`);
+console.log(`   peak RSS is the whole process's high-water mark so far (grows with the largest case); dense layers`);
+console.log(`   (input values, predictions, baseline) add 24 bytes per cell (rows × cols) on top of the linear part.`);
+console.log(`   target ≤ 20 ms per iteration per 100k observed cells (cases with ≥ 100k observed): worst ${fmt(Math.max(...perIterPer100k), 2)} ms wall, ${fmt(Math.max(...perIterPer100kCpu), 2)} ms cpu`);
 
 // ---------------------------------------------------------------- 2. kernel vs reference
 {
