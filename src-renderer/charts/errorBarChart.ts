@@ -79,8 +79,8 @@ export class ErrorBarChart {
       }
     }
     if (!Number.isFinite(lo)) return [0, 1];
-    const pad = Math.max((hi - lo) * 0.18, 0.01);
-    return [Math.max(0, lo - pad), hi + pad];
+    const pad = Math.max((hi - lo) * 0.12, 0.01);
+    return [Math.max(0, lo - pad), hi + 2 * pad];
   }
 
   private drawMarks(u: uPlot): void {
@@ -134,9 +134,11 @@ export class ErrorBarChart {
         ctx.arc(x, y, 8.5 * px, 0, Math.PI * 2);
         ctx.stroke();
         ctx.font = chartFont.replace(/^(\d+)px/, (_m, n: string) => `bold ${Number(n) * px}px`);
-        ctx.textAlign = 'right';
-        ctx.textBaseline = 'middle';
-        ctx.fillText('best', x - 12 * px, y);
+        // Label above the upper whisker cap (or the ring when there is no whisker).
+        const top = Number.isFinite(it.sd) && it.sd > 0 ? Math.min(u.valToPos(it.mean + it.sd, 'y', true), y - 8.5 * px) : y - 8.5 * px;
+        ctx.textAlign = 'center';
+        ctx.textBaseline = 'bottom';
+        ctx.fillText('best', x, top - 3 * px);
       }
     });
     ctx.restore();

@@ -117,8 +117,9 @@ export class RankErrorChart {
       if (Number.isFinite(input.threshold)) hi = Math.max(hi, input.threshold);
     }
     if (!Number.isFinite(lo)) return [0, 1];
-    const pad = Math.max((hi - lo) * 0.1, 0.01);
-    return [Math.max(0, lo - pad), hi + pad];
+    const pad = Math.max((hi - lo) * 0.12, 0.01);
+    // Extra room under the lowest point for the "best" label.
+    return [Math.max(0, lo - 2.2 * pad), hi + pad];
   }
 
   private drawMarks(u: uPlot): void {
@@ -155,9 +156,12 @@ export class RankErrorChart {
       ctx.beginPath();
       ctx.arc(x, y, 7 * px, 0, Math.PI * 2);
       ctx.stroke();
+      // Label under the ring (lines usually reach the best point from above); above it near the bottom edge.
       ctx.fillStyle = chartColours.best;
-      ctx.textAlign = x > left + width * 0.6 ? 'right' : 'left';
-      ctx.fillText(same ? 'best = 1-SE' : 'best', x + (ctx.textAlign === 'right' ? -9 : 9) * px, y - 6 * px);
+      ctx.textAlign = 'center';
+      const below = y + 22 * px < top + height;
+      ctx.textBaseline = below ? 'top' : 'bottom';
+      ctx.fillText(same ? 'best = 1-SE' : 'best', Math.min(Math.max(x, left + 30 * px), left + width - 30 * px), below ? y + 9 * px : y - 9 * px);
     }
     if (input.oneSE && Number.isFinite(input.oneSE.value)) {
       const x = u.valToPos(input.oneSE.rank, 'x', true);
@@ -173,10 +177,12 @@ export class RankErrorChart {
       ctx.closePath();
       ctx.stroke();
       if (!same) {
+        // Label beside the diamond: to its left unless the point sits near the left edge.
         ctx.fillStyle = chartColours.ink;
-        ctx.textAlign = x > left + width * 0.6 ? 'right' : 'left';
-        ctx.textBaseline = 'top';
-        ctx.fillText('1-SE', x + (ctx.textAlign === 'right' ? -9 : 9) * px, y + 5 * px);
+        const leftSide = x > left + width * 0.3;
+        ctx.textAlign = leftSide ? 'right' : 'left';
+        ctx.textBaseline = 'middle';
+        ctx.fillText('1-SE', x + (leftSide ? -9 : 9) * px, y + 4 * px);
       }
     }
     ctx.restore();
