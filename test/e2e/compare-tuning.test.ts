@@ -97,6 +97,31 @@ describe('compare centering and tuning panels', () => {
     expect(['1', '10']).toContain(bestCells[1]);
   });
 
+  it('Stop ends a long tuning run and the panel keeps working', async () => {
+    await page.click(tid('tab-tuning'));
+    await page.fill(tid('tuning-ranks'), Array.from({ length: 20 }, (_, i) => i).join(','));
+    await page.fill(tid('tuning-lambdas'), '0.1, 0.3, 1, 3, 10, 30, 100, 300');
+    await page.click(tid('tuning-run'));
+    await expect.poll(() => page.textContent(tid('tuning-progress-text')), { timeout: 15_000 }).toMatch(/\d+ of \d+ done/);
+    await page.click(tid('tuning-stop'));
+    await expect.poll(() => page.textContent(tid('tuning-progress-text')), { timeout: 15_000 }).toContain('Stopped');
+    expect(await page.isEnabled(tid('tuning-run'))).toBe(true);
+    // The earlier results stay: still the six rows of the small grid.
+    expect(await page.locator(tid('tuning-row')).count()).toBe(6);
+  });
+
+  it('explains that centering does not apply to the Gaussian family and compares the low-rank family', async () => {
+    await page.click(tid('tab-model'));
+    await page.selectOption(tid('model-family'), 'gaussian');
+    await page.click(tid('tab-centering'));
+    await page.click(tid('centering-run'));
+    await expect.poll(() => page.textContent(tid('centering-progress-text')), { timeout: 30_000 }).toContain('Done');
+    expect(await page.textContent(tid('centering-family-note'))).toContain('does not apply to the Gaussian');
+    expect(await page.locator(tid('centering-row')).count()).toBe(4);
+    await page.click(tid('tab-model'));
+    await page.selectOption(tid('model-family'), 'lowrank');
+  });
+
   it('says the results belong to the previous data after another data set is opened', async () => {
     await page.selectOption(tid('sample-picker'), 'peer-review-round');
     await page.click(tid('tab-centering'));
