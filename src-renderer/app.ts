@@ -124,10 +124,20 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
     picker.append(opt);
   }
   let editing: Editing | undefined;
+  let pickedSample = '';
   picker.addEventListener('change', () => {
+    const id = picker.value;
     void (editing ? editing.confirmLeave('Opening a sample set') : Promise.resolve(true))
-      .then((go) => (go ? bridge.call('samples.open', { id: picker.value }) : undefined))
-      .then((doc) => doc && openDocument(doc))
+      .then((go) => {
+        if (go) return bridge.call('samples.open', { id });
+        picker.value = pickedSample; // stayed: the picker shows what is open
+        return undefined;
+      })
+      .then((doc) => {
+        if (!doc) return;
+        pickedSample = id;
+        openDocument(doc);
+      })
       .catch((err: unknown) => notice.show(messageOf(err), 'error'));
   });
 
@@ -145,7 +155,7 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
 
   // First start: open the first sample.
   if (samples.length > 0) {
-    picker.value = samples[0].id;
+    picker.value = pickedSample = samples[0].id;
     openDocument(await bridge.call('samples.open', { id: samples[0].id }));
   }
   refreshStatus();

@@ -324,6 +324,11 @@ export const apiMethods = {
     request: empty,
     reply: z.object({ cleared: z.boolean() }),
   },
+  /** The desktop Edit menu shows what Undo and Redo would do. Browser host: `supported: false`. */
+  'app.setEditLabels': {
+    request: z.object({ undo: z.string().max(200).nullable(), redo: z.string().max(200).nullable() }).strict(),
+    reply: z.object({ supported: z.boolean() }),
+  },
   /** Close the window without asking again (the page has already asked). Browser host: `supported: false`. */
   'app.closeWindow': {
     request: empty,

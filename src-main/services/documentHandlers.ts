@@ -28,6 +28,8 @@ export interface DesktopShell {
   closeWindow(): void;
   /** The recent-files list changed (rebuild the File menu). */
   recentChanged?(paths: string[]): void;
+  /** What Undo and Redo would do now (shown in the Edit menu). */
+  editLabelsChanged?(undo: string | null, redo: string | null): void;
 }
 
 export interface DocumentHandlerDeps {
@@ -51,6 +53,7 @@ export type DocumentMethod =
   | 'recovery.discard'
   | 'recent.list'
   | 'recent.clear'
+  | 'app.setEditLabels'
   | 'app.closeWindow';
 
 export type DocumentHandlers = { [M in DocumentMethod]: (req: ApiRequest<M>) => Promise<ApiReply<M>> };
@@ -179,6 +182,12 @@ export function createDocumentHandlers(deps: DocumentHandlerDeps): DocumentHandl
       await deps.recent.clear();
       deps.shell?.recentChanged?.([]);
       return { cleared: true };
+    },
+
+    'app.setEditLabels': async ({ undo, redo }) => {
+      if (!deps.shell?.editLabelsChanged) return { supported: false };
+      deps.shell.editLabelsChanged(undo, redo);
+      return { supported: true };
     },
 
     'app.closeWindow': async () => {

@@ -75,6 +75,18 @@ export function installEditing(d: EditingDeps): Editing {
       .catch((err: unknown) => d.notice.show(`${file.name} could not be read: ${err instanceof Error ? err.message : String(err)}`, 'error'));
   });
 
+  // The desktop Edit menu names what Undo and Redo would do.
+  if (d.bridge.kind === 'electron') {
+    let timer: ReturnType<typeof setTimeout> | undefined;
+    d.store.subscribe((e) => {
+      if (e.type !== 'history') return;
+      clearTimeout(timer);
+      timer = setTimeout(() => {
+        void d.bridge.call('app.setEditLabels', { undo: d.store.undoLabel() ?? null, redo: d.store.redoLabel() ?? null }).catch(() => undefined);
+      }, 150);
+    });
+  }
+
   d.bridge.on('menu.command', ({ command }) => {
     const run: Record<string, () => void> = {
       'file.save': () => void files.save(),

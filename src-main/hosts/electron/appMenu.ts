@@ -31,6 +31,7 @@ export function appMenuTemplate(
   send: (command: MenuCommand) => void,
   isMac: boolean,
   recentProjects: readonly string[] = [],
+  editLabels: { undo?: string | null; redo?: string | null } = {},
 ): MenuItemConstructorOptions[] {
   const item = (label: string, command: MenuCommand, accelerator?: string): MenuItemConstructorOptions => ({
     label,
@@ -65,8 +66,8 @@ export function appMenuTemplate(
     {
       label: '&Edit',
       submenu: [
-        item('Take Back', 'edit.undo', 'CmdOrCtrl+Z'),
-        item('Bring Back', 'edit.redo', 'CmdOrCtrl+Shift+Z'),
+        item(editLabels.undo ? `Take Back: ${editLabels.undo}` : 'Take Back', 'edit.undo', 'CmdOrCtrl+Z'),
+        item(editLabels.redo ? `Bring Back: ${editLabels.redo}` : 'Bring Back', 'edit.redo', 'CmdOrCtrl+Shift+Z'),
         { type: 'separator' },
         { role: 'cut', label: 'Cut Cells' },
         { role: 'copy', label: 'Copy Cells' },

@@ -10,12 +10,14 @@ export interface ElectronShellDeps {
   window: () => BrowserWindow | null;
   /** Called once the page agreed to close (lets the 'close' handler pass). */
   allowClose: () => void;
-  rebuildMenu: (recent: string[]) => void;
+  rebuildMenu: (recent: string[], edit: { undo: string | null; redo: string | null }) => void;
 }
 
 const projectFilters = [{ name: 'Rankfill project', extensions: ['rankfill'] }];
 
 export function electronShell(deps: ElectronShellDeps): DesktopShell {
+  let recent: string[] = [];
+  let edit: { undo: string | null; redo: string | null } = { undo: null, redo: null };
   return {
     async chooseOpenPath() {
       const win = deps.window();
@@ -34,7 +36,12 @@ export function electronShell(deps: ElectronShellDeps): DesktopShell {
       deps.window()?.close();
     },
     recentChanged(paths: string[]) {
-      deps.rebuildMenu(paths);
+      recent = paths;
+      deps.rebuildMenu(recent, edit);
+    },
+    editLabelsChanged(undo: string | null, redo: string | null) {
+      edit = { undo, redo };
+      deps.rebuildMenu(recent, edit);
     },
   };
 }

@@ -45,8 +45,8 @@ export function runElectronHost(): void {
     // Closing asks the page first (unsaved changes); the page answers through app.closeWindow.
     let closeAllowed = false;
     let send: (command: string) => void = () => {};
-    const rebuildMenu = (recent: string[]) =>
-      Menu.setApplicationMenu(Menu.buildFromTemplate(appMenuTemplate(send, process.platform === 'darwin', recent)));
+    const rebuildMenu = (recent: string[], edit: { undo: string | null; redo: string | null } = { undo: null, redo: null }) =>
+      Menu.setApplicationMenu(Menu.buildFromTemplate(appMenuTemplate(send, process.platform === 'darwin', recent, edit)));
     const shell = electronShell({ window: () => mainWindow, allowClose: () => (closeAllowed = true), rebuildMenu });
     const services = createServices({ host: 'electron', createWorker: createFitWorker, createParseWorker, shell, log });
     registerIpc(ipcMain, services.router, () => (mainWindow ? [mainWindow.webContents] : []));
@@ -55,7 +55,7 @@ export function runElectronHost(): void {
     rebuildMenu([]);
     void new RecentFiles()
       .list()
-      .then((files) => rebuildMenu(files.map((f) => f.path)))
+      .then((files) => shell.recentChanged?.(files.map((f) => f.path)))
       .catch(() => undefined);
 
     mainWindow = new BrowserWindow(mainWindowOptions(join(__dirname, '../preload/preload.js')));
