@@ -110,7 +110,7 @@ console.log(`   target ≤ 20 ms per iteration per 100k observed cells (cases wi
   for (let p = 0; p < idx.n; p++) resRow[p] = m.values[idx.rowCell[p]];
   const resCol = new Float64Array(idx.n);
   for (let q = 0; q < idx.n; q++) resCol[q] = m.values[idx.colCell[q]];
-  const start = spectralStart(idx, resRow, k, 1);
+  const start = spectralStart(idx, resRow, k, 1)!;
   const ws = createWorkspace(k);
   const timeOurs = (): number => {
     const u = new Float64Array(start.rowFactors);

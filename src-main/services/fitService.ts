@@ -9,8 +9,10 @@
  *                                CrossValidationResult, or TuneResult.
  *   'error'    (jobId, message)  a one-line reason (bad settings, non-finite values,
  *                                diverging objective, crashed or out-of-memory worker).
- *   'cancelled'(jobId)           emitted at once when cancel() succeeds; nothing else
- *                                follows for that job.
+ *   'cancelled'(jobId)           emitted at once when cancel() succeeds; no progress, result
+ *                                or error follows for that job.
+ *   'stopped'  (jobId, ms)       the worker confirms it left a cancelled computation, ms after
+ *                                the request (diagnostic; the budget is 100 ms).
  *
  * Cancellation: cancel() sets the job's shared Int32 flag (Atomics), which the engine
  * polls every 64 rows/columns inside each half-step, so computing stops within
@@ -105,6 +107,7 @@ export class FitService extends EventEmitter {
     const job = this.active;
     if (!job || job.id !== jobId || job.cancelled) return false;
     job.cancelled = true;
+    new Float64Array(job.flag, 8, 1)[0] = performance.timeOrigin + performance.now();
     Atomics.store(new Int32Array(job.flag), 0, 1);
     this.emit('cancelled', jobId);
     // If the worker does not come back in time, replace it.
@@ -141,7 +144,7 @@ export class FitService extends EventEmitter {
   private enqueue(request: JobRequest): string {
     if (this.disposed) throw new Error('the fit service has been disposed');
     const id = `job-${this.nextId++}`;
-    this.queue.push({ id, flag: new SharedArrayBuffer(4), request, cancelled: false });
+    this.queue.push({ id, flag: new SharedArrayBuffer(16), request, cancelled: false });
     queueMicrotask(() => this.pump());
     return id;
   }
@@ -185,7 +188,9 @@ export class FitService extends EventEmitter {
     // Terminal message: the worker is free again.
     this.active = undefined;
     if (this.graceTimer) clearTimeout(this.graceTimer);
-    if (!job.cancelled) {
+    if (job.cancelled) {
+      if (m.type === 'cancelled' && m.stopLatencyMs !== undefined) this.emit('stopped', job.id, m.stopLatencyMs);
+    } else {
       if (m.type === 'result') this.emit('result', job.id, m.payload);
       else if (m.type === 'error') this.emitError(job.id, m.message);
       else this.emit('cancelled', job.id);

