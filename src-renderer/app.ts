@@ -20,6 +20,7 @@ import { mountRunsPanel } from './panels/runsPanel';
 import { SidePanel } from './panels/sidePanel';
 import { renderStatusLine } from './panels/statusLine';
 import { syncGridWithRuns } from './runs/gridSync';
+import { installRunPersistence } from './runs/runPersistence';
 import { FitController } from './runs/fitController';
 import { RunStore } from './runs/runStore';
 import { DocumentStore } from './state/documentStore';
@@ -77,6 +78,7 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   mountCenteringPanel(centeringRoot, ctx);
   mountTuningPanel(tuningRoot, ctx);
   syncGridWithRuns(ctx);
+  installRunPersistence(ctx);
   runs.subscribe((e) => {
     const r = runs.shown;
     if (!r || !(e.type === 'shown' || (e.type === 'updated' && e.id === r.id))) return;
