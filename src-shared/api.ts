@@ -197,6 +197,8 @@ export type RecoveryEntryPayload = z.infer<typeof recoveryEntrySchema>;
 
 const empty = z.object({}).strict();
 const jobId = z.string().min(1).max(100);
+/** A job id the page chooses itself (the job is then `fit:<id>` or `eval:<id>`), so it can follow events before the reply. */
+const clientJobId = z.string().regex(/^[A-Za-z0-9_-]{1,60}$/);
 
 export const apiMethods = {
   /** Who answers, and under which host. */
@@ -348,6 +350,7 @@ export const apiMethods = {
         settings: fitSettingsSchema,
         trust: trustRequestSchema.optional(),
         warmStart: z.object({ rowFactors: z.array(z.number()), colFactors: z.array(z.number()) }).optional(),
+        clientId: clientJobId.optional(),
       })
       .strict(),
     reply: z.object({ jobId }),
@@ -355,7 +358,13 @@ export const apiMethods = {
   /** k-fold cross-validation of one setting; answers with a `fit.evaluated` event. */
   'fit.evaluate': {
     request: z
-      .object({ matrix: matrixPayloadSchema, settings: fitSettingsSchema, folds: z.number().int().min(2).max(20), seed: z.number().int() })
+      .object({
+        matrix: matrixPayloadSchema,
+        settings: fitSettingsSchema,
+        folds: z.number().int().min(2).max(20),
+        seed: z.number().int(),
+        clientId: clientJobId.optional(),
+      })
       .strict(),
     reply: z.object({ jobId }),
   },
@@ -367,6 +376,7 @@ export const apiMethods = {
         settingsList: z.array(fitSettingsSchema).min(1).max(2000),
         folds: z.number().int().min(2).max(20),
         seed: z.number().int(),
+        clientId: clientJobId.optional(),
       })
       .strict(),
     reply: z.object({ jobId }),

@@ -48,6 +48,13 @@ export class JobTracker {
     });
   }
 
+  /** Stop following a job whose start call failed; its promise rejects with `reason`. */
+  abandon(jobId: string, reason: Error): void {
+    const f = this.followers.get(jobId);
+    this.followers.delete(jobId);
+    f?.reject(reason);
+  }
+
   private deliver(event: ApiEventName, payload: { jobId: string }): void {
     const f = this.followers.get(payload.jobId);
     if (!f) {

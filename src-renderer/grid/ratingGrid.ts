@@ -50,6 +50,10 @@ export const colIdFor = (j: number) => `c${j}`;
 export const colIndexOf = (colId: string | undefined): number => (colId && /^c\d+$/.test(colId) ? Number(colId.slice(1)) : -1);
 const BASELINE_ROW = -1;
 
+function weakKey(m: Map<number, string> | undefined): string {
+  return m ? [...m.keys()].join(',') : '';
+}
+
 export class RatingGrid {
   readonly api: GridApi<RowRecord>;
   private layers: GridLayers = { overlay: null, overlayVisible: true, diff: null, baselines: null, weak: null };
@@ -258,14 +262,17 @@ export class RatingGrid {
 
   /** Replace some of the model layers; columns are rebuilt only when the side column appears or goes. */
   setLayers(patch: Partial<GridLayers>): void {
-    const hadSide = !!this.layers.baselines;
-    this.layers = { ...this.layers, ...patch };
+    const before = this.layers;
+    const hadSide = !!before.baselines;
+    this.layers = { ...before, ...patch };
     if (hadSide !== !!this.layers.baselines) {
       this.rebuild();
       return;
     }
-    this.updatePinnedRows();
-    this.api.refreshHeader();
+    const hadBottom = !!before.baselines?.col;
+    if (hadBottom !== !!this.layers.baselines?.col || before.baselines?.colLabel !== this.layers.baselines?.colLabel) this.updatePinnedRows();
+    // Headers only carry the weak-column marks: redraw them only when those change.
+    if (weakKey(before.weak?.cols) !== weakKey(this.layers.weak?.cols)) this.api.refreshHeader();
     this.api.refreshCells({ force: true });
   }
 

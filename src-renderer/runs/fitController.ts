@@ -6,7 +6,7 @@
  * main side's worker; this class only sends snapshots and collects results.
  */
 import type { ApiEventPayload, CrossValidationPayload, TunePayload } from '../../src-shared/api';
-import { fitResultFromPayload, matrixToPayload, toNullable, trustFromPayload } from '../../src-shared/apiCodec';
+import { fitResultFromPayload, matrixToPayload, trustFromPayload } from '../../src-shared/apiCodec';
 import type { FitSettings } from '../../src-shared/engine/types';
 import type { HostBridge } from '../bridge/hostBridge';
 import { JobEndedError, JobTracker } from '../bridge/jobTracker';
@@ -27,6 +27,7 @@ export class FitController {
   private readonly jobs: JobTracker;
   private fillJob: string | null = null;
   private liveJob: string | null = null;
+  private liveSeq = 0;
   private readonly fillListeners = new Set<(s: FillState) => void>();
   /** Refit the shown run after each edit. */
   liveRefit = true;
@@ -140,29 +141,31 @@ export class FitController {
     const matrix = this.doc.current;
     const sameShape = matrix.rowLabels.length === run.rows && matrix.colLabels.length === run.cols;
     const previous = this.liveJob;
-    this.liveJob = null;
     if (previous) void this.bridge.call('fit.cancel', { jobId: previous }).catch(() => undefined);
-    let jobId: string;
-    try {
-      // The refit itself first (fast, warm-started); the ensemble spread follows in a second job.
-      ({ jobId } = await this.bridge.call('fit.start', {
+    // The page names the job itself and follows it before sending, so the result
+    // can be drawn as soon as it arrives, whatever the reply to the call is doing.
+    const clientId = `live-${++this.liveSeq}-${Math.random().toString(36).slice(2, 8)}`;
+    const jobId = `fit:${clientId}`;
+    this.liveJob = jobId;
+    const outcomePromise = this.jobs.follow(jobId);
+    this.bridge
+      .call('fit.start', {
         matrix: matrixToPayload(matrix),
         settings: run.settings,
+        clientId,
         ...(sameShape && run.result.rank > 0
-          ? { warmStart: { rowFactors: toNullable(run.result.rowFactors) as number[], colFactors: toNullable(run.result.colFactors) as number[] } }
+          ? { warmStart: { rowFactors: Array.from(run.result.rowFactors), colFactors: Array.from(run.result.colFactors) } }
           : {}),
-      }));
-    } catch {
-      return;
-    }
-    this.liveJob = jobId;
+      })
+      .catch((err: unknown) => this.jobs.abandon(jobId, err instanceof Error ? err : new Error(String(err))));
     try {
-      const outcome = await this.jobs.follow(jobId);
+      const outcome = await outcomePromise;
       if (outcome.kind !== 'fit' || this.liveJob !== jobId) return;
       const result = fitResultFromPayload(outcome.result);
       if (result.rows !== matrix.rowLabels.length || result.cols !== matrix.colLabels.length) return;
       run.rows = result.rows;
       run.cols = result.cols;
+      // The refit itself is drawn first (fast, warm-started); the ensemble spread follows in a second job.
       this.runs.refit(run.id, result, undefined, revision);
       this.lastLiveRefit = { revision, startedAt, finishedAt: performance.now() };
       void this.refreshTrust(run, revision);
