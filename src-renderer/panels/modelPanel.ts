@@ -4,6 +4,7 @@
  * their legend.
  */
 import { defaultLowRankSettings } from '../../src-shared/engine/defaults';
+import { defaultGaussianSettings } from '../../src-shared/engine/gaussian';
 import type { Centering, FitSettings, GaussianSettings, LowRankSettings } from '../../src-shared/engine/types';
 import { ObjectiveChart } from '../charts/objectiveChart';
 import type { FillState, FitController } from '../runs/fitController';
@@ -14,11 +15,7 @@ export interface ModelPanelHooks {
   setOverlayVisible(visible: boolean): void;
 }
 
-const GAUSSIAN_DEFAULTS: Omit<GaussianSettings, 'seed' | 'clipToScale' | 'snapToStep' | 'maxIterations' | 'tolerance'> = {
-  model: 'gaussian',
-  shrinkage: 0.1,
-  transpose: false,
-};
+const GAUSSIAN_DEFAULTS = defaultGaussianSettings();
 
 export class ModelPanel {
   private readonly family: HTMLSelectElement;
@@ -146,16 +143,15 @@ export class ModelPanel {
     const iterations = Math.max(1, Math.round(Number(this.iterations.value) || 100));
     const seed = Math.round(Number(this.seed.value) || 0);
     if (this.family.value === 'gaussian') {
-      return {
+      const g: GaussianSettings = {
         ...GAUSSIAN_DEFAULTS,
         shrinkage: Math.min(0.95, Math.max(0, Number(this.shrinkage.value) || 0)),
         transpose: this.transpose.checked,
         maxIterations: iterations,
-        tolerance: 1e-6,
         seed,
         clipToScale: this.clip.checked,
-        snapToStep: false,
       };
+      return g;
     }
     const s: LowRankSettings = {
       ...defaultLowRankSettings(),
