@@ -11,6 +11,7 @@
 import { spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
+import { createRng } from '../src-shared/engine/random';
 import { launchBrowser } from '../test/e2e/support/browser';
 import { repoRoot, startHost } from '../test/e2e/support/hostProcess';
 
@@ -19,16 +20,10 @@ const COLS = 40;
 const EDITS = 25;
 const TARGET_MS = 150;
 
-/** mulberry32 (public-domain construction), for a seeded demo matrix. */
+/** Uniform draws in [0, 1) from the engine's seeded generator. */
 function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const r = createRng(seed);
+  return () => r.next();
 }
 
 function matrix60x40() {

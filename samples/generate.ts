@@ -12,17 +12,12 @@
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
+import { createRng } from '../src-shared/engine/random';
 
-/** mulberry32: a small seeded PRNG (public-domain construction). */
+/** Uniform draws in [0, 1) from the engine's seeded generator. */
 function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const r = createRng(seed);
+  return () => r.next();
 }
 
 function gauss(r: () => number): number {

@@ -7,11 +7,11 @@
  */
 import type { TunePayload } from '../../src-shared/api';
 import type { Centering, FitSettings } from '../../src-shared/engine/types';
-import { JobEndedError } from '../bridge/jobTracker';
 import { RankErrorChart } from '../charts/rankErrorChart';
 import { CENTERING_SHORT } from '../runs/describeSettings';
 import { CENTERING_MODES } from './centeringModel';
 import { el, field, fmt, numberInput } from './dom';
+import { GridRunPanel } from './gridRunPanel';
 import type { PanelContext } from './panelContext';
 import {
   DEFAULT_LAMBDAS,
@@ -56,50 +56,16 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
     });
 
   const size = el('p', { className: 'rf-hint', testid: 'tuning-size' });
-  const runButton = el('button', { className: 'rf-button rf-primary', testid: 'tuning-run' }, ['Run tuning']);
-  const stopButton = el('button', { className: 'rf-button', testid: 'tuning-stop', disabled: true }, ['Stop']);
-  const bar = el('progress', { testid: 'tuning-progress', hidden: true });
-  bar.max = 1;
-  bar.value = 0;
-  const progressText = el('div', { className: 'rf-hint', testid: 'tuning-progress-text' }, ['Not run yet.']);
   const familyNote = el('p', { className: 'rf-hint rf-note', testid: 'tuning-family-note', hidden: true });
-  const error = el('div', { className: 'rf-panel-error', testid: 'tuning-error', hidden: true });
-  const stale = el('p', { className: 'rf-stale', testid: 'tuning-stale', hidden: true });
-  const results = el('div', { testid: 'tuning-results', hidden: true });
   const summary = el('div', { className: 'rf-tune-summary', testid: 'tuning-summary' });
   const applyBest = el('button', { className: 'rf-button', testid: 'tuning-apply-best' }, ['Apply best']);
   const applyOneSE = el('button', { className: 'rf-button', testid: 'tuning-apply-onese' }, ['Apply simpler choice (one-SE)']);
   const chartHost = el('div', { className: 'rf-chart', testid: 'tuning-chart' });
   const tableWrap = el('div', { className: 'rf-table-wrap rf-table-scroll' });
-  results.append(summary, el('div', { className: 'rf-row' }, [applyBest, applyOneSE]), chartHost, tableWrap);
 
-  root.append(
-    el('h2', {}, ['Tuning']),
-    el('p', { className: 'rf-hint' }, [
-      'Tries every combination below on the same cross-validation folds and reports the held-out error of each. Other settings (iterations, seed, clipping) come from the Model tab.',
-    ]),
-    el('div', { className: 'rf-fields rf-tune-fields' }, [
-      field('Ranks', ranksInput, 'Whole numbers, separated by commas.'),
-      field('λ values', lambdasInput, 'Regularization strengths to try.'),
-      field('Folds', foldsInput),
-      el('div', { className: 'rf-form-field' }, [el('span', { className: 'rf-form-label' }, ['Centering']), checkRow]),
-    ]),
-    size,
-    familyNote,
-    el('div', { className: 'rf-row' }, [runButton, stopButton]),
-    bar,
-    progressText,
-    error,
-    stale,
-    results,
-  );
 
-  const chart = new RankErrorChart(chartHost);
-  let jobId: string | null = null;
-  let running = false;
-  let stopRequested = false;
-  let runToken = 0;
-  let dataChanged: 'replaced' | 'edited' | null = null;
+
+  let chart: RankErrorChart | undefined;
   let last: TunePayload | null = null;
 
   function request() {
@@ -134,23 +100,6 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
     if (id === 'tuning') syncCenteringFromForm();
   });
 
-  const setRunning = (on: boolean) => {
-    running = on;
-    runButton.disabled = on;
-    stopButton.disabled = !on;
-    bar.hidden = !on;
-  };
-  const showError = (message: string | null) => {
-    error.hidden = message === null;
-    error.textContent = message ?? '';
-  };
-  const renderStale = () => {
-    stale.hidden = dataChanged === null || results.hidden;
-    stale.textContent =
-      dataChanged === 'replaced'
-        ? 'These results belong to the previous data set. Run again for the one now open.'
-        : 'The data has been edited since this run; run again to include the edits.';
-  };
 
   const apply = (settings: FitSettings, what: string) => {
     ctx.model.apply(settings);
@@ -169,7 +118,7 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
     const severalCenterings = new Set(data.series.map((s) => s.centering)).size > 1;
     const lambdas = [...new Set(data.series.map((s) => s.lambda))];
     const centerings = CENTERING_MODES.filter((c) => data.series.some((s) => s.centering === c));
-    chart.set({
+    chart?.set({
       ranks: data.ranks,
       lines: data.series.map((s) => ({
         label: `λ ${s.lambda}${severalCenterings ? ` · ${CENTERING_SHORT[s.centering]}` : ''}`,
@@ -197,90 +146,49 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
     const failed = reply.table.filter((r) => r.error).length;
     if (failed > 0) summary.append(el('div', { className: 'rf-warn-text' }, [`${failed} setting${failed === 1 ? '' : 's'} failed to fit (see the table).`]));
     tableWrap.replaceChildren(buildTable(reply, severalCenterings));
-    results.hidden = false;
   };
 
-  runButton.addEventListener('click', () => {
-    void (async () => {
-      if (running) return;
-      showError(null);
+  type Plan = Extract<ReturnType<typeof planTuning>, { ok: true }>;
+  const runner = new GridRunPanel<Plan>(ctx, {
+    prefix: 'tuning',
+    runLabel: 'Run tuning',
+    idleText: 'Not run yet.',
+    plan: () => {
       const form = ctx.model.settings();
       const plan = planTuning(request(), form);
-      if (!plan.ok) {
-        showError(plan.message);
-        return;
-      }
-      if (ctx.store.current.rowLabels.length === 0) {
-        showError('Open a data set first.');
-        return;
-      }
+      if (!plan.ok) return { error: plan.message };
       familyNote.hidden = form.model === 'lowrank';
       familyNote.textContent = 'The Model tab is on the Gaussian family; tuning searches the low-rank family (rank, λ, centering).';
-      const token = ++runToken;
-      stopRequested = false;
-      jobId = null;
-      setRunning(true);
-      bar.value = 0;
-      progressText.textContent = `Starting ${plan.settingsList.length} settings…`;
-      try {
-        const reply = await ctx.controller.evaluateGrid(
-          plan.settingsList,
-          plan.folds,
-          plan.seed,
-          (done, total) => {
-            if (token !== runToken) return;
-            bar.max = Math.max(1, total);
-            bar.value = done;
-            progressText.textContent = `Fitting fold models: ${done} of ${total} done.`;
-          },
-          (id) => {
-            jobId = id;
-            if (stopRequested) void ctx.controller.cancelJob(id);
-          },
-        );
-        if (token !== runToken) return;
-        dataChanged = null;
-        progressText.textContent = `Done: ${plan.settingsList.length} settings × ${plan.folds} folds, seed ${plan.seed}.`;
-        renderResults(reply);
-      } catch (err) {
-        if (token !== runToken) return;
-        if (err instanceof JobEndedError && err.cancelled) progressText.textContent = 'Stopped. Earlier results, if any, stay shown.';
-        else {
-          progressText.textContent = 'The tuning run did not finish.';
-          showError(`Could not run the tuning grid: ${err instanceof Error ? err.message : String(err)}`);
-        }
-      } finally {
-        if (token === runToken) {
-          setRunning(false);
-          jobId = null;
-          renderStale();
-        }
-      }
-    })();
+      return plan;
+    },
+    startText: (plan) => `Starting ${plan.settingsList.length} settings…`,
+    doneText: (plan) => `Done: ${plan.settingsList.length} settings × ${plan.folds} folds, seed ${plan.seed}.`,
+    failedText: 'The tuning run did not finish.',
+    errorPrefix: 'Could not run the tuning grid',
+    staleText: {
+      replaced: 'These results belong to the previous data set. Run again for the one now open.',
+      edited: 'The data has been edited since this run; run again to include the edits.',
+    },
+    render: (reply) => renderResults(reply),
   });
+  runner.results.append(summary, el('div', { className: 'rf-row' }, [applyBest, applyOneSE]), chartHost, tableWrap);
 
-  stopButton.addEventListener('click', () => {
-    stopRequested = true;
-    progressText.textContent = 'Stopping…';
-    if (jobId) void ctx.controller.cancelJob(jobId);
-  });
-
-  ctx.store.subscribe((e) => {
-    if (e.type === 'replaced') {
-      if (running) {
-        stopRequested = true;
-        if (jobId) void ctx.controller.cancelJob(jobId);
-        runToken++;
-        setRunning(false);
-        progressText.textContent = 'Stopped: another data set was opened.';
-      }
-      dataChanged = 'replaced';
-      renderStale();
-    } else if ((e.type === 'cells' || e.type === 'shape') && dataChanged === null && !results.hidden) {
-      dataChanged = 'edited';
-      renderStale();
-    }
-  });
+  root.append(
+    el('h2', {}, ['Tuning']),
+    el('p', { className: 'rf-hint' }, [
+      'Tries every combination below on the same cross-validation folds and reports the held-out error of each. Other settings (iterations, seed, clipping) come from the Model tab.',
+    ]),
+    el('div', { className: 'rf-fields rf-tune-fields' }, [
+      field('Ranks', ranksInput, 'Whole numbers, separated by commas.'),
+      field('λ values', lambdasInput, 'Regularization strengths to try.'),
+      field('Folds', foldsInput),
+      el('div', { className: 'rf-form-field' }, [el('span', { className: 'rf-form-label' }, ['Centering']), checkRow]),
+    ]),
+    size,
+    familyNote,
+    ...runner.controls(),
+  );
+  chart = new RankErrorChart(chartHost);
 }
 
 function describe(s: FitSettings): string {

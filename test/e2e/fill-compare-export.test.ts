@@ -86,8 +86,10 @@ describe('fill, compare and export in the browser host', () => {
     const moved = await page.textContent('[data-testid="compare-moved"]');
     expect(moved).toMatch(new RegExp(`^\\d+ of ${sample.blanks} filled cells move by more than 1 \\(one scale step\\)`));
     // One diff cell equals B − A computed here from the two runs' predictions.
-    const diffText = await page.locator('.ag-row[row-index="0"] .ag-cell[col-id="c0"]').textContent();
-    const d = (second.predictions[0] ?? 0) - (first.predictions[0] ?? 0);
+    const blank = sample.values.flat().findIndex((v) => v === null);
+    const cols = sample.header.length;
+    const diffText = await page.locator(`.ag-row[row-index="${Math.floor(blank / cols)}"] .ag-cell[col-id="c${blank % cols}"]`).textContent();
+    const d = (second.predictions[blank] ?? 0) - (first.predictions[blank] ?? 0);
     expect(Number(diffText)).toBeCloseTo(d, 1);
     await page.screenshot({ path: join(repoRoot, 'test-results', 'compare-runs.png') });
     await page.click('[data-testid="compare-clear"]');

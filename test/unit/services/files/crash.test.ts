@@ -20,6 +20,7 @@ import { formatProblem } from '../../../../src-shared/io/problem';
 import { parseProject } from '../../../../src-shared/project/projectFile';
 import { RecoveryStore } from '../../../../src-main/services/recovery';
 import { crashTestVersion } from './crash.versions';
+import { createRng } from '../../../../src-shared/engine/random';
 
 const CHILD_TS = path.resolve(__dirname, 'crash.child.ts');
 const TRIALS = 40;
@@ -43,16 +44,10 @@ afterAll(() => {
   if (work) rmSync(work, { recursive: true, force: true });
 });
 
-/** Deterministic pseudo-random delays (mulberry32), so a failing run can be repeated. */
+/** Deterministic pseudo-random delays (the engine's seeded generator), so a failing run can be repeated. */
 function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const r = createRng(seed);
+  return () => r.next();
 }
 
 function startChild(args: string[]): ChildProcess {
