@@ -118,6 +118,10 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   // Sample picker
   const picker = byTestId<HTMLSelectElement>('sample-picker');
   const { samples } = await bridge.call('samples.list', {});
+  // Shown while the open document is not one of the samples (an import or a project).
+  const otherOption = new Option('(your own data)', '');
+  otherOption.disabled = true;
+  picker.append(otherOption);
   for (const s of samples) {
     const opt = document.createElement('option');
     opt.value = s.id;
@@ -127,6 +131,11 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   }
   let editing: Editing | undefined;
   let pickedSample = '';
+  store.subscribe((e) => {
+    if (e.type !== 'replaced') return;
+    pickedSample = store.source.kind === 'sample' ? store.source.name : '';
+    picker.value = pickedSample;
+  });
   picker.addEventListener('change', () => {
     const id = picker.value;
     void (editing ? editing.confirmLeave('Opening a sample set') : Promise.resolve(true))

@@ -1,24 +1,36 @@
 /**
- * The objective per iteration, drawn live while a fit runs (uPlot, log scale on y).
+ * The objective per iteration, drawn live while a fit runs (uPlot): a log scale for
+ * the low-rank objective, a linear one for the Gaussian model's log-likelihood.
  */
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 import { axisStyle, chartColours } from './chartStyle';
 
 export class ObjectiveChart {
-  private readonly plot: uPlot;
+  private plot: uPlot;
+  /** Log scale for a positive objective; a log-likelihood (negative) is drawn on a linear scale. */
+  private logScale = true;
 
-  constructor(host: HTMLElement, width = 290, height = 150) {
-    this.plot = new uPlot(
+  constructor(
+    private readonly host: HTMLElement,
+    private readonly width = 290,
+    private readonly height = 150,
+  ) {
+    this.plot = this.build();
+  }
+
+  private build(): uPlot {
+    const { width, height, host } = this;
+    return new uPlot(
       {
         width,
         height,
         legend: { show: false },
         cursor: { show: false },
-        scales: { x: { time: false }, y: { distr: 3 } },
+        scales: { x: { time: false }, y: { distr: this.logScale ? 3 : 1 } },
         axes: [
           { ...axisStyle, label: 'iteration', size: 36 },
-          { ...axisStyle, label: 'objective', size: 52, values: (_u, vals) => vals.map((v) => (v === null ? '' : formatCompact(v))) },
+          { ...axisStyle, label: this.logScale ? 'objective' : 'log-likelihood', size: 52, values: (_u, vals) => vals.map((v) => (v === null ? '' : formatCompact(v))) },
         ],
         series: [{}, { stroke: chartColours.accent, width: 2, points: { show: false } }],
       },
@@ -28,7 +40,14 @@ export class ObjectiveChart {
   }
 
   set(iterations: number[], objective: number[]): void {
-    this.plot.setData([iterations, objective.map((v) => (v > 0 && Number.isFinite(v) ? v : null))] as uPlot.AlignedData);
+    const finite = objective.filter((v) => Number.isFinite(v));
+    const wantLog = finite.every((v) => v > 0);
+    if (wantLog !== this.logScale) {
+      this.logScale = wantLog;
+      this.plot.destroy();
+      this.plot = this.build();
+    }
+    this.plot.setData([iterations, objective.map((v) => (Number.isFinite(v) && (!wantLog || v > 0) ? v : null))] as uPlot.AlignedData);
   }
 
   destroy(): void {

@@ -19,8 +19,8 @@ export interface DiffLayer {
 }
 
 export interface BaselineLayer {
-  /** One baseline per row (side column). */
-  row: Float64Array;
+  /** One baseline per row (side column), or null when the model has none (the column then shows only counts). */
+  row: Float64Array | null;
   /** One per column (pinned bottom row), or null when the centering has none. */
   col: Float64Array | null;
   /** Label of the bottom row. */

@@ -162,10 +162,12 @@ export class RatingGrid {
         return tint === undefined ? null : { backgroundColor: tint };
       },
     }));
+    const showRowBaseline = !!this.layers.baselines?.row;
     const sideCols: ColDef<RowRecord>[] = this.layers.baselines
       ? [
           {
             colId: BASELINE_COL_ID,
+            hide: !showRowBaseline,
             headerName: 'Baseline',
             headerTooltip: 'The row’s baseline under the run’s centering: what the model predicts before the interaction term',
             pinned: 'right',
@@ -173,7 +175,7 @@ export class RatingGrid {
             editable: false,
             type: 'rightAligned',
             cellClass: 'ag-right-aligned-cell rf-baseline-cell',
-            valueGetter: (p) => (p.data && p.data.i >= 0 ? this.layers.baselines?.row[p.data.i] ?? null : null),
+            valueGetter: (p) => (p.data && p.data.i >= 0 ? this.layers.baselines?.row?.[p.data.i] ?? null : null),
             valueFormatter: (p) => formatRating(p.value as number | null, 2),
           },
           {
@@ -264,8 +266,9 @@ export class RatingGrid {
   setLayers(patch: Partial<GridLayers>): void {
     const before = this.layers;
     const hadSide = !!before.baselines;
+    const hadRowBaseline = !!before.baselines?.row;
     this.layers = { ...before, ...patch };
-    if (hadSide !== !!this.layers.baselines) {
+    if (hadSide !== !!this.layers.baselines || hadRowBaseline !== !!this.layers.baselines?.row) {
       this.rebuild();
       return;
     }

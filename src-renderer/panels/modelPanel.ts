@@ -128,7 +128,7 @@ export class ModelPanel {
         ' observed rating  ',
         el('span', { className: 'rf-legend-estimate rf-legend-sure' }, ['4.6']),
         el('span', { className: 'rf-legend-estimate rf-legend-unsure' }, ['4.6']),
-        ' estimate: pale = folds agree, deep = folds disagree',
+        ' estimate: pale = small spread (more certain), deep = large spread',
       ]),
       el('p', { className: 'rf-caution', testid: 'estimate-caution' }, [
         'Filled values are model estimates, not measurements. Where rows or columns are people being judged, an estimate is not that person’s score.',

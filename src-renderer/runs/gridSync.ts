@@ -12,7 +12,7 @@ import type { Run } from './runStore';
 export function baselineLayer(result: FitResult): BaselineLayer {
   const s = result.settings;
   if (s.model === 'gaussian') {
-    return { row: new Float64Array(result.rows).fill(NaN), col: result.colBaseline, colLabel: 'Column mean (μ)' };
+    return { row: null, col: result.colBaseline, colLabel: 'Column mean (μ)' };
   }
   const usesRow = s.centering === 'row' || s.centering === 'both';
   const usesCol = s.centering === 'column' || s.centering === 'both';
