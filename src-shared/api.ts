@@ -220,21 +220,6 @@ export const apiMethods = {
     request: z.object({ id: z.string().min(1).max(200) }).strict(),
     reply: documentPayloadSchema,
   },
-  /** Import delimited text the user picked in the page (browser host) or dropped. */
-  'document.importText': {
-    request: z
-      .object({
-        fileName: z.string().min(1).max(1000),
-        text: z.string(),
-        layout: z.enum(['auto', 'wide', 'long']).optional(),
-        delimiter: z.enum(['auto', ',', '\t', ';']).optional(),
-      })
-      .strict(),
-    reply: z.union([
-      z.object({ ok: z.literal(true), document: documentPayloadSchema }),
-      z.object({ ok: z.literal(false), problems: z.array(problemSchema) }),
-    ]),
-  },
   // --- documents and projects (issue 4) ---
   /**
    * Parse delimited text (off the UI thread where the host allows) and answer with

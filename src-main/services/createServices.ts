@@ -11,7 +11,6 @@ import { findAppRoot } from './appRoot';
 import { suggestExportPath, writeExport } from './exportService';
 import { FitJobs } from './fitJobs';
 import type { FitService } from './fitService';
-import { importText } from './importService';
 import { SampleService } from './sampleService';
 import { createDocumentHandlers, type DesktopShell } from './documentHandlers';
 import { ParseWorkerClient } from './parseOffThread';
@@ -78,7 +77,6 @@ export function createServices(opts: CreateServicesOptions): MainServices {
       'app.info': async () => ({ name: 'Rankfill', version, apiVersion: API_VERSION, host: opts.host }),
       'samples.list': async () => ({ samples: await samples.list() }),
       'samples.open': async ({ id }) => samples.open(id),
-      'document.importText': async (req) => importText(req),
       'fit.start': async ({ matrix, settings, trust, warmStart, clientId }) => jobs.startFit(matrix, settings, { trust, warmStart, clientId }),
       'fit.evaluate': async ({ matrix, settings, folds, seed, clientId }) => jobs.startEvaluate(matrix, settings, folds, seed, clientId),
       'fit.tune': async ({ matrix, settingsList, folds, seed, clientId }) => jobs.startTune(matrix, settingsList, folds, seed, clientId),

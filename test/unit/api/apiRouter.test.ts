@@ -14,7 +14,6 @@ function router(overrides: Partial<ApiHandlers> = {}, log: string[] = []): ApiRo
     'app.info': async () => ({ name: 'Rankfill', version: '0.0.0', apiVersion: 1, host: 'browser' }),
     'samples.list': async () => ({ samples: [] }),
     'samples.open': async () => goodDoc,
-    'document.importText': async () => ({ ok: false, problems: [] }),
     'fit.start': async () => ({ jobId: 'job-1' }),
     'fit.cancel': async () => ({ cancelled: true }),
     ...overrides,
