@@ -13,6 +13,7 @@ import {
   type ExportOptions,
 } from '../../src-shared/io/exportFilled';
 import { observedCount } from '../../src-shared/matrix/ratingMatrix';
+import { confirmDialog } from '../dialogs/modal';
 import { el, field, numberInput } from './dom';
 import type { PanelContext } from './panelContext';
 
@@ -118,7 +119,7 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
         status.textContent = `Written: ${reply.path}${reply.sidecarPath ? ` and ${reply.sidecarPath}` : ''}.`;
         ctx.notice.show(`Exported to ${reply.path}. Filled values in it are model estimates.`);
       } else if (reply.reason === 'exists') {
-        if (confirm(`${reply.message}. Replace it?`)) await doWrite(true);
+        if (await confirmDialog('Replace the file?', `${reply.message}. Replace it (and its settings file)?`, 'Replace', 'Keep it', 'export-overwrite-dialog')) await doWrite(true);
         else status.textContent = 'Not written: choose another file name.';
       } else status.textContent = reply.message;
     } catch (err) {
