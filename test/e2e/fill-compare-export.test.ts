@@ -160,6 +160,14 @@ describe('fill, compare and export in the browser host', () => {
     expect(sidecar.model.settings.centering).toBe('none');
     expect(sidecar.input.sha256).toMatch(/^[0-9a-f]{64}$/);
     await page.screenshot({ path: join(repoRoot, 'test-results', 'export-dialog.png') });
+    // Writing again to the same file asks first; keeping it leaves the file as it was.
+    const firstText = readFileSync(path, 'utf8');
+    await page.selectOption('[data-testid="export-kind"]', 'filled-wide');
+    await page.click('[data-testid="export-write"]');
+    await page.waitForSelector('[data-testid="export-overwrite-dialog"]');
+    await page.click('[data-testid="export-overwrite-dialog"] [data-testid="dialog-cancel"]');
+    await expect.poll(() => page.textContent('[data-testid="export-status"]')).toContain('Not written');
+    expect(readFileSync(path, 'utf8')).toBe(firstText);
     await page.click('[data-testid="export-cancel"]');
   });
 
