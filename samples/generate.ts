@@ -14,9 +14,13 @@ import { mkdirSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { createRng } from '../src-shared/engine/random';
 
-/** Uniform draws in [0, 1) from the engine's seeded generator. */
+/**
+ * Uniform draws in [0, 1) from the engine's seeded generator. createRng mixes its
+ * seed with the constant 0x9e3779b9; undoing that mix here keeps the streams (and so
+ * the committed samples) exactly as they were first generated with the plain seed.
+ */
 function rng(seed: number): () => number {
-  const r = createRng(seed);
+  const r = createRng(seed ^ 0x9e3779b9);
   return () => r.next();
 }
 
