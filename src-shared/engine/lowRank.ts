@@ -10,8 +10,11 @@
  * Half-step for rows (V fixed): each u_i solves its own ridge problem exactly,
  *   (Σ_{j∈obs(i)} v_j v_jᵀ + λ w_i I) u_i = Σ_{j∈obs(i)} r_ij v_j,
  * i.e. u_i = (XᵀX + λ w_i I)⁻¹ Xᵀ y with X the rows v_j of the observed columns;
- * the k × k system is factored with an in-place Cholesky (cholesky.ts). Then the same
- * for every column with U fixed. Each half-step minimizes F exactly in its block, so F
+ * the k × k system is factored with an in-place Cholesky (cholesky.ts). An entity with
+ * fewer neighbours than k (n < k) and λ w > 0 uses the equivalent dual form instead,
+ *   u_i = Xᵀ (X Xᵀ + λ w_i I)⁻¹ y      (push-through identity: (XᵀX + λI)⁻¹Xᵀ = Xᵀ(XXᵀ + λI)⁻¹),
+ * an n × n system: the same solution for a fraction of the work on sparse rows.
+ * Then the same for every column with U fixed. Each half-step minimizes F exactly in its block, so F
  * never increases (up to rounding).
  * A row/column with no observed values has only the regularizer acting on it, so its
  * factor is the zero vector and its prediction is the baseline. When λ w = 0 and the
@@ -49,13 +52,15 @@ export interface RidgeWorkspace {
   k: number;
   a: Float64Array;
   rhs: Float64Array;
+  /** Dual-form right side / solution (length k; only n < k entries are used). */
+  z: Float64Array;
   xt: Float64Array;
   r: Float64Array;
 }
 
 export function createWorkspace(k: number, maxDegree = 64): RidgeWorkspace {
   const cap = Math.max(1, maxDegree);
-  return { k, a: new Float64Array(k * k), rhs: new Float64Array(k), xt: new Float64Array(k * cap), r: new Float64Array(cap) };
+  return { k, a: new Float64Array(k * k), rhs: new Float64Array(k), z: new Float64Array(k), xt: new Float64Array(k * cap), r: new Float64Array(cap) };
 }
 
 /** Largest number of neighbours of any entity (row or column) described by ptr. */
@@ -177,6 +182,47 @@ function gram(xt: Float64Array, n: number, a: Float64Array, k: number): void {
 }
 
 /**
+ * Dual form for an entity with n < k neighbours (see the header):
+ *   G = X Xᵀ + reg I (n × n, G_pq = x_p · x_q),  G z = y,  out_e = Xᵀ z = Σ_p z_p x_p.
+ * G is positive definite for reg > 0, so the Cholesky cannot fail.
+ */
+function dualSolve(
+  other: Float64Array,
+  nbr: Int32Array,
+  res: Float64Array,
+  start: number,
+  n: number,
+  reg: number,
+  ws: RidgeWorkspace,
+  out: Float64Array,
+  oe: number,
+): void {
+  const k = ws.k;
+  const g = ws.a;
+  const z = ws.z;
+  for (let p = 0; p < n; p++) {
+    const xp = nbr[start + p] * k;
+    const rp = p * n;
+    for (let q = 0; q <= p; q++) {
+      const xq = nbr[start + q] * k;
+      let s = 0;
+      for (let c = 0; c < k; c++) s += other[xp + c] * other[xq + c];
+      g[rp + q] = s;
+    }
+    g[rp + p] += reg;
+    z[p] = res[start + p];
+  }
+  choleskyInPlace(g, n);
+  choleskySolveInPlace(g, n, z);
+  for (let c = 0; c < k; c++) out[oe + c] = 0;
+  for (let p = 0; p < n; p++) {
+    const xp = nbr[start + p] * k;
+    const zp = z[p];
+    for (let c = 0; c < k; c++) out[oe + c] += zp * other[xp + c];
+  }
+}
+
+/**
  * One ALS half-step: for every entity e (a row, or a column), solve
  *   (Σ_{t∈[ptr[e], ptr[e+1])} x_t x_tᵀ + λ w_e I) out_e = Σ_t res[t] x_t,   x_t = other[nbr[t]].
  * `out` is entities × k, `other` is neighbours × k (row-major). Returns false if stopped.
@@ -211,13 +257,17 @@ export function ridgeHalfStep(
       for (let c = 0; c < k; c++) out[oe + c] = 0;
       continue;
     }
+    const reg = scaleByCount ? lambda * n : lambda;
+    if (n < k && reg > 0) {
+      dualSolve(other, nbr, res, start, n, reg, ws, out, oe);
+      continue;
+    }
     // Gather X column-major: xt[c·n + t] = other[nbr[start + t]][c].
     for (let t = 0; t < n; t++) {
       const xo = nbr[start + t] * k;
       r[t] = res[start + t];
       for (let c = 0; c < k; c++) xt[c * n + t] = other[xo + c];
     }
-    const reg = scaleByCount ? lambda * n : lambda;
     let trace = 0;
     gram(xt, n, a, k);
     // Right side Xᵀy, four coordinates per pass over r.
