@@ -21,6 +21,10 @@
  * normal matrix is singular (fewer observations than k, or collinear factors), a tiny
  * ridge ε = 1e-10 · (trace/k + 1) is added and the solve retried (×100 up to 4 times).
  *
+ * The loss part of F is collected during the column half-step at no extra pass: with
+ * v_j solving (G + ρI) v = b (G = XᵀX, b = Xᵀr, ρ = λ w_j), Σ_t (r_t − x_t·v)² = r·r − v·b − ρ‖v‖²
+ * (falling back to the direct sum when that difference is below 1e-9 · r·r, where it would
+ * lose digits), and in the dual form the residual is ρ z, so the loss is ρ²‖z‖².
  * Stop after `maxIterations` full sweeps or when |F_prev − F| / max(F_prev, 1e-300) <
  * `tolerance`. F is recorded after every sweep (F₀, the value at the start, is not).
  * Rank 0: no factors; predictions are the baseline; the trace holds ½ Σ r².
@@ -54,13 +58,17 @@ export interface RidgeWorkspace {
   rhs: Float64Array;
   /** Dual-form right side / solution (length k; only n < k entries are used). */
   z: Float64Array;
+  /** Copy of Xᵀr kept through the solve, for the loss identity. */
+  b: Float64Array;
+  /** Σ over the last half-step's entities of Σ_t (r_t − x_t·out_e)². */
+  loss: number;
   xt: Float64Array;
   r: Float64Array;
 }
 
 export function createWorkspace(k: number, maxDegree = 64): RidgeWorkspace {
   const cap = Math.max(1, maxDegree);
-  return { k, a: new Float64Array(k * k), rhs: new Float64Array(k), z: new Float64Array(k), xt: new Float64Array(k * cap), r: new Float64Array(cap) };
+  return { k, a: new Float64Array(k * k), rhs: new Float64Array(k), z: new Float64Array(k), b: new Float64Array(k), loss: 0, xt: new Float64Array(k * cap), r: new Float64Array(cap) };
 }
 
 /** Largest number of neighbours of any entity (row or column) described by ptr. */
@@ -214,6 +222,9 @@ function dualSolve(
   }
   choleskyInPlace(g, n);
   choleskySolveInPlace(g, n, z);
+  let zz = 0;
+  for (let p = 0; p < n; p++) zz += z[p] * z[p];
+  ws.loss += reg * reg * zz;
   for (let c = 0; c < k; c++) out[oe + c] = 0;
   for (let p = 0; p < n; p++) {
     const xp = nbr[start + p] * k;
@@ -248,6 +259,7 @@ export function ridgeHalfStep(
   }
   const xt = ws.xt;
   const r = ws.r;
+  ws.loss = 0;
   for (let e = 0; e < entities; e++) {
     if (shouldStop !== undefined && (e & 63) === 0 && shouldStop()) return false;
     const start = ptr[e];
@@ -263,9 +275,12 @@ export function ridgeHalfStep(
       continue;
     }
     // Gather X column-major: xt[c·n + t] = other[nbr[start + t]][c].
+    let rr = 0;
     for (let t = 0; t < n; t++) {
       const xo = nbr[start + t] * k;
-      r[t] = res[start + t];
+      const y = res[start + t];
+      r[t] = y;
+      rr += y * y;
       for (let c = 0; c < k; c++) xt[c * n + t] = other[xo + c];
     }
     let trace = 0;
@@ -304,20 +319,56 @@ export function ridgeHalfStep(
       trace += a[d * k + d];
     }
     let ok = choleskyInPlace(a, k);
+    let regUsed = reg;
     // Singular normal matrix (λ w = 0 with too few or collinear neighbours): add a tiny ridge.
     for (let attempt = 0, eps = 1e-10 * (trace / k + 1); !ok && attempt < 4; attempt++, eps *= 100) {
       gram(xt, n, a, k);
       for (let c = 0; c < k; c++) a[c * k + c] += reg + eps;
+      regUsed = reg + eps;
       ok = choleskyInPlace(a, k);
     }
     if (!ok) {
       for (let c = 0; c < k; c++) out[oe + c] = 0;
+      ws.loss += rr;
       continue;
     }
+    const b = ws.b;
+    for (let c = 0; c < k; c++) b[c] = rhs[c];
     choleskySolveInPlace(a, k, rhs);
-    for (let c = 0; c < k; c++) out[oe + c] = rhs[c];
+    let vb = 0;
+    let vv = 0;
+    for (let c = 0; c < k; c++) {
+      const x = rhs[c];
+      out[oe + c] = x;
+      vb += x * b[c];
+      vv += x * x;
+    }
+    let loss = rr - vb - regUsed * vv;
+    if (!(loss > 1e-9 * rr)) {
+      // Too close to r·r to trust the identity's digits: sum the residuals directly.
+      loss = 0;
+      for (let t = 0; t < n; t++) {
+        let dot = 0;
+        for (let c = 0; c < k; c++) dot += xt[c * n + t] * rhs[c];
+        const e = r[t] - dot;
+        loss += e * e;
+      }
+    }
+    ws.loss += loss;
   }
   return true;
+}
+
+/** Σ_e w_e ‖f_e‖² over the rows of a factor matrix (w_e = 1, or the entity's count). */
+function penalty(f: Float64Array, ptr: Int32Array, k: number, scaleByCount: boolean): number {
+  let pen = 0;
+  const entities = ptr.length - 1;
+  for (let e = 0; e < entities; e++) {
+    let s = 0;
+    for (let c = 0; c < k; c++) s += f[e * k + c] * f[e * k + c];
+    pen += (scaleByCount ? ptr[e + 1] - ptr[e] : 1) * s;
+  }
+  return pen;
 }
 
 /** F(U, V) as in the header. */
@@ -426,7 +477,8 @@ export function fitLowRank(matrix: RatingMatrix, settings: LowRankSettings, opts
       if (stop && stop()) throw new FitCancelledError();
       if (!ridgeHalfStep(u, v, idx.rowPtr, idx.rowCol, resRow, lambda, scaleByCount, work, stop)) throw new FitCancelledError();
       if (!ridgeHalfStep(v, u, idx.colPtr, idx.colRow, resCol, lambda, scaleByCount, work, stop)) throw new FitCancelledError();
-      const f = lowRankObjective(idx, resRow, u, v, k, lambda, scaleByCount);
+      // Loss collected by the column half-step (see the header) plus the penalty.
+      const f = 0.5 * work.loss + 0.5 * lambda * (penalty(u, idx.rowPtr, k, scaleByCount) + penalty(v, idx.colPtr, k, scaleByCount));
       trace.push(f);
       iterations = it;
       if (!Number.isFinite(f)) throw new FitFailedError(`the fit produced a non-finite objective at iteration ${it}`);
