@@ -114,7 +114,7 @@ async function main(): Promise<void> {
     const median = quantile(samples, 0.5);
     const p90 = quantile(samples, 0.9);
     const max = Math.max(...samples);
-    console.log(`live refit, ${ROWS} × ${COLS}, ${samples.length} edits (edit committed → overlay updated on screen, incl. 5-fold spread):`);
+    console.log(`live refit, ${ROWS} × ${COLS}, ${samples.length} edits (edit committed → refitted estimates on screen; their 5-fold spread follows in a background job):`);
     console.log(`  median ${median.toFixed(1)} ms · p90 ${p90.toFixed(1)} ms · max ${max.toFixed(1)} ms · target ${TARGET_MS} ms (median/target ${(median / TARGET_MS).toFixed(2)})`);
     console.log(`  cold Fill (click → run listed) ${coldFillMs} ms; cold/live-median ratio ${(coldFillMs / median).toFixed(1)}×`);
     // The target is for the typical edit (the median); p90 and max are printed for the record.
