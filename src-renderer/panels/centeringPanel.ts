@@ -107,7 +107,3 @@ function buildTable(rows: CenteringRow[], k: number, use: (c: Centering) => void
   table.title = `Each row: one centering mode, ${k}-fold cross-validation on the same folds.`;
   return table;
 }
-
-function messageOf(err: unknown): string {
-  return err instanceof Error ? err.message : String(err);
-}
