@@ -31,8 +31,6 @@ export class FitController {
   private readonly fillListeners = new Set<(s: FillState) => void>();
   /** Refit the shown run after each edit. */
   liveRefit = true;
-  /** When the last live refit finished: edit revision → overlay latency, for the status line and benchmarks. */
-  lastLiveRefit: { revision: number; startedAt: number; finishedAt: number } | null = null;
 
   constructor(
     private readonly bridge: HostBridge,
@@ -136,7 +134,6 @@ export class FitController {
   }
 
   private async runLiveRefit(run: Run): Promise<void> {
-    const startedAt = performance.now();
     const revision = this.doc.revision;
     const matrix = this.doc.current;
     const sameShape = matrix.rowLabels.length === run.rows && matrix.colLabels.length === run.cols;
@@ -167,7 +164,6 @@ export class FitController {
       run.cols = result.cols;
       // The refit itself is drawn first (fast, warm-started); the ensemble spread follows in a second job.
       this.runs.refit(run.id, result, undefined, revision);
-      this.lastLiveRefit = { revision, startedAt, finishedAt: performance.now() };
       void this.refreshTrust(run, revision);
     } catch {
       // A cancelled live refit was superseded by a newer one; a failed one leaves the last result shown.
