@@ -12,6 +12,7 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseProject } from '../../src-shared/project/projectFile';
 import { launchBrowser } from './support/browser';
+import { openProjectInFreshPage } from './support/projectPage';
 import { repoRoot, startHost, type RunningHost } from './support/hostProcess';
 
 const csv = readFileSync(join(repoRoot, 'samples', 'coffee-cupping-panel.csv'), 'utf8').trimEnd().split('\n');
@@ -189,13 +190,7 @@ describe('editing and project files in the browser host', () => {
     expect(parsed.project.matrix.colLabels).toEqual(shown.cols);
     expect(parsed.project.matrix.rowLabels).toEqual(shown.labels);
 
-    const fresh = await browser.newPage({ viewport: { width: 1800, height: 1100 } });
-    await fresh.goto(host.launchUrl);
-    await fresh.waitForSelector('body[data-ready="true"]', { timeout: 30_000 });
-    await fresh.click('[data-testid=open-project-button]');
-    await fresh.waitForSelector('[data-testid=path-dialog]');
-    await fresh.fill('[data-testid=prompt-input]', projectPath);
-    await fresh.click('[data-testid=dialog-confirm]');
+    const fresh = await openProjectInFreshPage(browser, host.launchUrl, projectPath);
     await expect.poll(() => fresh.textContent('[data-testid=doc-title]')).toBe('cupping-edited');
     await fresh.waitForSelector(`.ag-row[row-index="${rows.length - 1}"]`, { state: 'attached' });
     expect(await screenMatrix(fresh)).toEqual(shown);

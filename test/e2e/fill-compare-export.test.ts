@@ -5,6 +5,7 @@ import Papa from 'papaparse';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchBrowser } from './support/browser';
+import { openProjectInFreshPage } from './support/projectPage';
 import { repoRoot, startHost, type RunningHost } from './support/hostProcess';
 
 // The sample is read here with papaparse (a general-purpose CSV reader), independently of the app.
@@ -184,13 +185,7 @@ describe('fill, compare and export in the browser host', () => {
     await page.click('[data-testid=dialog-confirm]');
     await expect.poll(() => page.textContent('[data-testid=notice]')).toContain(`Kept in ${projectPath}`);
 
-    const fresh = await browser.newPage({ viewport: { width: 2400, height: 1100 } });
-    await fresh.goto(host.launchUrl);
-    await fresh.waitForSelector('body[data-ready="true"]', { timeout: 30_000 });
-    await fresh.click('[data-testid=open-project-button]');
-    await fresh.waitForSelector('[data-testid=path-dialog]');
-    await fresh.fill('[data-testid=prompt-input]', projectPath);
-    await fresh.click('[data-testid=dialog-confirm]');
+    const fresh = await openProjectInFreshPage(browser, host.launchUrl, projectPath, 2400);
     await expect
       .poll(() => fresh.evaluate(() => (window as unknown as { rankfillApp: { runs: { runs: unknown[] } } }).rankfillApp.runs.runs.length), { timeout: 30_000 })
       .toBe(2);
