@@ -25,11 +25,15 @@
  * v_j solving (G + ρI) v = b (G = XᵀX, b = Xᵀr, ρ = λ w_j), Σ_t (r_t − x_t·v)² = r·r − v·b − ρ‖v‖²
  * (falling back to the direct sum when that difference is below 1e-9 · r·r, where it would
  * lose digits), and in the dual form the residual is ρ z, so the loss is ρ²‖z‖².
- * Stop after `maxIterations` full sweeps or when |F_prev − F| / max(F_prev, 1e-300) <
- * `tolerance`. F is recorded after every sweep (F₀, the value at the start, is not).
+ * Stop after `maxIterations` full sweeps or when |F_prev − F| / max(F_prev, φ) <
+ * `tolerance`, or at once when F ≤ φ: the absolute floor φ = 1e-20 · max(S, F₀), with
+ * S = ½ Σ_obs r² the objective of the zero factors (the data's own scale). Below φ the fit
+ * is exact to about 1e-10 of the residuals' size and what is left of F is rounding noise,
+ * which may go up as well as down; it counts as converged, never as growth.
+ * F is recorded after every sweep (F₀, the value at the start, is not).
  * Rank 0: no factors; predictions are the baseline; the trace holds ½ Σ r².
  * Failure: a non-finite F, or F growing above 1e6 · max(F₀, 1) or increasing (relative
- * > 1e-6) for 5 sweeps in a row, ends the fit with FitFailedError.
+ * > 1e-6 and by more than φ) for 5 sweeps in a row, ends the fit with FitFailedError.
  */
 import type { FitProgress, FitResult, LowRankSettings } from './types';
 import type { RatingMatrix } from '../matrix/ratingMatrix';
@@ -406,6 +410,13 @@ export function lowRankObjective(
   return 0.5 * loss + 0.5 * lambda * pen;
 }
 
+/** φ = 1e-20 · max(½ Σ r², F₀): below it F is rounding noise (see the header). */
+export function objectiveFloor(res: Float64Array, f0: number): number {
+  let ss = 0;
+  for (let p = 0; p < res.length; p++) ss += res[p] * res[p];
+  return 1e-20 * Math.max(0.5 * ss, f0);
+}
+
 function validate(s: LowRankSettings): void {
   if (!Number.isInteger(s.rank) || s.rank < 0) throw new FitFailedError(`rank must be a whole number ≥ 0 (got ${s.rank})`);
   if (!(s.lambda >= 0) || !Number.isFinite(s.lambda)) throw new FitFailedError(`lambda must be a finite number ≥ 0 (got ${s.lambda})`);
@@ -471,6 +482,7 @@ export function fitLowRank(matrix: RatingMatrix, settings: LowRankSettings, opts
     const stop = opts.shouldStop;
     const f0 = lowRankObjective(idx, resRow, u, v, k, lambda, scaleByCount);
     if (!Number.isFinite(f0)) throw new FitFailedError('the starting objective is not finite');
+    const floor = objectiveFloor(resRow, f0);
     let prev = f0;
     let rising = 0;
     for (let it = 1; it <= settings.maxIterations; it++) {
@@ -483,14 +495,14 @@ export function fitLowRank(matrix: RatingMatrix, settings: LowRankSettings, opts
       iterations = it;
       if (!Number.isFinite(f)) throw new FitFailedError(`the fit produced a non-finite objective at iteration ${it}`);
       if (f > 1e6 * Math.max(f0, 1)) throw new FitFailedError(`the objective is diverging (iteration ${it}: ${f.toPrecision(4)})`);
-      if (f > prev * (1 + 1e-6)) {
+      if (f > prev * (1 + 1e-6) + floor) {
         rising++;
         if (rising >= 5) throw new FitFailedError(`the objective is diverging (rose for 5 iterations, now ${f.toPrecision(4)})`);
       } else rising = 0;
       opts.onProgress?.({ iteration: it, objective: f, elapsedMs: nowMs() - t0 });
-      const rel = Math.abs(prev - f) / Math.max(Math.abs(prev), 1e-300);
+      const rel = Math.abs(prev - f) / Math.max(Math.abs(prev), floor, 1e-300);
       prev = f;
-      if (rel < settings.tolerance) {
+      if (f <= floor || rel < settings.tolerance) {
         converged = true;
         break;
       }
