@@ -13,7 +13,9 @@ import { dirname, resolve } from 'node:path';
 import type { RatingMatrix } from '../src-shared/matrix/ratingMatrix';
 
 const here = dirname(fileURLToPath(import.meta.url));
-export const movieRatingsPath = resolve(here, '../../shared/datasets/movie-ratings-small/ratings.csv');
+/** The shared datasets folder: $RANKFILL_DATASETS, else ../shared/datasets beside the repository. */
+const datasetsDir = process.env.RANKFILL_DATASETS ?? resolve(here, '../../shared/datasets');
+export const movieRatingsPath = resolve(datasetsDir, 'movie-ratings-small/ratings.csv');
 
 export function movieRatingsAvailable(): boolean {
   return existsSync(movieRatingsPath);

@@ -12,12 +12,16 @@
  * rowSupport_i = observed cells in row i; colSupport_j = observed cells in column j.
  * A row/column with support below the rank (1 for a family without rank) is weakly
  * determined: its k factor coordinates are fitted from fewer than k values.
+ * Intervals (folds only, when the full fit is passed in): the same fold fits give each
+ * observed cell a held-out estimate; cellIntervals.ts turns those into a calibrated
+ * difficulty scale σ̂ per blank cell (the math is in intervals.ts). No extra fits.
  */
 import type { RatingMatrix } from '../matrix/ratingMatrix';
-import type { FitSettings } from './types';
+import type { FitResult, FitSettings } from './types';
 import { fitModel } from './fitModel';
 import { makeFolds, trainingMatrix } from './crossValidation';
 import { createRng } from './random';
+import { calibrateIntervals, EnsembleSpread, HeldOutCollector, type IntervalCalibration } from './cellIntervals';
 
 export type TrustOptions =
   | { method: 'folds'; k: number; seed: number }
@@ -29,11 +33,15 @@ export interface CellTrust {
   colSupport: Int32Array;
   weakRows: number[];
   weakCols: number[];
+  /** Calibration of the per-cell intervals (folds method with the full fit given). */
+  intervals?: IntervalCalibration;
 }
 
 export interface TrustProgressOptions {
   onProgress?: (p: { done: number; total: number }) => void;
   shouldStop?: () => boolean;
+  /** The fit on all observed cells: when given (folds method), intervals are calibrated too. */
+  full?: FitResult;
 }
 
 function bootstrapMatrix(matrix: RatingMatrix, cells: Int32Array, rng: ReturnType<typeof createRng>): RatingMatrix {
@@ -69,9 +77,7 @@ export function cellTrust(
     }
   const m = options.method === 'folds' ? options.k : options.B;
   if (!Number.isInteger(m) || m < 2) throw new Error(`trust needs an ensemble of at least 2 fits (got ${m})`);
-  // Welford running mean / sum of squares per cell.
-  const mean = new Float64Array(rows * cols);
-  const m2 = new Float64Array(rows * cols);
+  const ensemble = new EnsembleSpread(rows * cols);
   const foldsOrCells =
     options.method === 'folds' ? makeFolds(matrix, options.k, options.seed) : undefined;
   const cells = new Int32Array(n);
@@ -80,24 +86,24 @@ export function cellTrust(
     for (let c = 0; c < values.length; c++) if (values[c] === values[c]) cells[t++] = c;
   }
   const rng = createRng(options.seed);
+  const heldOut = foldsOrCells && progress.full ? new HeldOutCollector(values, foldsOrCells.foldOf, foldsOrCells.k) : undefined;
   for (let e = 0; e < m; e++) {
     const train = foldsOrCells ? trainingMatrix(matrix, foldsOrCells, e) : bootstrapMatrix(matrix, cells, rng);
     const fit = fitModel(train, settings, { shouldStop: progress.shouldStop });
     const p = fit.predictions;
-    const cnt = e + 1;
-    for (let c = 0; c < p.length; c++) {
-      const d = p[c] - mean[c];
-      mean[c] += d / cnt;
-      m2[c] += d * (p[c] - mean[c]);
-    }
+    heldOut?.add(e, p, fit.spread);
+    ensemble.add(p);
     progress.onProgress?.({ done: e + 1, total: m });
   }
-  const spread = new Float64Array(rows * cols);
-  for (let c = 0; c < spread.length; c++) spread[c] = Math.sqrt(Math.max(m2[c], 0) / (m - 1));
+  const spread = ensemble.spread();
   const threshold = settings.model === 'lowrank' ? settings.rank : 1;
   const weakRows: number[] = [];
   const weakCols: number[] = [];
   for (let i = 0; i < rows; i++) if (rowSupport[i] < threshold) weakRows.push(i);
   for (let j = 0; j < cols; j++) if (colSupport[j] < threshold) weakCols.push(j);
-  return { spread, rowSupport, colSupport, weakRows, weakCols };
+  const intervals =
+    heldOut && progress.full
+      ? calibrateIntervals(heldOut, { rows, cols, values, family: settings.model, ensembleSpread: spread, ownSpread: progress.full.spread })
+      : undefined;
+  return { spread, rowSupport, colSupport, weakRows, weakCols, ...(intervals ? { intervals } : {}) };
 }
