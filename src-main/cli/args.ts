@@ -14,6 +14,8 @@ export const USAGE = [
   '       rankfill tune IN.csv [--models lowrank,gaussian] [--ranks 0,1,2,3,5,8] [--lambdas 0.1,1,10,30]',
   '                [--centering none,row,column,both] [--shrinkages 0,0.05,0.1,0.2] [--transpose]',
   '                [--folds 5] [--seed S] [--iterations N] [--tolerance T] [--scale MIN:MAX[:STEP]] [--long] [--json]',
+  '       rankfill report IN.csv|PROJECT.rankfill --out REPORT.html [model options as for fill] [--run ID] [--folds 5]',
+  '                [--compare-centering] [--tune [--ranks 0,1,2,3,5,8] [--lambdas 0.1,1,10,30]] [--csv FILLED.csv] [--json]',
 ].join('\n');
 
 export const HELP = `${USAGE}
@@ -31,6 +33,11 @@ diagonal; --transpose makes the rows the variables.
              within one standard error is the choice. By default the Gaussian model is tried
              when it accepts the matrix (at most 300 variables, 3 observed values each) and
              there are at least 2 rows per variable; --models picks the families explicitly
+  report     fit once, cross-validate beside the baselines alone, and write a self-contained HTML
+             study report (the data's missing pattern, a methods paragraph, errors, cautions,
+             provenance); --compare-centering and --tune add those comparisons; IN may be a
+             saved project, whose run --run picks (id or position; default the last);
+             --csv also writes the filled matrix and its settings file
 
 Input is wide CSV (header row = column labels, first column = row labels, blank = missing);
 --long reads and writes row,column,value triples. Without --scale the scale is the observed
@@ -44,7 +51,7 @@ export class UsageError extends Error {
   }
 }
 
-export type Command = 'fill' | 'evaluate' | 'tune';
+export type Command = 'fill' | 'evaluate' | 'tune' | 'report';
 
 export interface CliOptions {
   command: Command;
@@ -72,18 +79,26 @@ export interface CliOptions {
   /** tune: families to compare; undefined = both when the shape allows the Gaussian one. */
   models?: ModelFamily[];
   shrinkages: number[];
+  /** report: which saved run of a project (id or 1-based position). */
+  run?: string;
+  /** report: also write the filled matrix here. */
+  csv?: string;
+  /** report: add the centering comparison / the tuning grid. */
+  compareCentering: boolean;
+  tune: boolean;
 }
 
 export type ParsedArgs = { kind: 'help' } | { kind: 'version' } | { kind: 'run'; options: CliOptions };
 
 const CENTERINGS: readonly Centering[] = ['none', 'row', 'column', 'both'];
 const MODELS: readonly ModelFamily[] = ['lowrank', 'gaussian'];
-const VALUE_OPTIONS = new Set(['out', 'rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'decimals', 'folds', 'ranks', 'lambdas', 'model', 'shrinkage', 'models', 'shrinkages']);
-const FLAG_OPTIONS = new Set(['long', 'json', 'transpose']);
+const VALUE_OPTIONS = new Set(['out', 'rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'decimals', 'folds', 'ranks', 'lambdas', 'model', 'shrinkage', 'models', 'shrinkages', 'run', 'csv']);
+const FLAG_OPTIONS = new Set(['long', 'json', 'transpose', 'compare-centering', 'tune']);
 const ALLOWED: Record<Command, Set<string>> = {
   fill: new Set(['out', 'rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'long', 'json', 'decimals', 'model', 'shrinkage', 'transpose']),
   evaluate: new Set(['rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'long', 'json', 'folds', 'model', 'shrinkage', 'transpose']),
   tune: new Set(['ranks', 'lambdas', 'centering', 'folds', 'seed', 'iterations', 'tolerance', 'scale', 'long', 'json', 'models', 'shrinkages', 'transpose']),
+  report: new Set(['out', 'rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'long', 'json', 'decimals', 'model', 'shrinkage', 'transpose', 'folds', 'run', 'csv', 'compare-centering', 'tune', 'ranks', 'lambdas']),
 };
 
 function number(name: string, text: string): number {
@@ -146,7 +161,7 @@ export function parseArgs(argv: string[]): ParsedArgs {
   if (argv.includes('--help') || argv.includes('-h') || argv[0] === 'help') return { kind: 'help' };
   if (argv[0] === '--version' || argv[0] === 'version') return { kind: 'version' };
   const command = argv[0];
-  if (command !== 'fill' && command !== 'evaluate' && command !== 'tune') throw new UsageError(`unknown command "${command}"`);
+  if (command !== 'fill' && command !== 'evaluate' && command !== 'tune' && command !== 'report') throw new UsageError(`unknown command "${command}"`);
   const positional: string[] = [];
   const values = new Map<string, string>();
   const flags = new Set<string>();
@@ -189,7 +204,12 @@ export function parseArgs(argv: string[]): ParsedArgs {
     model: get('model') !== undefined ? model('model', get('model')!) : 'lowrank',
     transpose: flags.has('transpose'),
     shrinkages: get('shrinkages') !== undefined ? list('shrinkages', get('shrinkages')!, shrinkage) : [0, 0.05, 0.1, 0.2],
+    compareCentering: flags.has('compare-centering'),
+    tune: flags.has('tune'),
   };
+  if (get('run') !== undefined) opts.run = get('run')!.trim();
+  if (get('csv') !== undefined) opts.csv = get('csv');
+  if (command === 'report' && (get('ranks') !== undefined || get('lambdas') !== undefined) && !opts.tune) throw new UsageError('--ranks and --lambdas apply to "report" with --tune only');
   if (get('shrinkage') !== undefined) opts.shrinkage = shrinkage('shrinkage', get('shrinkage')!);
   if (get('models') !== undefined) opts.models = [...new Set(list('models', get('models')!, model))];
   if (command !== 'tune') {
@@ -219,5 +239,6 @@ export function parseArgs(argv: string[]): ParsedArgs {
     else opts.centering = centering('centering', get('centering')!);
   }
   if (command === 'fill' && opts.out === undefined) throw new UsageError('"fill" needs --out OUT.csv');
+  if (command === 'report' && opts.out === undefined) throw new UsageError('"report" needs --out REPORT.html');
   return { kind: 'run', options: opts };
 }

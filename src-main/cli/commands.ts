@@ -40,7 +40,7 @@ function settingsLabel(s: FitSettings): string {
 }
 
 /** Write through a temporary file, so a failure never leaves half a file behind. */
-function writeAtomically(path: string, text: string): void {
+export function writeAtomically(path: string, text: string): void {
   const tmp = `${path}.rankfill-${process.pid}.tmp`;
   try {
     writeFileSync(tmp, text);

@@ -11,6 +11,7 @@ import { HELP, USAGE, UsageError, parseArgs } from './args';
 import { readMatrix } from './readInput';
 import { withScale } from './modelSettings';
 import { runEvaluate, runFill, runTune, type CommandOutput } from './commands';
+import { runReport } from './reportCommand';
 
 export interface CliIo {
   stdout: (text: string) => void;
@@ -45,6 +46,14 @@ function execute(argv: string[]): CommandOutput {
   if (parsed.kind === 'help') return { code: 0, stdout: [HELP], stderr: [] };
   if (parsed.kind === 'version') return { code: 0, stdout: [`rankfill ${version()}`], stderr: [] };
   const o = parsed.options;
+  if (o.command === 'report') {
+    try {
+      return runReport(o, version());
+    } catch (err) {
+      if (err instanceof UsageError) return { code: 2, stdout: [], stderr: [`rankfill: ${err.message}`, USAGE] };
+      return fitFailure(err);
+    }
+  }
   const timings: Record<string, number> = {};
   const t0 = performance.now();
   const read = readMatrix(o.input, o.long);
@@ -57,14 +66,18 @@ function execute(argv: string[]): CommandOutput {
     else if (o.command === 'evaluate') out = runEvaluate(o, matrix, timings, t0);
     else out = runTune(o, matrix, timings, t0);
   } catch (err) {
-    if (err instanceof FitFailedError || err instanceof FitCancelledError) {
-      return { code: 1, stdout: [], stderr: [`rankfill: fit failed: ${oneLine(err.message)}`] };
-    }
-    // Engine errors about the request itself (e.g. more folds than observed cells, a gaussian
-    // family that is not available) are fit failures too, reported in one line.
-    return { code: 1, stdout: [], stderr: [`rankfill: fit failed: ${oneLine((err as Error).message ?? String(err))}`] };
+    return fitFailure(err);
   }
   return { ...out, stderr: [...read.warnings, ...out.stderr] };
+}
+
+function fitFailure(err: unknown): CommandOutput {
+  if (err instanceof FitFailedError || err instanceof FitCancelledError) {
+    return { code: 1, stdout: [], stderr: [`rankfill: fit failed: ${oneLine(err.message)}`] };
+  }
+  // Engine errors about the request itself (e.g. more folds than observed cells, a gaussian
+  // family that is not available) are fit failures too, reported in one line.
+  return { code: 1, stdout: [], stderr: [`rankfill: fit failed: ${oneLine((err as Error).message ?? String(err))}`] };
 }
 
 /** Runs the command line; resolves to the exit status. Never throws. */

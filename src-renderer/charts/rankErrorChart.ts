@@ -7,6 +7,7 @@
  */
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
+import { LINE_DASHES } from '../../src-shared/report/palette';
 import { axisStyle, chartColours, chartFont } from './chartStyle';
 
 export interface RankLine {
@@ -32,14 +33,14 @@ export interface RankChartInput {
   threshold: number;
 }
 
-const DASHES: number[][] = [[], [6, 4], [2, 3], [9, 3, 2, 3]];
+const DASHES = LINE_DASHES;
 
 export function lineColour(i: number): string {
   return chartColours.series[i % chartColours.series.length];
 }
 
 export function lineDash(i: number): number[] {
-  return DASHES[i % DASHES.length];
+  return [...DASHES[i % DASHES.length]];
 }
 
 export class RankErrorChart {

@@ -1,21 +1,2 @@
-/** Plain-words names for model settings, used in run history, tables and exports. */
-import type { Centering, FitSettings } from '../../src-shared/engine/types';
-
-export const CENTERING_WORDS: Record<Centering, string> = {
-  none: 'no centering',
-  row: 'centred by row',
-  column: 'centred by column',
-  both: 'centred by row and column',
-};
-
-export const CENTERING_SHORT: Record<Centering, string> = {
-  none: 'none',
-  row: 'by row',
-  column: 'by column',
-  both: 'both',
-};
-
-export function describeSettings(s: FitSettings): string {
-  if (s.model === 'gaussian') return `Gaussian model · shrinkage ${s.shrinkage}${s.transpose ? ' · variables are rows' : ''}`;
-  return `rank ${s.rank} · λ ${s.lambda} · ${CENTERING_WORDS[s.centering]}`;
-}
+/** Plain-words names for model settings (shared with the study report: src-shared/report/settingsWords.ts). */
+export { CENTERING_SHORT, CENTERING_WORDS, describeSettings } from '../../src-shared/report/settingsWords';

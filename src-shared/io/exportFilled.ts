@@ -21,10 +21,12 @@ export interface ExportOptions {
   delimiter: Delimiter;
 }
 
-export const ESTIMATE_CAUTION =
-  'Filled values are model estimates computed from the other ratings, not measurements. ' +
+/** The two halves of the caution, also shown apart (study report); ESTIMATE_CAUTION is both, as exported. */
+export const MODEL_ESTIMATE_CAUTION = 'Filled values are model estimates computed from the other ratings, not measurements.';
+export const PEOPLE_JUDGED_CAUTION =
   'Where rows or columns are people being judged (grades, hiring or award panels), a filled value is not that person’s score: ' +
   'follow your organisation’s own rules and review.';
+export const ESTIMATE_CAUTION = `${MODEL_ESTIMATE_CAUTION} ${PEOPLE_JUDGED_CAUTION}`;
 
 export const CORNER_LABEL: Record<Exclude<ExportKind, 'long'>, string> = {
   'filled-wide': 'row \\ column (blank cells filled with model estimates)',

@@ -1,0 +1,178 @@
+/**
+ * `rankfill report IN --out REPORT.html`: fit one run (the same model options as `fill`),
+ * cross-validate it beside the baselines alone, optionally compare the centering modes
+ * (--compare-centering) and tune (--tune, with --ranks / --lambdas), and write the study
+ * report built by src-shared/report. IN may be a ratings file or a saved project
+ * (`.rankfill`), whose run is picked with --run (its id, e.g. run-2, or its position,
+ * 1 = first; default: the last run). --csv FILLED.csv also writes the filled matrix and
+ * its settings file, and the report lists them. Nothing is written before every fit has
+ * succeeded; each file is written atomically.
+ */
+import { createHash } from 'node:crypto';
+import { readFileSync } from 'node:fs';
+import { basename } from 'node:path';
+import { tuneToPayload } from '../../src-shared/apiCodec';
+import { fitModel } from '../../src-shared/engine/fitModel';
+import { defaultLowRankSettings } from '../../src-shared/engine/defaults';
+import { expandLowRankGrid, tune } from '../../src-shared/engine/tuning';
+import type { FitSettings, LowRankSettings } from '../../src-shared/engine/types';
+import { buildExport, buildSidecar, matrixFingerprintText, type ExportOptions } from '../../src-shared/io/exportFilled';
+import { observedCount, type RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
+import { formatProblem } from '../../src-shared/io';
+import { parseProject } from '../../src-shared/project';
+import { buildReport } from '../../src-shared/report/buildReport';
+import type { ReportExport, ReportInput } from '../../src-shared/report/reportInput';
+import { reportEvaluationSettings } from '../../src-shared/report/reportEvaluation';
+import { UsageError, type CliOptions } from './args';
+import { writeAtomically, type CommandOutput } from './commands';
+import { fitSettingsFromOptions, withScale } from './modelSettings';
+import { readMatrix } from './readInput';
+import { sidecarPathFor } from '../services/exportService';
+
+/** Options that set the model, refused when a project's saved run already fixes it. */
+const MODEL_OPTIONS: (keyof CliOptions)[] = ['rank', 'lambda', 'centering', 'shrinkage', 'iterations', 'tolerance', 'seed'];
+
+interface Loaded {
+  matrix: RatingMatrix;
+  settings: FitSettings;
+  runLabel: string;
+  warnings: string[];
+}
+
+function isProjectPath(path: string): boolean {
+  return path.toLowerCase().endsWith('.rankfill');
+}
+
+function loadProject(o: CliOptions): Loaded | CommandOutput {
+  let text: string;
+  try {
+    text = readFileSync(o.input, 'utf8');
+  } catch (err) {
+    const e = err as NodeJS.ErrnoException;
+    return { code: 2, stdout: [], stderr: [`${o.input}:1:1: ${e.code === 'ENOENT' ? 'no such file' : `cannot read the file (${e.code ?? e.message})`}`] };
+  }
+  const parsed = parseProject(text, o.input);
+  if (!parsed.ok) return { code: 2, stdout: [], stderr: parsed.problems.map(formatProblem) };
+  const project = parsed.project;
+  const matrix = withScale(project.matrix, o);
+  const runs = project.runs;
+  const given = MODEL_OPTIONS.filter((k) => o[k] !== undefined);
+  const anyModelOption = given.length > 0 || o.model !== 'lowrank' || o.transpose;
+  if (runs.length === 0) {
+    if (o.run !== undefined) throw new UsageError(`${o.input} has no saved runs, so --run ${o.run} cannot be found`);
+    // No saved run: the project's model settings, or the options (and defaults) when any are given.
+    const settings = project.settings && !anyModelOption ? project.settings : fitSettingsFromOptions(o);
+    return { matrix, settings, runLabel: project.settings && !anyModelOption ? 'Project settings' : 'Command-line run', warnings: [] };
+  }
+  if (anyModelOption) {
+    throw new UsageError(`a saved run fixes the model settings; leave out ${given.length ? given.map((k) => `--${k}`).join(', ') : '--model / --transpose'} (or report the ratings file instead)`);
+  }
+  let index = runs.length - 1;
+  if (o.run !== undefined) {
+    const byId = runs.findIndex((r) => r.id === o.run);
+    const position = /^\d+$/.test(o.run) ? Number(o.run) - 1 : -1;
+    index = byId >= 0 ? byId : position >= 0 && position < runs.length ? position : -1;
+    if (index < 0) throw new UsageError(`--run ${o.run} is not in ${o.input} (saved runs: ${runs.map((r, i) => `${i + 1} = ${r.id}`).join(', ')})`);
+  }
+  const run = runs[index];
+  return { matrix, settings: run.settings, runLabel: `Saved run ${run.id} (“${run.name}”)`, warnings: [] };
+}
+
+function loadRatings(o: CliOptions): Loaded | CommandOutput {
+  const read = readMatrix(o.input, o.long);
+  if (!read.ok) return { code: 2, stdout: [], stderr: read.messages };
+  return { matrix: withScale(read.matrix, o), settings: fitSettingsFromOptions(o), runLabel: 'Command-line run', warnings: read.warnings };
+}
+
+function sha256(text: string): string {
+  return createHash('sha256').update(text, 'utf8').digest('hex');
+}
+
+function lowRankBase(s: FitSettings): LowRankSettings {
+  if (s.model === 'lowrank') return s;
+  return { ...defaultLowRankSettings(), maxIterations: s.maxIterations, seed: s.seed, clipToScale: s.clipToScale, snapToStep: s.snapToStep };
+}
+
+export function runReport(o: CliOptions, appVersion: string, now: () => Date = () => new Date()): CommandOutput {
+  const loaded = isProjectPath(o.input) ? loadProject(o) : loadRatings(o);
+  if ('code' in loaded) return loaded;
+  const { matrix: m, settings } = loaded;
+  const t0 = performance.now();
+  const fit = fitModel(m, settings);
+  const evaluation = tuneToPayload(tune(m, { settings: reportEvaluationSettings(settings) }, o.folds, settings.seed));
+  const base = lowRankBase(settings);
+  const centering = o.compareCentering
+    ? tuneToPayload(tune(m, { settings: (['none', 'row', 'column', 'both'] as const).map((c) => ({ ...base, centering: c })) }, o.folds, settings.seed))
+    : null;
+  const tuning = o.tune
+    ? tuneToPayload(tune(m, { settings: expandLowRankGrid({ ranks: o.ranks, lambdas: o.lambdas, centerings: [base.centering], base }) }, o.folds, settings.seed))
+    : null;
+  const computeMs = performance.now() - t0;
+  const inputSha256 = sha256(matrixFingerprintText(m));
+  const app = { name: 'Rankfill', version: appVersion };
+  const finalObjective = fit.objectiveTrace.length ? fit.objectiveTrace[fit.objectiveTrace.length - 1] : null;
+  const exports: ReportExport[] = [];
+  if (o.csv !== undefined) {
+    const options: ExportOptions = { kind: 'filled-wide', roundToStep: false, decimals: o.decimals ?? null, delimiter: ',' };
+    const observed = observedCount(m);
+    const sidecarPath = sidecarPathFor(o.csv);
+    const writtenAt = now();
+    const sidecar = buildSidecar({
+      app,
+      exportedAt: writtenAt,
+      file: o.csv,
+      options,
+      document: { title: basename(o.input), rows: m.rowLabels.length, cols: m.colLabels.length, observed, filled: m.values.length - observed },
+      settings,
+      run: { iterations: fit.iterations, converged: fit.converged, finalObjective, refitsAfterEdits: 0 },
+      metrics: { folds: evaluation.k, seed: evaluation.seed, meanRmse: evaluation.table[0].meanRmse, sdRmse: evaluation.table[0].sdRmse, meanMae: evaluation.table[0].meanMae, sdMae: evaluation.table[0].sdMae },
+      inputSha256,
+    });
+    try {
+      writeAtomically(o.csv, buildExport(m, fit, fit.spread, options));
+      writeAtomically(sidecarPath, sidecar);
+    } catch (err) {
+      const e = err as NodeJS.ErrnoException;
+      return { code: 2, stdout: [], stderr: [`rankfill: cannot write ${o.csv}: ${e.code ?? e.message}`] };
+    }
+    exports.push({ path: o.csv, sidecarPath, writtenAt: writtenAt.toISOString() });
+  }
+  const input: ReportInput = {
+    title: basename(o.input),
+    source: o.input,
+    app,
+    createdAt: now().toISOString(),
+    matrix: m,
+    inputSha256,
+    run: { label: loaded.runLabel, settings, iterations: fit.iterations, converged: fit.converged, finalObjective, objectiveTrace: fit.objectiveTrace, refitsAfterEdits: 0 },
+    evaluation,
+    centering,
+    tuning,
+    exports,
+    reportPath: o.out,
+  };
+  const html = buildReport(input);
+  try {
+    writeAtomically(o.out!, html);
+  } catch (err) {
+    const e = err as NodeJS.ErrnoException;
+    return { code: 2, stdout: [], stderr: [`rankfill: cannot write ${o.out}: ${e.code ?? e.message}`] };
+  }
+  const own = evaluation.table[0];
+  if (o.json) {
+    return {
+      code: 0,
+      stderr: loaded.warnings,
+      stdout: [JSON.stringify({ command: 'report', input: o.input, output: o.out, bytes: Buffer.byteLength(html), run: loaded.runLabel, settings, evaluation, centering: centering !== null, tuning: tuning !== null, exports, inputSha256, computeMs })],
+    };
+  }
+  return {
+    code: 0,
+    stderr: loaded.warnings,
+    stdout: [
+      `report of ${loaded.runLabel.toLowerCase()} (${settings.model === 'lowrank' ? `rank ${settings.rank}, lambda ${settings.lambda}, centering ${settings.centering}` : `gaussian, shrinkage ${settings.shrinkage}`}) → ${o.out} (${Math.ceil(Buffer.byteLength(html) / 1024)} KB)`,
+      `cross-validated RMSE ${own.meanRmse === null ? 'n/a' : own.meanRmse.toFixed(4)} (${evaluation.k} folds), against ${evaluation.table[1]?.meanRmse?.toFixed(4) ?? 'n/a'} for the row and column baselines alone`,
+      ...exports.map((x) => `filled matrix → ${x.path} (settings: ${x.sidecarPath})`),
+    ],
+  };
+}
