@@ -382,11 +382,13 @@ export const apiMethods = {
         path: z.string().min(1).max(4096),
         text: z.string(),
         sidecar: z.string().optional(),
+        /** Companion mask (NAME.mask.csv: observed / filled per cell) of a wide export. */
+        mask: z.string().optional(),
         overwrite: z.boolean(),
       })
       .strict(),
     reply: z.union([
-      z.object({ ok: z.literal(true), path: z.string(), sidecarPath: z.string().nullable(), bytes: z.number().int() }),
+      z.object({ ok: z.literal(true), path: z.string(), sidecarPath: z.string().nullable(), maskPath: z.string().nullable().optional(), bytes: z.number().int() }),
       z.object({ ok: z.literal(false), reason: z.enum(['exists', 'invalid-path']), message: z.string() }),
     ]),
   },

@@ -7,16 +7,99 @@
 import type { Centering, ModelFamily } from '../../src-shared/engine/types';
 
 export const USAGE = [
-  'usage: rankfill fill IN.csv --out OUT.csv [--model lowrank|gaussian] [--rank K] [--lambda L]',
-  '                [--centering none|row|column|both] [--shrinkage S] [--transpose]',
-  '                [--iterations N] [--tolerance T] [--seed S] [--scale MIN:MAX[:STEP]] [--long] [--decimals D] [--json]',
+  'usage: rankfill fill IN.csv --out OUT.csv [--layout filled|estimates|long] [--decimals D] [--sidecar] [--mask] [--force]',
+  '                [model options] [--scale MIN:MAX[:STEP]] [--long] [--duplicates last|average|refuse] [--json]',
   '       rankfill evaluate IN.csv [model options] [--folds 5] [--json]',
   '       rankfill tune IN.csv [--models lowrank,gaussian] [--ranks 0,1,2,3,5,8] [--lambdas 0.1,1,10,30]',
   '                [--centering none,row,column,both] [--shrinkages 0,0.05,0.1,0.2] [--transpose]',
   '                [--folds 5] [--seed S] [--iterations N] [--tolerance T] [--scale MIN:MAX[:STEP]] [--long] [--json]',
   '       rankfill report IN.csv|PROJECT.rankfill --out REPORT.html [model options as for fill] [--run ID] [--folds 5]',
   '                [--compare-centering] [--tune [--ranks 0,1,2,3,5,8] [--lambdas 0.1,1,10,30]] [--csv FILLED.csv] [--json]',
+  '       rankfill COMMAND --help   lists every option of COMMAND with its default',
 ].join('\n');
+
+export type Command = 'fill' | 'evaluate' | 'tune' | 'report';
+const COMMANDS: readonly Command[] = ['fill', 'evaluate', 'tune', 'report'];
+
+/** One command-line option: who takes it, what it holds, its default, what it does. */
+interface OptionSpec {
+  name: string;
+  /** Placeholder of the value; absent for a flag. */
+  value?: string;
+  commands: readonly Command[];
+  /** The default as the help prints it (per command where they differ). */
+  default: string | Partial<Record<Command, string>>;
+  help: string;
+}
+
+const ALL: readonly Command[] = COMMANDS;
+const FIT: readonly Command[] = ['fill', 'evaluate', 'report'];
+
+/** Every option, in the order the help lists them. Defaults are those of the engine (engine/defaults.ts, gaussian/settings.ts). */
+export const OPTIONS: readonly OptionSpec[] = [
+  { name: 'out', value: 'OUT.csv', commands: ['fill'], default: 'required', help: 'file to write' },
+  { name: 'out', value: 'REPORT.html', commands: ['report'], default: 'required', help: 'the study report to write' },
+  { name: 'run', value: 'ID', commands: ['report'], default: 'the last saved run', help: 'with a project as input: which saved run (id or 1-based position)' },
+  { name: 'csv', value: 'FILLED.csv', commands: ['report'], default: 'none', help: 'also write the filled matrix and its settings file' },
+  { name: 'compare-centering', commands: ['report'], default: 'off', help: 'add the centering comparison' },
+  { name: 'tune', commands: ['report'], default: 'off', help: 'add the tuning grid (--ranks, --lambdas)' },
+  { name: 'layout', value: 'filled|estimates|long', commands: ['fill'], default: 'filled (long with --long)', help: 'filled: wide, observed ratings plus estimates; estimates: wide, estimates only; long: row,column,value,source,baseline,spread (same writers as the window\'s export)' },
+  { name: 'decimals', value: 'D', commands: ['fill', 'report'], default: 'full precision', help: 'round estimates to D decimals (observed ratings are written as read)' },
+  { name: 'sidecar', commands: ['fill'], default: 'off', help: 'also write OUT.settings.json: settings, seed, iterations, objective, app version, time, hash of the input' },
+  { name: 'mask', commands: ['fill'], default: 'off', help: 'with a wide layout, also write OUT.mask.csv saying "observed" or "filled" for every cell' },
+  { name: 'force', commands: ['fill'], default: 'off', help: 'replace OUT (and its sidecar or mask) when it exists; without it an existing file is left untouched and the exit status is 2' },
+  { name: 'model', value: 'lowrank|gaussian', commands: FIT, default: 'lowrank', help: 'model family' },
+  { name: 'rank', value: 'K', commands: FIT, default: '2', help: 'low-rank: number of hidden traits (0 = baseline alone)' },
+  { name: 'lambda', value: 'L', commands: FIT, default: '1', help: 'low-rank: ridge weight on the factors' },
+  { name: 'centering', value: 'none|row|column|both', commands: ALL, default: { fill: 'both', evaluate: 'both', report: 'both', tune: 'none,row,column,both' }, help: 'low-rank baseline; for tune a comma-separated list' },
+  { name: 'shrinkage', value: 'S', commands: FIT, default: '0.05', help: 'gaussian: pull the covariance toward its diagonal, 0 ≤ S < 1' },
+  { name: 'transpose', commands: ALL, default: 'off', help: 'gaussian: the rows are the variables' },
+  { name: 'iterations', value: 'N', commands: ALL, default: '100 (low-rank), 200 (gaussian)', help: 'iteration limit' },
+  { name: 'tolerance', value: 'T', commands: ALL, default: '1e-6', help: 'stop when the objective changes by less than T of itself' },
+  { name: 'seed', value: 'S', commands: ALL, default: '1', help: 'seed of every random choice (start, folds)' },
+  { name: 'folds', value: 'K', commands: ['evaluate', 'tune', 'report'], default: '5', help: 'number of cross-validation folds' },
+  { name: 'models', value: 'LIST', commands: ['tune'], default: 'lowrank, plus gaussian when the matrix allows it', help: 'families to compare, e.g. lowrank,gaussian' },
+  { name: 'ranks', value: 'LIST', commands: ['tune', 'report'], default: '0,1,2,3,5,8', help: 'ranks to try' },
+  { name: 'lambdas', value: 'LIST', commands: ['tune', 'report'], default: '0.1,1,10,30', help: 'lambda values to try' },
+  { name: 'shrinkages', value: 'LIST', commands: ['tune'], default: '0,0.05,0.1,0.2', help: 'gaussian shrinkages to try' },
+  { name: 'scale', value: 'MIN:MAX[:STEP]', commands: ALL, default: 'observed min and max, step detected', help: 'the rating scale; estimates are clipped to it, and with a STEP rounded to the step' },
+  { name: 'long', commands: ALL, default: 'off', help: 'input is row,column,value triples (fill then writes the long layout unless --layout says otherwise)' },
+  { name: 'duplicates', value: 'last|average|refuse', commands: ['fill', 'evaluate', 'tune'], default: 'refuse', help: 'with --long: a (row, column) pair given more than once keeps the last value, the average, or stops the read' },
+  { name: 'json', commands: ALL, default: 'off', help: 'print one JSON object instead of text' },
+];
+
+const SUMMARY: Record<Command, string> = {
+  fill: 'fit once and write every cell (observed values unchanged, missing ones estimated)',
+  evaluate: 'k-fold cross-validation of one setting (RMSE and MAE per fold)',
+  tune:
+    'cross-validate a grid of ranks × lambdas × centerings and Gaussian shrinkages on the same folds; the family ' +
+    'with the lowest mean RMSE wins, and its simplest setting within one standard error is the choice',
+  report:
+    'fit once, cross-validate beside the baselines alone, and write a self-contained HTML study report; IN may be ' +
+    'a saved project, whose run --run picks',
+};
+
+/** The help of one command: what it does and every option it takes, with its default. */
+export function commandHelp(command: Command): string {
+  const rows = OPTIONS.filter((o) => o.commands.includes(command)).map((o) => {
+    const name = `--${o.name}${o.value ? ` ${o.value}` : ''}`;
+    const def = typeof o.default === 'string' ? o.default : (o.default[command] ?? '');
+    return { name, text: `${o.help} (default: ${def})` };
+  });
+  const width = Math.max(...rows.map((r) => r.name.length)) + 2;
+  return [
+    `usage: rankfill ${command} IN.csv [options]`,
+    '',
+    `${command}: ${SUMMARY[command]}.`,
+    '',
+    'options:',
+    ...rows.map((r) => `  ${r.name.padEnd(width)}${r.text}`),
+    '  --help'.padEnd(width + 2) + 'print this help',
+    '',
+    'Input is wide CSV (header row = column labels, first column = row labels, blank = missing) unless --long.',
+    'Filled values are model estimates, not observations. Exit status: 0 done, 1 the fit failed, 2 malformed input, usage error or an existing output without --force.',
+  ].join('\n');
+}
 
 export const HELP = `${USAGE}
 
@@ -26,8 +109,8 @@ fitted by EM, and a missing cell is its conditional mean given the row's observe
 Gaussian model suits tall panels (many rows, at most 300 columns); it has its own mean, so
 --centering does not apply, and --shrinkage S in [0, 1) pulls its covariance toward the
 diagonal; --transpose makes the rows the variables.
-  fill       fit once and write every cell (observed values unchanged, missing ones predicted)
-  evaluate   k-fold cross-validation of one setting (RMSE and MAE per fold)
+  fill       ${SUMMARY.fill}
+  evaluate   ${SUMMARY.evaluate}
   tune       cross-validate a grid of ranks × lambdas × centerings and Gaussian shrinkages on the
              same folds; the family with the lowest mean RMSE wins, and its simplest setting
              within one standard error is the choice. By default the Gaussian model is tried
@@ -38,9 +121,12 @@ diagonal; --transpose makes the rows the variables.
              provenance); --compare-centering and --tune add those comparisons; IN may be a
              saved project, whose run --run picks (id or position; default the last);
              --csv also writes the filled matrix and its settings file
+"model options" are --model, --rank, --lambda, --centering, --shrinkage, --transpose,
+--iterations, --tolerance and --seed; \`rankfill COMMAND --help\` lists each command's options
+with their defaults.
 
 Input is wide CSV (header row = column labels, first column = row labels, blank = missing);
---long reads and writes row,column,value triples. Without --scale the scale is the observed
+--long reads row,column,value triples. Without --scale the scale is the observed
 min and max; with --scale MIN:MAX:STEP predictions are also rounded to the step.
 Exit status: 0 done, 1 the fit failed, 2 malformed input or usage error.`;
 
@@ -50,8 +136,6 @@ export class UsageError extends Error {
     this.name = 'UsageError';
   }
 }
-
-export type Command = 'fill' | 'evaluate' | 'tune' | 'report';
 
 export interface CliOptions {
   command: Command;
@@ -86,20 +170,30 @@ export interface CliOptions {
   /** report: add the centering comparison / the tuning grid. */
   compareCentering: boolean;
   tune: boolean;
+  /** fill: what to write (default filled, or long with --long). */
+  layout: FillLayout;
+  /** fill: also write OUT.settings.json. */
+  sidecar: boolean;
+  /** fill: also write OUT.mask.csv (wide layouts). */
+  mask: boolean;
+  /** fill: replace existing output files. */
+  force: boolean;
+  /** --long input: what to do with a repeated (row, column) pair. */
+  duplicates: DuplicatePolicy;
 }
 
-export type ParsedArgs = { kind: 'help' } | { kind: 'version' } | { kind: 'run'; options: CliOptions };
+export type FillLayout = 'filled' | 'estimates' | 'long';
+export type DuplicatePolicy = 'last' | 'average' | 'refuse';
+
+export type ParsedArgs = { kind: 'help'; command?: Command } | { kind: 'version' } | { kind: 'run'; options: CliOptions };
 
 const CENTERINGS: readonly Centering[] = ['none', 'row', 'column', 'both'];
 const MODELS: readonly ModelFamily[] = ['lowrank', 'gaussian'];
-const VALUE_OPTIONS = new Set(['out', 'rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'decimals', 'folds', 'ranks', 'lambdas', 'model', 'shrinkage', 'models', 'shrinkages', 'run', 'csv']);
-const FLAG_OPTIONS = new Set(['long', 'json', 'transpose', 'compare-centering', 'tune']);
-const ALLOWED: Record<Command, Set<string>> = {
-  fill: new Set(['out', 'rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'long', 'json', 'decimals', 'model', 'shrinkage', 'transpose']),
-  evaluate: new Set(['rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'long', 'json', 'folds', 'model', 'shrinkage', 'transpose']),
-  tune: new Set(['ranks', 'lambdas', 'centering', 'folds', 'seed', 'iterations', 'tolerance', 'scale', 'long', 'json', 'models', 'shrinkages', 'transpose']),
-  report: new Set(['out', 'rank', 'lambda', 'centering', 'iterations', 'tolerance', 'seed', 'scale', 'long', 'json', 'decimals', 'model', 'shrinkage', 'transpose', 'folds', 'run', 'csv', 'compare-centering', 'tune', 'ranks', 'lambdas']),
-};
+const VALUE_OPTIONS = new Set(OPTIONS.filter((o) => o.value !== undefined).map((o) => o.name));
+const FLAG_OPTIONS = new Set(OPTIONS.filter((o) => o.value === undefined).map((o) => o.name));
+const ALLOWED = Object.fromEntries(COMMANDS.map((c) => [c, new Set(OPTIONS.filter((o) => o.commands.includes(c)).map((o) => o.name))])) as Record<Command, Set<string>>;
+const LAYOUTS: readonly FillLayout[] = ['filled', 'estimates', 'long'];
+const DUPLICATES: readonly DuplicatePolicy[] = ['last', 'average', 'refuse'];
 
 function number(name: string, text: string): number {
   const t = text.trim();
@@ -138,6 +232,12 @@ function shrinkage(name: string, text: string): number {
   return x;
 }
 
+function oneOf<T extends string>(name: string, text: string, allowed: readonly T[]): T {
+  const v = text.trim() as T;
+  if (!allowed.includes(v)) throw new UsageError(`--${name} expects one of ${allowed.join(', ')}, got "${text}"`);
+  return v;
+}
+
 function list<T>(name: string, text: string, item: (name: string, s: string) => T): T[] {
   const parts = text.split(',');
   if (parts.some((p) => p.trim() === '')) throw new UsageError(`--${name} expects a comma-separated list, got "${text}"`);
@@ -158,7 +258,9 @@ function scale(text: string): CliOptions['scale'] {
 
 export function parseArgs(argv: string[]): ParsedArgs {
   if (argv.length === 0) throw new UsageError('missing command');
-  if (argv.includes('--help') || argv.includes('-h') || argv[0] === 'help') return { kind: 'help' };
+  const named = (c: string | undefined): Command | undefined => (COMMANDS as readonly string[]).includes(c ?? '') ? (c as Command) : undefined;
+  if (argv[0] === 'help') return { kind: 'help', command: named(argv[1]) };
+  if (argv.includes('--help') || argv.includes('-h')) return { kind: 'help', command: named(argv[0]) };
   if (argv[0] === '--version' || argv[0] === 'version') return { kind: 'version' };
   const command = argv[0];
   if (command !== 'fill' && command !== 'evaluate' && command !== 'tune' && command !== 'report') throw new UsageError(`unknown command "${command}"`);
@@ -204,12 +306,19 @@ export function parseArgs(argv: string[]): ParsedArgs {
     model: get('model') !== undefined ? model('model', get('model')!) : 'lowrank',
     transpose: flags.has('transpose'),
     shrinkages: get('shrinkages') !== undefined ? list('shrinkages', get('shrinkages')!, shrinkage) : [0, 0.05, 0.1, 0.2],
+    layout: get('layout') !== undefined ? oneOf('layout', get('layout')!, LAYOUTS) : flags.has('long') ? 'long' : 'filled',
+    sidecar: flags.has('sidecar'),
+    mask: flags.has('mask'),
+    force: flags.has('force'),
+    duplicates: get('duplicates') !== undefined ? oneOf('duplicates', get('duplicates')!, DUPLICATES) : 'refuse',
     compareCentering: flags.has('compare-centering'),
     tune: flags.has('tune'),
   };
   if (get('run') !== undefined) opts.run = get('run')!.trim();
   if (get('csv') !== undefined) opts.csv = get('csv');
   if (command === 'report' && (get('ranks') !== undefined || get('lambdas') !== undefined) && !opts.tune) throw new UsageError('--ranks and --lambdas apply to "report" with --tune only');
+  if (get('duplicates') !== undefined && !opts.long) throw new UsageError('--duplicates applies to long input only (add --long)');
+  if (opts.mask && opts.layout === 'long') throw new UsageError('--mask applies to the wide layouts (the long layout has a source column)');
   if (get('shrinkage') !== undefined) opts.shrinkage = shrinkage('shrinkage', get('shrinkage')!);
   if (get('models') !== undefined) opts.models = [...new Set(list('models', get('models')!, model))];
   if (command !== 'tune') {

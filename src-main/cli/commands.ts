@@ -3,30 +3,25 @@
  * crossValidate / tune) and returns an exit code plus what to print; nothing is
  * written before the fit has succeeded.
  */
-import { renameSync, writeFileSync, unlinkSync } from 'node:fs';
+import { existsSync, renameSync, writeFileSync, unlinkSync } from 'node:fs';
+import { createHash } from 'node:crypto';
 import { fitModel } from '../../src-shared/engine/fitModel';
 import { FitFailedError } from '../../src-shared/engine/errors';
 import { crossValidate, makeFolds } from '../../src-shared/engine/crossValidation';
 import { expandLowRankGrid, tune } from '../../src-shared/engine/tuning';
-import { filledValues } from '../../src-shared/engine/predictions';
 import type { FitSettings, ModelFamily } from '../../src-shared/engine/types';
 import { gaussianRefusal } from '../../src-shared/engine/gaussian/fitGaussian';
 import { observedCount, type RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
-import { writeLongCsv, writeWideCsv } from '../../src-shared/io';
-import type { CliOptions } from './args';
+import { buildExport, buildMask, buildSidecar, matrixFingerprintText, type ExportKind, type ExportOptions } from '../../src-shared/io/exportFilled';
+import { maskPathFor, sidecarPathFor } from '../services/exportPaths';
+import type { CliOptions, FillLayout } from './args';
+import { appVersion } from './version';
 import { fitSettingsFromOptions, gaussianSettingsFromOptions, settingsFromOptions } from './modelSettings';
 
 export interface CommandOutput {
   code: number;
   stdout: string[];
   stderr: string[];
-}
-
-function round(x: number, decimals: number | undefined): number {
-  if (decimals === undefined || !Number.isFinite(x)) return x;
-  const f = 10 ** decimals;
-  const y = Math.round(x * f) / f;
-  return Object.is(y, -0) ? 0 : y;
 }
 
 function fmt(x: number, digits = 4): string {
@@ -55,27 +50,58 @@ export function writeAtomically(path: string, text: string): void {
   }
 }
 
+const EXPORT_KIND: Record<FillLayout, ExportKind> = { filled: 'filled-wide', estimates: 'estimates-wide', long: 'long' };
+
+/** The files `fill` writes: the output, and the sidecar / mask when asked for. */
+export function fillOutputs(o: CliOptions): string[] {
+  const out = o.out!;
+  return [out, ...(o.sidecar ? [sidecarPathFor(out)] : []), ...(o.mask ? [maskPathFor(out)] : [])];
+}
+
 export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
+  const outputs = fillOutputs(o);
+  const existing = o.force ? undefined : outputs.find((p) => existsSync(p));
+  if (existing !== undefined) {
+    return { code: 2, stdout: [], stderr: [`rankfill: ${existing} already exists; nothing written (add --force to replace it)`] };
+  }
   const settings = fitSettingsFromOptions(o);
   const t0 = performance.now();
   const fit = fitModel(m, settings);
   timings.fitMs = performance.now() - t0;
-  const filled = filledValues(m, fit);
   const rows = m.rowLabels.length;
   const cols = m.colLabels.length;
-  // Observed cells are written as read; only predictions are rounded by --decimals.
-  const layer = (i: number, j: number): number => {
-    const c = i * cols + j;
-    const y = m.values[c];
-    return y === y ? y : round(filled[c], o.decimals);
-  };
+  // The window's writers: observed cells are written as read; only estimates are rounded by --decimals.
+  const options: ExportOptions = { kind: EXPORT_KIND[o.layout], roundToStep: false, decimals: o.decimals ?? null, delimiter: ',' };
   const t1 = performance.now();
-  const text = o.long ? writeLongCsv(m, { layer }) : writeWideCsv(m, { layer });
-  try {
-    writeAtomically(o.out!, text);
-  } catch (err) {
-    const e = err as NodeJS.ErrnoException;
-    return { code: 2, stdout: [], stderr: [`rankfill: cannot write ${o.out}: ${e.code ?? e.message}`] };
+  const text = buildExport(m, fit, fit.spread, options);
+  const observedCells = observedCount(m);
+  const finalObjective = fit.objectiveTrace.length > 0 ? fit.objectiveTrace[fit.objectiveTrace.length - 1] : null;
+  const files: [string, string][] = [[o.out!, text]];
+  if (o.sidecar) {
+    files.push([
+      sidecarPathFor(o.out!),
+      buildSidecar({
+        app: { name: 'Rankfill (command line)', version: appVersion() },
+        exportedAt: new Date(),
+        file: o.out!,
+        options,
+        document: { title: o.input, rows, cols, observed: observedCells, filled: rows * cols - observedCells },
+        settings: fit.settings,
+        run: { iterations: fit.iterations, converged: fit.converged, finalObjective, refitsAfterEdits: 0 },
+        metrics: null,
+        inputSha256: createHash('sha256').update(matrixFingerprintText(m)).digest('hex'),
+      }),
+    ]);
+  }
+  if (o.mask) files.push([maskPathFor(o.out!), buildMask(m, ',')]);
+  for (const [path, body] of files) {
+    try {
+      writeAtomically(path, body);
+    } catch (err) {
+      const e = err as NodeJS.ErrnoException;
+      const hint = e.code === 'ENOENT' ? 'its folder does not exist (create it first)' : (e.code ?? e.message);
+      return { code: 2, stdout: [], stderr: [`rankfill: cannot write ${path}: ${hint}`] };
+    }
   }
   timings.writeMs = performance.now() - t1;
   const observed = observedCount(m);
@@ -90,6 +116,8 @@ export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, 
           command: 'fill',
           input: o.input,
           output: o.out,
+          layout: o.layout,
+          files: files.map(([p]) => p),
           rows,
           cols,
           observed,
@@ -109,7 +137,7 @@ export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, 
     code: 0,
     stderr: [],
     stdout: [
-      `filled ${rows * cols - observed} of ${rows * cols} cells (${rows} rows × ${cols} columns) → ${o.out}`,
+      `filled ${rows * cols - observed} of ${rows * cols} cells (${rows} rows × ${cols} columns) with model estimates → ${files.map(([p]) => p).join(', ')}`,
       `model: ${settingsLabel(fit.settings)}; ${fit.iterations} iterations${fit.converged ? ' (converged)' : ' (iteration limit)'}, objective ${objective.toPrecision(6)}`,
     ],
   };
@@ -127,7 +155,7 @@ export function runEvaluate(o: CliOptions, m: RatingMatrix, timings: Record<stri
     return {
       code: 0,
       stderr: [],
-      stdout: [JSON.stringify({ command: 'evaluate', input: o.input, settings, folds: o.folds, seed: settings.seed, table, meanRmse: cv.meanRmse, sdRmse: cv.sdRmse, meanMae: cv.meanMae, sdMae: cv.sdMae, timings })],
+      stdout: [JSON.stringify({ command: 'evaluate', input: o.input, scale: m.scale, settings, folds: o.folds, seed: settings.seed, table, meanRmse: cv.meanRmse, sdRmse: cv.sdRmse, meanMae: cv.meanMae, sdMae: cv.sdMae, timings })],
     };
   }
   const lines = [`${o.folds}-fold cross-validation of ${settingsLabel(settings)}`, 'fold  rmse    mae     cells'];
@@ -215,6 +243,7 @@ export function runTune(o: CliOptions, m: RatingMatrix, timings: Record<string, 
       stdout: [
         JSON.stringify({
           command: 'tune',
+          scale: m.scale,
           models: families,
           skipped,
           choice,

@@ -4,10 +4,9 @@
  * settings); 2 malformed input (`FILE:LINE:COLUMN: reason`) or a usage error (reason +
  * usage line). No stack trace ever reaches the user.
  */
-import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
 import { FitCancelledError, FitFailedError } from '../../src-shared/engine/errors';
-import { HELP, USAGE, UsageError, parseArgs } from './args';
+import { HELP, USAGE, UsageError, commandHelp, parseArgs } from './args';
+import { appVersion } from './version';
 import { readMatrix } from './readInput';
 import { withScale } from './modelSettings';
 import { runEvaluate, runFill, runTune, type CommandOutput } from './commands';
@@ -27,14 +26,6 @@ function oneLine(message: string): string {
   return message.split('\n')[0];
 }
 
-function version(): string {
-  try {
-    return (JSON.parse(readFileSync(join(__dirname, '..', '..', 'package.json'), 'utf8')) as { version: string }).version;
-  } catch {
-    return 'unknown';
-  }
-}
-
 function execute(argv: string[]): CommandOutput {
   let parsed;
   try {
@@ -43,8 +34,8 @@ function execute(argv: string[]): CommandOutput {
     if (err instanceof UsageError) return { code: 2, stdout: [], stderr: [`rankfill: ${err.message}`, USAGE] };
     throw err;
   }
-  if (parsed.kind === 'help') return { code: 0, stdout: [HELP], stderr: [] };
-  if (parsed.kind === 'version') return { code: 0, stdout: [`rankfill ${version()}`], stderr: [] };
+  if (parsed.kind === 'help') return { code: 0, stdout: [parsed.command ? commandHelp(parsed.command) : HELP], stderr: [] };
+  if (parsed.kind === 'version') return { code: 0, stdout: [`rankfill ${appVersion()}`], stderr: [] };
   const o = parsed.options;
   if (o.command === 'report') {
     try {
@@ -56,7 +47,7 @@ function execute(argv: string[]): CommandOutput {
   }
   const timings: Record<string, number> = {};
   const t0 = performance.now();
-  const read = readMatrix(o.input, o.long);
+  const read = readMatrix(o.input, o.long, o.duplicates, o.scale ? { min: o.scale.min, max: o.scale.max, step: o.scale.step ?? 0 } : undefined);
   timings.readMs = performance.now() - t0;
   if (!read.ok) return { code: 2, stdout: [], stderr: read.messages };
   const matrix = withScale(read.matrix, o);

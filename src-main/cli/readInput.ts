@@ -3,8 +3,8 @@
  * (src-shared/io), turning every failure into `FILE:LINE:COLUMN: reason` lines.
  */
 import { readFileSync } from 'node:fs';
-import { formatProblem, parseDelimited, type Problem } from '../../src-shared/io';
-import type { RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
+import { formatProblem, looksLong, parseDelimited, type DuplicatePolicy, type Problem } from '../../src-shared/io';
+import type { RatingMatrix, RatingScale } from '../../src-shared/matrix/ratingMatrix';
 
 export type ReadResult =
   | { ok: true; matrix: RatingMatrix; warnings: string[] }
@@ -24,7 +24,8 @@ function describeFsError(err: NodeJS.ErrnoException): string {
   }
 }
 
-export function readMatrix(path: string, long: boolean): ReadResult {
+/** `scale`: the scale from --scale; a value outside it or between its steps is then a located problem. */
+export function readMatrix(path: string, long: boolean, duplicates: DuplicatePolicy = 'refuse', scale?: RatingScale): ReadResult {
   let text: string;
   try {
     // Non-fatal decoding: invalid UTF-8 becomes U+FFFD, which the parser reports as binary content.
@@ -32,7 +33,13 @@ export function readMatrix(path: string, long: boolean): ReadResult {
   } catch (err) {
     return { ok: false, messages: [`${path}:1:1: ${describeFsError(err as NodeJS.ErrnoException)}`] };
   }
-  const parsed = parseDelimited(text, { fileName: path, layout: long ? 'long' : 'wide' });
-  if (!parsed.ok) return { ok: false, messages: parsed.problems.map((p: Problem) => formatProblem(p)) };
+  const parsed = parseDelimited(text, { fileName: path, layout: long ? 'long' : 'wide', duplicates, ...(scale ? { scale } : {}) });
+  if (!parsed.ok) {
+    const messages = parsed.problems.map((p: Problem) => formatProblem(p));
+    if (!long && looksLong(text)) {
+      messages.push(`rankfill: ${path} looks like row,column,value triples (three columns, repeated row labels); if it is, add --long`);
+    }
+    return { ok: false, messages };
+  }
   return { ok: true, matrix: parsed.matrix, warnings: parsed.warnings.map((p: Problem) => formatProblem(p)) };
 }

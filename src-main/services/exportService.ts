@@ -9,11 +9,9 @@ import { homedir } from 'node:os';
 import { basename, dirname, extname, isAbsolute, join } from 'node:path';
 import type { ApiReply, ApiRequest } from '../../src-shared/api';
 import { atomicWrite } from './atomicWrite';
+import { maskPathFor, sidecarPathFor } from './exportPaths';
 
-export function sidecarPathFor(path: string): string {
-  const ext = extname(path);
-  return join(dirname(path), `${basename(path, ext)}.settings.json`);
-}
+export { sidecarPathFor, maskPathFor } from './exportPaths';
 
 export function defaultExportDir(env: NodeJS.ProcessEnv = process.env): string {
   return env.RANKFILL_EXPORT_DIR ?? join(homedir(), 'Rankfill exports');
@@ -37,12 +35,14 @@ export async function writeExport(req: ApiRequest<'export.write'>): Promise<ApiR
     return { ok: false, reason: 'invalid-path', message: `“${path}” is not a full file path` };
   }
   const sidecarPath = req.sidecar === undefined ? null : sidecarPathFor(path);
+  const maskPath = req.mask === undefined ? null : maskPathFor(path);
   if (!req.overwrite) {
-    const existing = [path, sidecarPath].find((p) => p !== null && existsSync(p));
+    const existing = [path, sidecarPath, maskPath].find((p) => p !== null && existsSync(p));
     if (existing) return { ok: false, reason: 'exists', message: `${existing} already exists` };
   }
   await mkdir(dirname(path), { recursive: true });
   await atomicWrite(path, req.text, { backup: false });
   if (sidecarPath !== null && req.sidecar !== undefined) await atomicWrite(sidecarPath, req.sidecar, { backup: false });
-  return { ok: true, path, sidecarPath, bytes: Buffer.byteLength(req.text) };
+  if (maskPath !== null && req.mask !== undefined) await atomicWrite(maskPath, req.mask, { backup: false });
+  return { ok: true, path, sidecarPath, maskPath, bytes: Buffer.byteLength(req.text) };
 }

@@ -99,15 +99,27 @@ export function showModal<T>(opts: ModalOptions<T>): Promise<T> {
 }
 
 /** A yes/no question; resolves true for the confirming button. */
-export async function confirmDialog(title: string, message: string | HTMLElement, confirmLabel: string, cancelLabel = 'Cancel', testId = 'confirm-dialog'): Promise<boolean> {
+/**
+ * Ask to confirm. With `destructive`, the confirming button is drawn as dangerous and the
+ * safe choice (cancel) is the highlighted default that Enter and the first focus pick.
+ */
+export async function confirmDialog(
+  title: string,
+  message: string | HTMLElement,
+  confirmLabel: string,
+  cancelLabel = 'Cancel',
+  testId = 'confirm-dialog',
+  options: { destructive?: boolean } = {},
+): Promise<boolean> {
+  const destructive = options.destructive === true;
   return showModal<boolean>({
     title,
     body: message,
     testId,
     cancelValue: false,
     buttons: [
-      { label: cancelLabel, value: false, testId: 'dialog-cancel' },
-      { label: confirmLabel, value: true, primary: true, testId: 'dialog-confirm' },
+      { label: cancelLabel, value: false, testId: 'dialog-cancel', primary: destructive },
+      { label: confirmLabel, value: true, primary: !destructive, danger: destructive, testId: 'dialog-confirm' },
     ],
   });
 }

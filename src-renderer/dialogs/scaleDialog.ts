@@ -54,6 +54,6 @@ export async function scaleDialog(m: RatingMatrix): Promise<RatingScale | null> 
     listBlock(lines, 'scale-outside'),
     el('p', { text: 'Changing the scale makes these cells blank. You can take this back with Undo.' }),
   );
-  const confirmed = await confirmDialog('Values outside the new scale', body, `Clear ${outside.length} and change the scale`, 'Keep the old scale', 'scale-confirm-dialog');
+  const confirmed = await confirmDialog('Values outside the new scale', body, `Clear ${outside.length} and change the scale`, 'Keep the old scale', 'scale-confirm-dialog', { destructive: true });
   return confirmed ? next : null;
 }

@@ -5,9 +5,8 @@
  * list of offending cells when any entry is off the scale, and asks first when
  * it would overwrite observed values. Each paste or cut is one undoable change.
  */
-import { scaleDecimals } from '../../src-shared/matrix/ratingMatrix';
 import { confirmDialog, el, listBlock, modalOpen } from '../dialogs/modal';
-import { formatRating } from '../grid/cellText';
+import { formatObserved } from '../grid/cellText';
 import type { Notice } from '../panels/notice';
 import type { DocumentStore } from '../state/documentStore';
 import type { CellSelection } from './cellSelection';
@@ -28,11 +27,10 @@ export function selectionText(deps: ClipboardDeps): string | null {
   if (!r) return null;
   const m = deps.store.current;
   const cols = m.colLabels.length;
-  const decimals = scaleDecimals(m.scale);
   const rows: string[][] = [];
   for (let i = r.r0; i <= r.r1; i++) {
     const row: string[] = [];
-    for (let j = r.c0; j <= r.c1; j++) row.push(formatRating(m.values[i * cols + j], decimals));
+    for (let j = r.c0; j <= r.c1; j++) row.push(formatObserved(m.values[i * cols + j], m.scale));
     rows.push(row);
   }
   return formatTabBlock(rows);

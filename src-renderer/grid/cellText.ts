@@ -2,7 +2,10 @@
  * How a rating is shown in a cell and read back from what the user typed.
  * Missing is an empty cell, never 0 and never "NaN".
  */
-import type { RatingScale } from '../../src-shared/matrix/ratingMatrix';
+import { scaleDecimals, type RatingScale } from '../../src-shared/matrix/ratingMatrix';
+import { describeScale, scaleRefusal } from '../../src-shared/matrix/scaleCheck';
+
+export { describeScale };
 
 export function formatRating(value: number | null | undefined, decimals: number): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '';
@@ -11,11 +14,21 @@ export function formatRating(value: number | null | undefined, decimals: number)
 
 export type ParsedEntry = { kind: 'missing' } | { kind: 'value'; value: number } | { kind: 'refused'; reason: string };
 
-export function describeScale(scale: RatingScale): string {
-  return scale.step > 0 ? `${scale.min}–${scale.max} in steps of ${scale.step}` : `${scale.min}–${scale.max}`;
+/**
+ * An observed rating as shown: exactly as stored. On a stepped scale the step's decimals
+ * show it exactly; on a continuous scale the shortest form that reads back the same.
+ */
+export function formatObserved(value: number | null | undefined, scale: RatingScale): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return '';
+  if (scale.step > 0) {
+    const text = value.toFixed(scaleDecimals(scale));
+    // An older value off the step (kept from before a scale change) is shown in full.
+    return Number(text) === value ? text : String(value);
+  }
+  return String(value);
 }
 
-/** Read typed text: blank = missing; a decimal comma is accepted; outside the scale is refused. */
+/** Read typed text: blank = missing; a decimal comma is accepted; outside the scale or between its steps is refused. */
 export function parseEntry(text: unknown, scale: RatingScale): ParsedEntry {
   const raw = text === null || text === undefined ? '' : String(text).trim();
   if (raw === '') return { kind: 'missing' };
@@ -24,8 +37,7 @@ export function parseEntry(text: unknown, scale: RatingScale): ParsedEntry {
   if (!Number.isFinite(value)) {
     return { kind: 'refused', reason: `“${raw.slice(0, 40)}” is not a number; this scale runs ${describeScale(scale)}` };
   }
-  if (value < scale.min || value > scale.max) {
-    return { kind: 'refused', reason: `${raw} lies outside the scale ${describeScale(scale)}` };
-  }
-  return { kind: 'value', value };
+  const refusal = scaleRefusal(value, scale, raw);
+  if (refusal !== undefined) return { kind: 'refused', reason: refusal };
+  return { kind: 'value', value: value === 0 ? 0 : value };
 }

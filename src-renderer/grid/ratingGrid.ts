@@ -24,7 +24,7 @@ import {
 } from 'ag-grid-community';
 import { scaleDecimals } from '../../src-shared/matrix/ratingMatrix';
 import type { DocumentStore } from '../state/documentStore';
-import { formatRating, parseEntry } from './cellText';
+import { formatObserved, formatRating, parseEntry } from './cellText';
 import { rankfillGridTheme } from './gridTheme';
 import { diffColour, estimateTint, type GridLayers } from './overlayLayer';
 
@@ -138,7 +138,7 @@ export class RatingGrid {
       valueFormatter: (p) => {
         if (!p.data) return '';
         if (p.data.i === BASELINE_ROW) return formatRating(this.layers.baselines?.col?.[j], 2);
-        if (p.value !== null && p.value !== undefined) return formatRating(p.value as number, decimals);
+        if (p.value !== null && p.value !== undefined) return formatObserved(p.value as number, this.doc.scale);
         const diff = this.diffAt(p.data.i, j);
         if (diff !== undefined) return (diff > 0 ? '+' : '') + formatRating(diff, Math.max(2, decimals));
         const est = this.estimateAt(p.data.i, j);

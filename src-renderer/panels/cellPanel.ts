@@ -4,7 +4,7 @@
  * observed cells in its row that moved it most.
  */
 import { explainCell } from '../../src-shared/engine/contributions';
-import { scaleDecimals } from '../../src-shared/matrix/ratingMatrix';
+import { formatObserved } from '../grid/cellText';
 import { afterPaint } from './afterPaint';
 import { el, fmt } from './dom';
 import type { PanelContext } from './panelContext';
@@ -29,7 +29,6 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
     const idx = row * cols + col;
     const y = m.values[idx];
     const run = ctx.runs.shown;
-    const dec = scaleDecimals(m.scale);
     const rows: [string, string][] = [];
     const title = el('p', { className: 'rf-cell-title' }, [`${m.rowLabels[row]} × ${m.colLabels[col]}`]);
     const parts: HTMLElement[] = [title];
@@ -39,7 +38,7 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
     for (let i = 0; i < m.rowLabels.length; i++) if (!Number.isNaN(m.values[i * cols + col])) colObs++;
     const matches = run && run.rows === m.rowLabels.length && run.cols === cols;
     if (!Number.isNaN(y)) {
-      rows.push(['Observed rating', y.toFixed(dec)]);
+      rows.push(['Observed rating', formatObserved(y, m.scale)]);
       if (matches) rows.push(['Model’s fit of it', fmt(run.result.predictions[idx], 2)]);
     } else if (!matches) {
       rows.push(['Value', 'blank (no estimate yet: use Fill)']);
@@ -60,7 +59,7 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
           const table = el('table', { className: 'rf-table', testid: 'cell-contributors' }, [
             el('tr', {}, [el('th', {}, ['Observed in this row']), el('th', {}, ['value']), el('th', {}, ['adds'])]),
             ...top.map((c) =>
-              el('tr', {}, [el('td', {}, [m.colLabels[c.col]]), el('td', {}, [c.value.toFixed(dec)]), el('td', {}, [(c.contribution >= 0 ? '+' : '') + c.contribution.toFixed(2)])]),
+              el('tr', {}, [el('td', {}, [m.colLabels[c.col]]), el('td', {}, [formatObserved(c.value, m.scale)]), el('td', {}, [(c.contribution >= 0 ? '+' : '') + c.contribution.toFixed(2)])]),
             ),
           ]);
           parts.push(

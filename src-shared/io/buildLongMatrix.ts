@@ -6,7 +6,7 @@ import type { Delimiter } from './detectDelimiter';
 import { parseCellValue } from './parseCellValue';
 import type { ProblemCollector } from './problem';
 import type { RawRecord } from './tokenizeDelimited';
-import { checkCells, EMPTY_SCALE, otherDelimiterHint, show, type Built } from './importCommon';
+import { checkCells, EMPTY_SCALE, otherDelimiterHint, show, type Built, type ValueRefusal } from './importCommon';
 import type { DuplicatePolicy } from './parseDelimited';
 
 export function buildLong(
@@ -17,6 +17,7 @@ export function buildLong(
   problems: ProblemCollector,
   warnings: ProblemCollector,
   delimiter: Delimiter,
+  refuse?: ValueRefusal,
 ): Built | undefined {
   const first = records[0];
   if (first.fields.length < 3) {
@@ -72,8 +73,9 @@ export function buildLong(
       bad = true;
     }
     const v = parseCellValue(f[2], decimalComma, isMissing);
-    if (v.kind === 'error') {
-      problems.add(rec.lines[2], 3, v.message);
+    const refusal = v.kind === 'number' && refuse ? refuse(v.value, f[2].trim()) : undefined;
+    if (v.kind === 'error' || refusal !== undefined) {
+      problems.add(rec.lines[2], 3, v.kind === 'error' ? v.message : refusal!);
       bad = true;
     }
     if (bad) continue;
@@ -123,7 +125,7 @@ export function buildLong(
     const c = counts.get(cell);
     if (c === undefined) duplicatePairs++;
     if (policy === 'refuse') {
-      problems.add(rec.line, 1, `duplicate pair ${pair}: first given on line ${firstLine}; choose keep last or average to merge`);
+      problems.add(rec.line, 1, `duplicate pair ${pair}: first given on line ${firstLine}; choose keep last or average to merge (on the command line: --duplicates last or --duplicates average)`);
       counts.set(cell, (c ?? 1) + 1);
     } else if (policy === 'last') {
       values[cell] = x;
@@ -138,5 +140,5 @@ export function buildLong(
     }
   }
   if (problems.count > 0) return undefined;
-  return { matrix: { rowLabels, colLabels, values, scale: { ...EMPTY_SCALE } }, duplicatePairs };
+  return { matrix: { rowLabels, colLabels, values, scale: { ...EMPTY_SCALE } }, duplicatePairs, ...(hasHeader ? { rowHeader: first.fields[0] } : {}) };
 }

@@ -10,7 +10,7 @@ import { delimiterName } from './detectDelimiter';
 import { parseCellValue } from './parseCellValue';
 import type { ProblemCollector } from './problem';
 import type { RawRecord } from './tokenizeDelimited';
-import { checkCells, EMPTY_SCALE, otherDelimiterHint, show, type Built } from './importCommon';
+import { checkCells, EMPTY_SCALE, otherDelimiterHint, show, type Built, type ValueRefusal } from './importCommon';
 
 export function buildWide(
   records: RawRecord[],
@@ -19,6 +19,7 @@ export function buildWide(
   problems: ProblemCollector,
   warnings: ProblemCollector,
   delimiter: Delimiter,
+  refuse?: ValueRefusal,
 ): Built | undefined {
   const header = records[0];
   const width = header.fields.length;
@@ -84,7 +85,9 @@ export function buildWide(
     const m = Math.min(f.length, width);
     for (let j = 1; j < m; j++) {
       const v = parseCellValue(f[j], decimalComma, isMissing);
-      if (v.kind === 'number') {
+      const refusal = v.kind === 'number' && refuse ? refuse(v.value, f[j].trim()) : undefined;
+      if (refusal !== undefined) problems.add(rec.lines[j], j + 1, refusal);
+      else if (v.kind === 'number') {
         values[r * nCols + j - 1] = v.value;
         colHasValue[j - 1] = 1;
       } else if (v.kind === 'error') problems.add(rec.lines[j], j + 1, v.message);
@@ -104,7 +107,7 @@ export function buildWide(
   }
   if (problems.count > 0) return undefined;
   if (drop.size === 0) {
-    return { matrix: { rowLabels, colLabels, values, scale: { ...EMPTY_SCALE } }, duplicatePairs: 0 };
+    return { matrix: { rowLabels, colLabels, values, scale: { ...EMPTY_SCALE } }, duplicatePairs: 0, rowHeader: header.fields[0] };
   }
   const keep: number[] = [];
   for (let j = 0; j < nCols; j++) if (!drop.has(j)) keep.push(j);
@@ -117,5 +120,6 @@ export function buildWide(
   return {
     matrix: { rowLabels, colLabels: keep.map((j) => colLabels[j]), values: packed, scale: { ...EMPTY_SCALE } },
     duplicatePairs: 0,
+    rowHeader: header.fields[0],
   };
 }

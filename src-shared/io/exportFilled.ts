@@ -8,7 +8,7 @@
 import type { FitResult, FitSettings } from '../engine/types';
 import type { RatingMatrix } from '../matrix/ratingMatrix';
 import type { Delimiter } from './detectDelimiter';
-import { writeFilledLongCsv, writeWideCsv } from './writeDelimited';
+import { quoteField, writeFilledLongCsv, writeWideCsv } from './writeDelimited';
 
 export type ExportKind = 'filled-wide' | 'estimates-wide' | 'long';
 
@@ -47,6 +47,11 @@ export function exportedEstimate(x: number, matrix: RatingMatrix, opts: Pick<Exp
   return Number(v.toPrecision(12));
 }
 
+function roundTo(x: number, decimals: number): number {
+  const f = 10 ** decimals;
+  return Number((Math.round(x * f) / f).toPrecision(12));
+}
+
 export function buildExport(matrix: RatingMatrix, result: FitResult, spread: ArrayLike<number> | undefined, opts: ExportOptions): string {
   const cols = matrix.colLabels.length;
   if (result.rows !== matrix.rowLabels.length || result.cols !== cols) {
@@ -56,7 +61,9 @@ export function buildExport(matrix: RatingMatrix, result: FitResult, spread: Arr
   if (opts.kind === 'long') {
     const predictions = new Float64Array(result.predictions.length);
     for (let c = 0; c < predictions.length; c++) predictions[c] = estimate(Math.floor(c / cols), c % cols);
-    return writeFilledLongCsv(matrix, { predictions, baseline: result.baseline, spread }, { delimiter: opts.delimiter });
+    // Baseline and spread are model output too: the decimals asked for apply to them.
+    const rounded = (a: ArrayLike<number> | undefined) => (a === undefined || opts.decimals === null ? a : Float64Array.from(a, (x) => roundTo(x, opts.decimals!)));
+    return writeFilledLongCsv(matrix, { predictions, baseline: rounded(result.baseline), spread: rounded(spread) }, { delimiter: opts.delimiter });
   }
   const onlyEstimates = opts.kind === 'estimates-wide';
   return writeWideCsv(matrix, {
@@ -68,6 +75,28 @@ export function buildExport(matrix: RatingMatrix, result: FitResult, spread: Arr
       return estimate(i, j);
     },
   });
+}
+
+/** Corner text of the companion mask file. */
+export const MASK_CORNER_LABEL = 'row \\ column (observed = rating as entered, filled = model estimate)';
+
+/**
+ * Companion mask of a wide export: the same rows and columns, each cell `observed` or
+ * `filled`, so a reader of the wide file knows per cell which values are estimates.
+ */
+export function buildMask(matrix: RatingMatrix, delimiter: Delimiter, lineEnding: '\r\n' | '\n' = '\r\n'): string {
+  const d = delimiter;
+  const cols = matrix.colLabels.length;
+  const out = [[MASK_CORNER_LABEL, ...matrix.colLabels].map((s) => quoteField(s, d)).join(d)];
+  for (let i = 0; i < matrix.rowLabels.length; i++) {
+    const parts = [quoteField(matrix.rowLabels[i], d)];
+    for (let j = 0; j < cols; j++) {
+      const y = matrix.values[i * cols + j];
+      parts.push(y === y ? 'observed' : 'filled');
+    }
+    out.push(parts.join(d));
+  }
+  return out.join(lineEnding) + lineEnding;
 }
 
 /** Canonical text of a matrix for hashing: labels, scale and values, independent of file format. */

@@ -12,7 +12,12 @@ export const MAX_CELLS = 20_000_000;
 export interface Built {
   matrix: RatingMatrix;
   duplicatePairs: number;
+  /** Title of the row-label column as the file gives it (wide: the corner field; long: the first header field). */
+  rowHeader?: string;
 }
+
+/** Why a read value may not be stored (off the chosen scale), or undefined. */
+export type ValueRefusal = (value: number, text: string) => string | undefined;
 
 export const EMPTY_SCALE: RatingScale = { min: 0, max: 0, step: 0 };
 

@@ -5,3 +5,4 @@ export * from './detectDelimiter';
 export * from './tokenizeDelimited';
 export * from './parseDelimited';
 export * from './writeDelimited';
+export * from './looksLong';

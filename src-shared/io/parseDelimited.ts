@@ -35,11 +35,13 @@ import { show } from './importCommon';
 import { DEFAULT_MISSING_TOKENS, missingMatcher } from './parseCellValue';
 import { ProblemCollector, type Problem } from './problem';
 import { isBlankRecord, tokenizeDelimited, type RawRecord } from './tokenizeDelimited';
+import { scaleRefusal } from '../matrix/scaleCheck';
 
 export { MAX_CELLS } from './importCommon';
 
 export type Layout = 'wide' | 'long';
 export type DuplicatePolicy = 'last' | 'average' | 'refuse';
+export type ColumnOrder = 'as-read' | 'sorted';
 
 export interface ParseOptions {
   fileName: string;
@@ -49,6 +51,14 @@ export interface ParseOptions {
   /** Tokens read as missing (case-insensitive); the empty field is always missing. */
   missingTokens?: string[];
   duplicates?: DuplicatePolicy;
+  /**
+   * The rating scale chosen by the user. When given, a value outside it or between its steps
+   * is a problem (line, column, nearest allowed values) and the matrix gets this scale;
+   * otherwise the scale is guessed from the values (see detectScale).
+   */
+  scale?: RatingScale;
+  /** Long layout: columns in order of first appearance ('as-read', default) or sorted by label (natural order). */
+  columnOrder?: ColumnOrder;
   /** Size limit in bytes of UTF-8; default DEFAULT_MAX_BYTES. */
   maxBytes?: number;
 }
@@ -68,6 +78,10 @@ export interface ParseInfo {
   duplicatePairs: number;
   /** Number of physical lines read. */
   lines: number;
+  /** Title of the row-label column in the file (wide: the corner field; long: the header's first field), if any. */
+  rowHeader?: string;
+  /** The scale the matrix got, and where it came from. */
+  scaleSource: 'given' | 'guessed';
 }
 
 export type ParseResult =
@@ -231,20 +245,24 @@ function parseInner(
   if (opts.layout === 'wide' || opts.layout === 'long') layout = opts.layout;
   else layout = guessLayout(records);
 
+  const given = opts.scale;
+  const refuse = given ? (x: number, text: string) => scaleRefusal(x, given, text) : undefined;
   const built =
     layout === 'wide'
-      ? buildWide(records, decimalComma, isMissing, problems, warnings, delimiter)
-      : buildLong(records, decimalComma, isMissing, opts.duplicates ?? 'refuse', problems, warnings, delimiter);
+      ? buildWide(records, decimalComma, isMissing, problems, warnings, delimiter, refuse)
+      : buildLong(records, decimalComma, isMissing, opts.duplicates ?? 'refuse', problems, warnings, delimiter, refuse);
   if (!built || problems.count > 0) return fail(problems);
 
   const { matrix, duplicatePairs } = built;
+  if (layout === 'long' && opts.columnOrder === 'sorted') sortColumns(matrix);
   const scale = detectScale(matrix.values);
   if (!scale) {
     problems.add(1, 1, 'no observed values: every cell is missing');
     return fail(problems);
   }
   // The matrix's scale must have max > min; when every observed value is equal, widen by one step (or 1).
-  matrix.scale = scale.max > scale.min ? { ...scale } : { ...scale, max: scale.min + (scale.step > 0 ? scale.step : 1) };
+  if (given) matrix.scale = { ...given };
+  else matrix.scale = scale.max > scale.min ? { ...scale } : { ...scale, max: scale.min + (scale.step > 0 ? scale.step : 1) };
   let observed = 0;
   for (let i = 0; i < matrix.values.length; i++) if (matrix.values[i] === matrix.values[i]) observed++;
   return {
@@ -262,9 +280,23 @@ function parseInner(
       detectedScale: scale,
       duplicatePairs,
       lines: lastLine,
+      ...(built.rowHeader !== undefined && built.rowHeader.trim() !== '' ? { rowHeader: built.rowHeader } : {}),
+      scaleSource: given ? 'given' : 'guessed',
     },
   };
 }
+const labelOrder = new Intl.Collator('en', { numeric: true, sensitivity: 'base' });
+
+/** Columns sorted by label in natural order ("item 2" before "item 10"), values moved with them. */
+function sortColumns(m: RatingMatrix): void {
+  const cols = m.colLabels.length;
+  const order = m.colLabels.map((_, j) => j).sort((a, b) => labelOrder.compare(m.colLabels[a], m.colLabels[b]) || a - b);
+  const values = new Float64Array(m.values.length);
+  for (let i = 0; i < m.rowLabels.length; i++) for (let k = 0; k < cols; k++) values[i * cols + k] = m.values[i * cols + order[k]];
+  m.colLabels = order.map((j) => m.colLabels[j]);
+  m.values = values;
+}
+
 const COMMA_DECIMAL = /^[+-]?\d*,\d+$/;
 
 function guessDecimalComma(records: RawRecord[]): boolean {

@@ -80,15 +80,17 @@ describe('rankfill fill', () => {
     const r = await run('fill', input, '--out', out, '--long', '--rank', '0', '--centering', 'column', '--decimals', '1');
     expect(r.code).toBe(0);
     const lines = readFileSync(out, 'utf8').trim().split(/\r?\n/);
-    expect(lines[0]).toBe('row,column,value');
+    // --long input writes the window's long layout: value, source, baseline, spread.
+    expect(lines[0]).toBe('row,column,value,source,baseline,spread');
     expect(lines).toHaveLength(10); // 3 × 3 cells
     // a,z is missing → column z mean (5 + 3)/2 = 4; b,y → (2 + 4)/2 = 3; c,x → 1.5
-    expect(lines).toContain('a,z,4');
-    expect(lines).toContain('b,y,3');
-    expect(lines).toContain('c,x,1.5');
+    expect(lines).toContain('a,z,4,filled,4,');
+    expect(lines).toContain('b,y,3,filled,3,');
+    expect(lines).toContain('c,x,1.5,filled,1.5,');
+    expect(lines).toContain('a,x,1,observed,1.5,');
     const snapped = join(dir, 'snapped.csv');
     expect((await run('fill', input, '--out', snapped, '--long', '--rank', '0', '--centering', 'column', '--scale', '1:5:1')).code).toBe(0);
-    expect(readFileSync(snapped, 'utf8')).toContain('c,x,2'); // 1.5 → nearest step (round half up)
+    expect(readFileSync(snapped, 'utf8')).toContain('c,x,2,filled'); // 1.5 → nearest step (round half up)
   });
 });
 

@@ -35,7 +35,7 @@ const EXPECTED: [string, string][] = [
   ["implausible-1e16.tsv", "implausible-1e16.tsv:3:2: \"1e16\" is implausible as a rating (allowed magnitude up to 1e15)"],
   ["invalid-json.rankfill", "invalid-json.rankfill:9:5: the project file is not valid JSON (Expected ',' or '}' after property value); it may be damaged"],
   ["invalid-utf8.csv", "invalid-utf8.csv:3:1: contains bytes that are not valid UTF-8 text (save the file as UTF-8)"],
-  ["long-duplicate-pairs.csv", "long-duplicate-pairs.csv:5:1: duplicate pair (row \"ann\", column \"alpha\"): first given on line 2; choose keep last or average to merge"],
+  ["long-duplicate-pairs.csv", "long-duplicate-pairs.csv:5:1: duplicate pair (row \"ann\", column \"alpha\"): first given on line 2; choose keep last or average to merge (on the command line: --duplicates last or --duplicates average)"],
   ["long-missing-field.csv", "long-missing-field.csv:3:3: too few fields: found 2, long layout needs 3 (row, column, value)"],
   ["mixed-delimiters.csv", "mixed-delimiters.csv:3:2: too few fields: found 1, the header has 3 (this line seems to use semicolon as the delimiter instead of comma)"],
   ["nan-text.csv", "nan-text.csv:2:2: \"NaN\" is not a finite number; ratings must be finite"],

@@ -1,0 +1,119 @@
+/**
+ * What an analyst expects (issue 12), end to end in the browser host: entries are stored
+ * as typed or refused with the nearest allowed values; paste follows the same rule.
+ * Expected values come from samples/coffee-cupping-panel.csv (scale 1–9, step 1) read here.
+ */
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import type { Browser, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { launchBrowser } from './support/browser';
+import { repoRoot, startHost, type RunningHost } from './support/hostProcess';
+
+const csv = readFileSync(join(repoRoot, 'samples', 'coffee-cupping-panel.csv'), 'utf8').trimEnd().split('\n');
+const rows = csv.slice(1).map((l) => l.split(','));
+const cellOf = (i: number, j: number) => rows[i][j + 1];
+
+const cell = (page: Page, i: number, j: number) => page.locator(`.ag-row[row-index="${i}"] .ag-cell[col-id="c${j}"]`);
+const text = async (page: Page, i: number, j: number) => ((await cell(page, i, j).textContent()) ?? '').trim();
+type AppHandle = { store: { current: { values: Float64Array; colLabels: string[]; scale: { min: number; max: number; step: number } } } };
+const stored = (page: Page, i: number, j: number) =>
+  page.evaluate(([r, c]) => {
+    const m = (window as unknown as { rankfillApp: AppHandle }).rankfillApp.store.current;
+    const v = m.values[r * m.colLabels.length + c];
+    return Number.isNaN(v) ? null : v;
+  }, [i, j] as const);
+
+async function typeInto(page: Page, i: number, j: number, typed: string) {
+  await cell(page, i, j).click();
+  await page.keyboard.type(typed);
+  await page.keyboard.press('Enter');
+}
+
+async function paste(page: Page, tsv: string) {
+  await page.evaluate((t) => {
+    const dt = new DataTransfer();
+    dt.setData('text/plain', t);
+    (document.activeElement ?? document.body).dispatchEvent(new ClipboardEvent('paste', { clipboardData: dt, bubbles: true, cancelable: true }));
+  }, tsv);
+}
+
+describe('issue 12 in the browser host', () => {
+  let host: RunningHost;
+  let browser: Browser;
+  let page: Page;
+  const dir = mkdtempSync(join(tmpdir(), 'rankfill-analyst-'));
+  const pageErrors: string[] = [];
+
+  beforeAll(async () => {
+    host = await startHost([], { RANKFILL_CONFIG_DIR: join(dir, 'config'), RANKFILL_EXPORT_DIR: join(dir, 'exports') });
+    browser = await launchBrowser();
+    page = await browser.newPage({ viewport: { width: 1800, height: 1100 } });
+    page.on('pageerror', (e) => pageErrors.push(e.message));
+    await page.goto(host.launchUrl);
+    await page.waitForSelector('body[data-ready="true"]', { timeout: 30_000 });
+    await page.evaluate(() => {
+      const box = [...document.querySelectorAll<HTMLInputElement>('input[type=checkbox]')].find((b) => /Refit after each edit/.test(b.parentElement?.textContent ?? ''));
+      if (box?.checked) box.click();
+    });
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await host?.stop();
+    rmSync(dir, { recursive: true, force: true });
+  });
+
+  describe('entries', () => {
+    it('an entry between two steps is refused, naming the nearest allowed values; the cell keeps its value', async () => {
+      const before = cellOf(1, 0);
+      await typeInto(page, 1, 0, '4.4');
+      await expect.poll(() => page.textContent('[data-testid=notice]')).toContain('4.4 lies between the allowed values 4 and 5 (scale 1–9 in steps of 1)');
+      expect(await text(page, 1, 0)).toBe(before);
+      expect(await stored(page, 1, 0)).toBe(before === '' ? null : Number(before));
+      // A decimal comma is read the same way.
+      await typeInto(page, 1, 0, '3,5');
+      await expect.poll(() => page.textContent('[data-testid=notice]')).toContain('3,5 lies between the allowed values 3 and 4');
+      expect(await stored(page, 1, 0)).toBe(before === '' ? null : Number(before));
+    });
+
+    it('an entry on a step is stored exactly as typed', async () => {
+      await typeInto(page, 2, 1, '6');
+      await expect.poll(() => stored(page, 2, 1)).toBe(6);
+      expect(await text(page, 2, 1)).toBe('6');
+    });
+
+    it('on a scale with half points, 3,5 is stored as 3.5 and shown so; on a continuous scale 4.437 is kept whole', async () => {
+      const setScale = async (min: string, max: string, step: string) => {
+        await page.click('[data-testid=scale-button]');
+        await page.waitForSelector('[data-testid=scale-dialog]');
+        await page.fill('[data-testid=scale-min]', min);
+        await page.fill('[data-testid=scale-max]', max);
+        await page.fill('[data-testid=scale-step]', step);
+        await page.click('[data-testid=scale-dialog] [data-testid=dialog-confirm]');
+        await expect.poll(() => page.evaluate(() => (window as unknown as { rankfillApp: AppHandle }).rankfillApp.store.current.scale.step)).toBe(Number(step));
+      };
+      await setScale('1', '9', '0.5');
+      await typeInto(page, 3, 2, '3,5');
+      await expect.poll(() => stored(page, 3, 2)).toBe(3.5);
+      expect(await text(page, 3, 2)).toBe('3.5');
+      await typeInto(page, 3, 2, '3.25');
+      await expect.poll(() => page.textContent('[data-testid=notice]')).toContain('3.25 lies between the allowed values 3 and 3.5');
+      expect(await stored(page, 3, 2)).toBe(3.5);
+      await setScale('1', '9', '0');
+      await typeInto(page, 3, 3, '4.437');
+      await expect.poll(() => stored(page, 3, 3)).toBe(4.437);
+      expect(await text(page, 3, 3)).toBe('4.437');
+      await setScale('1', '9', '0.5');
+    });
+
+    it('a paste with an off-step entry is refused whole, naming the cell and the nearest values', async () => {
+      const before = [await stored(page, 5, 0), await stored(page, 5, 1)];
+      await cell(page, 5, 0).click();
+      await paste(page, '2\t4.2\n');
+      await expect.poll(() => page.textContent('[data-testid=notice]')).toContain('4.2 lies between the allowed values 4 and 4.5');
+      expect([await stored(page, 5, 0), await stored(page, 5, 1)]).toEqual(before);
+    });
+  });
+});
