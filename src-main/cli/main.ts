@@ -39,7 +39,7 @@ function execute(argv: string[]): CommandOutput {
   const o = parsed.options;
   if (o.command === 'report') {
     try {
-      return runReport(o, version());
+      return runReport(o, appVersion());
     } catch (err) {
       if (err instanceof UsageError) return { code: 2, stdout: [], stderr: [`rankfill: ${err.message}`, USAGE] };
       return fitFailure(err);
