@@ -24,6 +24,8 @@ import { installRunPersistence } from './runs/runPersistence';
 import { FitController } from './runs/fitController';
 import { RunStore } from './runs/runStore';
 import { DocumentStore } from './state/documentStore';
+import { SettingsStore } from './state/settingsStore';
+import { ViewStore } from './state/viewStore';
 
 const byTestId = <T extends HTMLElement>(id: string): T => {
   const el = document.querySelector<T>(`[data-testid="${id}"]`);
@@ -48,7 +50,9 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
     onRefused: (message) => notice.show(message, 'error'),
     onCellFocused: (row, col) => cellPanel?.focus(row, col),
   });
-  const runs = new RunStore();
+  const view = new ViewStore(window.localStorage);
+  const settings = new SettingsStore();
+  const runs = new RunStore(view);
   const controller = new FitController(bridge, store, runs);
 
   const info = await bridge.call('app.info', {});
@@ -71,8 +75,11 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   const cellRoot = side.add('cell', 'Cell');
   const centeringRoot = side.add('centering', 'Centering');
   const tuningRoot = side.add('tuning', 'Tuning');
-  const model = new ModelPanel(modelRoot, { controller, setOverlayVisible: (v) => grid.setLayers({ overlayVisible: v }) });
-  const ctx: PanelContext = { bridge, store, runs, controller, grid, notice, model, side };
+  const model = new ModelPanel(modelRoot, { controller, settings, view });
+  view.subscribe((changed) => {
+    if (changed.has('overlayVisible')) grid.setLayers({ overlayVisible: view.state.overlayVisible });
+  });
+  const ctx: PanelContext = { bridge, store, runs, controller, grid, notice, settings, view, side };
   mountRunsPanel(runsRoot, ctx);
   cellPanel = mountCellPanel(cellRoot, ctx);
   mountCenteringPanel(centeringRoot, ctx);
@@ -81,7 +88,12 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   installRunPersistence(ctx);
   runs.subscribe((e) => {
     const r = runs.shown;
-    if (!r || !(e.type === 'shown' || (e.type === 'updated' && e.id === r.id))) return;
+    if (!r) {
+      // No run shown (another data set was opened): the Model tab shows none of the old one.
+      if (e.type === 'shown' || e.type === 'runs') afterPaint('model-trace', () => (runs.shown ? undefined : model.showNoRun()));
+      return;
+    }
+    if (!(e.type === 'shown' || (e.type === 'updated' && e.id === r.id))) return;
     afterPaint('model-trace', () => showTrace(r));
   });
   const showTrace = (r: NonNullable<typeof runs.shown>) => {
@@ -97,17 +109,11 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   const exportDialog = createExportDialog(ctx, info.version);
   byTestId('export-button').addEventListener('click', () => void exportDialog.open());
   bridge.on('menu.command', ({ command }) => {
-    if (command === 'model.fill') void controller.fill(model.settings());
+    if (command === 'model.fill') void controller.fill(settings.value);
     else if (command === 'file.export') void exportDialog.open();
     else if (command === 'model.compareCentering') side?.select('centering');
     else if (command === 'model.tune') side?.select('tuning');
-    else if (command === 'view.toggleOverlay') {
-      const toggle = document.querySelector<HTMLInputElement>('[data-testid="overlay-toggle"]');
-      if (toggle) {
-        toggle.checked = !toggle.checked;
-        grid.setLayers({ overlayVisible: toggle.checked });
-      }
-    }
+    else if (command === 'view.toggleOverlay') view.set({ overlayVisible: !view.state.overlayVisible });
   });
 
   const openDocument = (doc: DocumentPayload) => {

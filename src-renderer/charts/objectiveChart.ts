@@ -48,6 +48,8 @@ export class ObjectiveChart {
       this.plot = this.build();
     }
     this.plot.setData([iterations, objective.map((v) => (Number.isFinite(v) && (!wantLog || v > 0) ? v : null))] as uPlot.AlignedData);
+    // How many points are drawn (for tests and assistive checks; the canvas itself says nothing).
+    this.host.dataset.points = String(iterations.length);
   }
 
   destroy(): void {

@@ -45,12 +45,13 @@ export class EditCommands {
     return r ? { row: r.r0, col: r.c0, r1: r.r1, c1: r.c1 } : { row: 0, col: 0, r1: 0, c1: 0 };
   }
 
-  private commit(label: string, r: OpResult, after?: () => void): boolean {
+  /** `keepsCells`: the change leaves every cell at its row and column (a rename). */
+  private commit(label: string, r: OpResult, after?: () => void, keepsCells = false): boolean {
     if (!r.ok) {
       this.d.notice.show(`${label}: ${r.message}.`, 'error');
       return false;
     }
-    this.d.store.swapMatrix(label, r.matrix);
+    this.d.store.swapMatrix(label, r.matrix, { keepsCells });
     after?.();
     return true;
   }
@@ -104,7 +105,7 @@ export class EditCommands {
       confirmLabel: 'Rename',
       check: (v) => labelProblem(v, this.m.rowLabels.filter((_, i) => i !== row), 'row'),
     });
-    if (name !== null && name.trim() !== old) this.commit(`Rename row “${old}”`, renameRow(this.m, row, name));
+    if (name !== null && name.trim() !== old) this.commit(`Rename row “${old}”`, renameRow(this.m, row, name), undefined, true);
   }
 
   async renameColumn(): Promise<void> {
@@ -118,7 +119,7 @@ export class EditCommands {
       confirmLabel: 'Rename',
       check: (v) => labelProblem(v, this.m.colLabels.filter((_, j) => j !== col), 'column'),
     });
-    if (name !== null && name.trim() !== old) this.commit(`Rename column “${old}”`, renameColumn(this.m, col, name));
+    if (name !== null && name.trim() !== old) this.commit(`Rename column “${old}”`, renameColumn(this.m, col, name), undefined, true);
   }
 
   moveRow(delta: number): void {
@@ -150,7 +151,7 @@ export class EditCommands {
     const next = await scaleDialog(this.m);
     if (!next) return;
     const { matrix, cleared } = applyScale(this.m, next);
-    this.d.store.swapMatrix(`Change scale to ${describeScale(next)}${cleared ? ` (${cleared} cleared)` : ''}`, matrix);
+    this.d.store.swapMatrix(`Change scale to ${describeScale(next)}${cleared ? ` (${cleared} cleared)` : ''}`, matrix, { keepsCells: true });
     this.d.notice.show(`Scale is now ${describeScale(next)}${cleared ? `; ${cleared} value${cleared === 1 ? '' : 's'} outside it cleared (Undo brings them back)` : ''}.`, 'info');
   }
 }

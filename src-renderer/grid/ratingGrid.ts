@@ -49,6 +49,7 @@ export const COUNT_COL_ID = 'rowCount';
 export const colIdFor = (j: number) => `c${j}`;
 export const colIndexOf = (colId: string | undefined): number => (colId && /^c\d+$/.test(colId) ? Number(colId.slice(1)) : -1);
 const BASELINE_ROW = -1;
+const NO_TINT = { backgroundColor: '' };
 
 function weakKey(m: Map<number, string> | undefined): string {
   return m ? [...m.keys()].join(',') : '';
@@ -154,12 +155,14 @@ export class RatingGrid {
         if (this.diffAt(p.data.i, j) !== undefined) return `${base} rf-diff`;
         return this.estimateAt(p.data.i, j) !== undefined ? `${base} rf-filled` : base;
       },
+      // The grid only ever adds inline styles (a null style leaves the previous one in place),
+      // so every cell states its background: '' removes a tint left by an earlier run or data set.
       cellStyle: (p) => {
-        if (!p.data || p.data.i === BASELINE_ROW || (p.value !== null && p.value !== undefined)) return null;
+        if (!p.data || p.data.i === BASELINE_ROW || (p.value !== null && p.value !== undefined)) return NO_TINT;
         const diff = this.diffAt(p.data.i, j);
         if (diff !== undefined && this.layers.diff) return { backgroundColor: diffColour(diff, this.layers.diff.maxAbs) };
-        const tint = this.overlayOn() ? estimateTint(this.layers.overlay!, p.data.i * this.doc.colLabels.length + j) : undefined;
-        return tint === undefined ? null : { backgroundColor: tint };
+        const tint = this.estimateAt(p.data.i, j) !== undefined ? estimateTint(this.layers.overlay!, p.data.i * this.doc.colLabels.length + j) : undefined;
+        return tint === undefined ? NO_TINT : { backgroundColor: tint };
       },
     }));
     const showRowBaseline = !!this.layers.baselines?.row;

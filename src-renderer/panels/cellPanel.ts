@@ -5,6 +5,7 @@
  */
 import { explainCell } from '../../src-shared/engine/contributions';
 import { formatObserved } from '../grid/cellText';
+import { runFitsDocument } from '../runs/runMatch';
 import { afterPaint } from './afterPaint';
 import { el, fmt } from './dom';
 import type { PanelContext } from './panelContext';
@@ -36,7 +37,7 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
     let colObs = 0;
     for (let j = 0; j < cols; j++) if (!Number.isNaN(m.values[row * cols + j])) rowObs++;
     for (let i = 0; i < m.rowLabels.length; i++) if (!Number.isNaN(m.values[i * cols + col])) colObs++;
-    const matches = run && run.rows === m.rowLabels.length && run.cols === cols;
+    const matches = runFitsDocument(run, ctx.store);
     if (!Number.isNaN(y)) {
       rows.push(['Observed rating', formatObserved(y, m.scale)]);
       if (matches) rows.push(['Model’s fit of it', fmt(run.result.predictions[idx], 2)]);

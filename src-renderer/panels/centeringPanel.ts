@@ -19,9 +19,9 @@ export function mountCenteringPanel(root: HTMLElement, ctx: PanelContext): void 
   const chartHost = el('div', { className: 'rf-chart', testid: 'centering-chart' });
 
   const useCentering = (c: Centering) => {
-    const form = ctx.model.settings();
+    const form = ctx.settings.value;
     const base = form.model === 'lowrank' ? form : planCenteringComparison(form).settingsList[0];
-    ctx.model.apply({ ...base, centering: c });
+    ctx.settings.set({ ...base, centering: c });
     ctx.notice.show(`Model settings: centering set to “${CENTERING_SHORT[c]}”. Fill again to see the estimates.`, 'info', 4000);
   };
 
@@ -32,7 +32,7 @@ export function mountCenteringPanel(root: HTMLElement, ctx: PanelContext): void 
     runLabel: 'Compare centering',
     idleText: 'Not run yet. Uses the rank and λ now set in the Model tab.',
     plan: () => {
-      const plan = planCenteringComparison(ctx.model.settings());
+      const plan = planCenteringComparison(ctx.settings.value);
       familyNote.hidden = plan.note === null;
       familyNote.textContent = plan.note ?? '';
       return { ...plan, folds: COMPARE_FOLDS };

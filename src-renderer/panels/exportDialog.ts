@@ -14,6 +14,7 @@ import {
 } from '../../src-shared/io/exportFilled';
 import { observedCount } from '../../src-shared/matrix/ratingMatrix';
 import { confirmDialog } from '../dialogs/modal';
+import { runFitsDocument } from '../runs/runMatch';
 import { el, field, numberInput } from './dom';
 import type { PanelContext } from './panelContext';
 
@@ -133,7 +134,7 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
   return {
     async open() {
       const run = ctx.runs.shown;
-      if (!run || run.rows !== ctx.store.current.rowLabels.length || run.cols !== ctx.store.current.colLabels.length) {
+      if (!runFitsDocument(run, ctx.store)) {
         ctx.notice.show('Nothing to export yet: fill the blank cells first (Model tab).', 'error');
         return;
       }

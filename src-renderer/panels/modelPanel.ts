@@ -1,21 +1,21 @@
 /**
- * The model panel: settings in plain words, the Fill and Stop actions, a
- * progress bar with the objective drawn live, and the overlay controls with
- * their legend.
+ * The model panel: the settings store rendered in plain words (the inputs
+ * write to the store, and show whatever the store holds), the Fill and Stop
+ * actions, a progress bar with the objective drawn live, and the overlay
+ * controls with their legend.
  */
-import { defaultLowRankSettings } from '../../src-shared/engine/defaults';
-import { defaultGaussianSettings } from '../../src-shared/engine/gaussian';
-import type { Centering, FitSettings, GaussianSettings, LowRankSettings } from '../../src-shared/engine/types';
+import type { Centering, ModelFamily } from '../../src-shared/engine/types';
 import { ObjectiveChart } from '../charts/objectiveChart';
 import type { FillState, FitController } from '../runs/fitController';
+import { MAX_ITERATIONS, MAX_RANK, MAX_SHRINKAGE, type SettingsPatch, type SettingsStore } from '../state/settingsStore';
+import type { ViewStore } from '../state/viewStore';
 import { el, field, numberInput } from './dom';
 
 export interface ModelPanelHooks {
   controller: FitController;
-  setOverlayVisible(visible: boolean): void;
+  settings: SettingsStore;
+  view: ViewStore;
 }
-
-const GAUSSIAN_DEFAULTS = defaultGaussianSettings();
 
 export class ModelPanel {
   private readonly family: HTMLSelectElement;
@@ -34,13 +34,15 @@ export class ModelPanel {
   private readonly bar: HTMLProgressElement;
   private readonly progressText: HTMLElement;
   private readonly message: HTMLElement;
+  private readonly familyNote: HTMLElement;
   private readonly chart: ObjectiveChart;
 
   constructor(root: HTMLElement, private readonly hooks: ModelPanelHooks) {
-    const d = defaultLowRankSettings();
+    const d = hooks.settings.state.lowRank;
+    const g = hooks.settings.state.gaussian;
     this.family = el('select', { testid: 'model-family' }) as HTMLSelectElement;
     this.family.append(new Option('Low-rank with centering', 'lowrank'), new Option('Gaussian, for tall panels', 'gaussian'));
-    this.rank = numberInput('model-rank', d.rank, { min: 0, max: 50, step: 1 });
+    this.rank = numberInput('model-rank', d.rank, { min: 0, max: MAX_RANK, step: 1 });
     this.lambda = numberInput('model-lambda', d.lambda, { min: 0, step: 0.1 });
     this.centering = el('select', { testid: 'model-centering' }) as HTMLSelectElement;
     this.centering.append(
@@ -50,12 +52,12 @@ export class ModelPanel {
       new Option('both (row and column)', 'both'),
     );
     this.centering.value = d.centering;
-    this.iterations = numberInput('model-iterations', d.maxIterations, { min: 1, max: 10000, step: 1 });
+    this.iterations = numberInput('model-iterations', d.maxIterations, { min: 1, max: MAX_ITERATIONS, step: 1 });
     this.seed = numberInput('model-seed', d.seed, { step: 1 });
     this.clip = el('input', { testid: 'model-clip' }) as HTMLInputElement;
     this.clip.type = 'checkbox';
     this.clip.checked = d.clipToScale;
-    this.shrinkage = numberInput('model-shrinkage', GAUSSIAN_DEFAULTS.shrinkage, { min: 0, max: 0.95, step: 0.05 });
+    this.shrinkage = numberInput('model-shrinkage', g.shrinkage, { min: 0, max: MAX_SHRINKAGE, step: 0.05 });
     this.transpose = el('input', { testid: 'model-transpose' }) as HTMLInputElement;
     this.transpose.type = 'checkbox';
 
@@ -71,21 +73,12 @@ export class ModelPanel {
         'Centering does not apply: this model estimates each variable’s mean itself.',
       ]),
     ]);
-    const familyNote = el('p', { className: 'rf-hint', testid: 'family-note' });
-    const updateFamily = () => {
-      const g = this.family.value === 'gaussian';
-      this.lowRankBox.hidden = g;
-      this.gaussianBox.hidden = !g;
-      familyNote.textContent = g
-        ? 'Suits tall, narrow sets (many respondents, a few dozen items): fills each blank from the row’s other answers and the items’ correlations.'
-        : 'Suits most rating sets: a baseline plus a few hidden traits shared by rows and columns.';
-    };
-    this.family.addEventListener('change', updateFamily);
-    updateFamily();
+    this.familyNote = el('p', { className: 'rf-hint', testid: 'family-note' });
+    this.wireInputs();
 
     this.fillButton = el('button', { className: 'rf-button rf-primary', testid: 'fill-button' }, ['Fill blank cells']) as HTMLButtonElement;
     this.stopButton = el('button', { className: 'rf-button', testid: 'cancel-button', disabled: true }, ['Stop']) as HTMLButtonElement;
-    this.fillButton.addEventListener('click', () => void this.hooks.controller.fill(this.settings()));
+    this.fillButton.addEventListener('click', () => void this.hooks.controller.fill(this.hooks.settings.value));
     this.stopButton.addEventListener('click', () => void this.hooks.controller.cancelFill());
     this.bar = el('progress', { testid: 'fill-progress' }) as HTMLProgressElement;
     this.bar.max = 1;
@@ -96,8 +89,11 @@ export class ModelPanel {
 
     const overlayToggle = el('input', { testid: 'overlay-toggle' }) as HTMLInputElement;
     overlayToggle.type = 'checkbox';
-    overlayToggle.checked = true;
-    overlayToggle.addEventListener('change', () => this.hooks.setOverlayVisible(overlayToggle.checked));
+    overlayToggle.checked = hooks.view.state.overlayVisible;
+    overlayToggle.addEventListener('change', () => hooks.view.set({ overlayVisible: overlayToggle.checked }));
+    hooks.view.subscribe((changed) => {
+      if (changed.has('overlayVisible')) overlayToggle.checked = hooks.view.state.overlayVisible;
+    });
     const liveToggle = el('input', { testid: 'live-toggle' }) as HTMLInputElement;
     liveToggle.type = 'checkbox';
     liveToggle.checked = hooks.controller.liveRefit;
@@ -106,7 +102,7 @@ export class ModelPanel {
     root.append(
       el('h2', {}, ['Model']),
       field('Family', this.family),
-      familyNote,
+      this.familyNote,
       this.lowRankBox,
       this.gaussianBox,
       el('details', { className: 'rf-more' }, [
@@ -136,56 +132,58 @@ export class ModelPanel {
     );
     this.chart = new ObjectiveChart(chartHost);
     hooks.controller.onFillState((s) => this.render(s));
+    hooks.settings.subscribe(() => this.renderSettings());
+    this.renderSettings();
   }
 
-  /** The settings as the form shows them. */
-  settings(): FitSettings {
-    const iterations = Math.max(1, Math.round(Number(this.iterations.value) || 100));
-    const seed = Math.round(Number(this.seed.value) || 0);
-    if (this.family.value === 'gaussian') {
-      const g: GaussianSettings = {
-        ...GAUSSIAN_DEFAULTS,
-        shrinkage: Math.min(0.95, Math.max(0, Number(this.shrinkage.value) || 0)),
-        transpose: this.transpose.checked,
-        maxIterations: iterations,
-        seed,
-        clipToScale: this.clip.checked,
+  /** Inputs write to the settings store: typing updates it, leaving a field shows the value it kept. */
+  private wireInputs(): void {
+    const st = this.hooks.settings;
+    const num = (input: HTMLInputElement, key: keyof SettingsPatch) => {
+      const write = () => {
+        if (input.value.trim() === '' || !Number.isFinite(Number(input.value))) return;
+        st.update({ [key]: Number(input.value) } as SettingsPatch);
       };
-      return g;
-    }
-    const s: LowRankSettings = {
-      ...defaultLowRankSettings(),
-      rank: Math.max(0, Math.round(Number(this.rank.value) || 0)),
-      lambda: Math.max(0, Number(this.lambda.value) || 0),
-      centering: this.centering.value as Centering,
-      maxIterations: iterations,
-      seed,
-      clipToScale: this.clip.checked,
+      input.addEventListener('input', write);
+      input.addEventListener('change', () => {
+        write();
+        this.renderSettings(true);
+      });
     };
-    return s;
+    num(this.rank, 'rank');
+    num(this.lambda, 'lambda');
+    num(this.iterations, 'maxIterations');
+    num(this.seed, 'seed');
+    num(this.shrinkage, 'shrinkage');
+    this.family.addEventListener('change', () => st.setFamily(this.family.value as ModelFamily));
+    this.centering.addEventListener('change', () => st.update({ centering: this.centering.value as Centering }));
+    this.clip.addEventListener('change', () => st.update({ clipToScale: this.clip.checked }));
+    this.transpose.addEventListener('change', () => st.update({ transpose: this.transpose.checked }));
   }
 
-  /** Put settings into the form (e.g. "apply" from the tuning panel or a run). */
-  apply(s: FitSettings): void {
-    this.family.value = s.model;
-    this.family.dispatchEvent(new Event('change'));
-    this.iterations.value = String(s.maxIterations);
-    this.seed.value = String(s.seed);
-    this.clip.checked = s.clipToScale;
-    if (s.model === 'gaussian') {
-      this.shrinkage.value = String(s.shrinkage);
-      this.transpose.checked = s.transpose;
-    } else {
-      this.rank.value = String(s.rank);
-      this.lambda.value = String(s.lambda);
-      this.centering.value = s.centering;
-    }
-  }
-
-  setCentering(c: Centering): void {
-    this.family.value = 'lowrank';
-    this.family.dispatchEvent(new Event('change'));
-    this.centering.value = c;
+  /** Show what the store holds; a field being typed in keeps its text unless `all`. */
+  private renderSettings(all = false): void {
+    const { family, lowRank, gaussian } = this.hooks.settings.state;
+    const put = (input: HTMLInputElement, v: number) => {
+      if (!all && input === document.activeElement && Number(input.value) === v) return;
+      if (input.value !== String(v)) input.value = String(v);
+    };
+    this.family.value = family;
+    put(this.rank, lowRank.rank);
+    put(this.lambda, lowRank.lambda);
+    this.centering.value = lowRank.centering;
+    put(this.shrinkage, gaussian.shrinkage);
+    this.transpose.checked = gaussian.transpose;
+    const shared = family === 'gaussian' ? gaussian : lowRank;
+    put(this.iterations, shared.maxIterations);
+    put(this.seed, shared.seed);
+    this.clip.checked = shared.clipToScale;
+    const g = family === 'gaussian';
+    this.lowRankBox.hidden = g;
+    this.gaussianBox.hidden = !g;
+    this.familyNote.textContent = g
+      ? 'Suits tall, narrow sets (many respondents, a few dozen items): fills each blank from the row’s other answers and the items’ correlations.'
+      : 'Suits most rating sets: a baseline plus a few hidden traits shared by rows and columns.';
   }
 
   private render(s: FillState): void {
@@ -214,6 +212,15 @@ export class ModelPanel {
     } else {
       this.bar.value = this.bar.max;
     }
+  }
+
+  /** No run to show (another data set was opened): no status or chart of the old one stays. */
+  showNoRun(): void {
+    this.chart.set([], []);
+    this.bar.max = 1;
+    this.bar.value = 0;
+    this.message.hidden = true;
+    this.progressText.textContent = 'No fit yet.';
   }
 
   /** Show a finished run's trace and summary. */

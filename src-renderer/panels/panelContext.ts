@@ -4,7 +4,8 @@ import type { RatingGrid } from '../grid/ratingGrid';
 import type { FitController } from '../runs/fitController';
 import type { RunStore } from '../runs/runStore';
 import type { DocumentStore } from '../state/documentStore';
-import type { ModelPanel } from './modelPanel';
+import type { SettingsStore } from '../state/settingsStore';
+import type { ViewStore } from '../state/viewStore';
 import type { Notice } from './notice';
 import type { SidePanel } from './sidePanel';
 
@@ -15,6 +16,7 @@ export interface PanelContext {
   controller: FitController;
   grid: RatingGrid;
   notice: Notice;
-  model: ModelPanel;
+  settings: SettingsStore;
+  view: ViewStore;
   side: SidePanel;
 }

@@ -6,6 +6,7 @@
  */
 import { runDifference } from '../../src-shared/engine/runDifference';
 import { describeSettings } from '../runs/describeSettings';
+import { runFitsDocument } from '../runs/runMatch';
 import type { Run } from '../runs/runStore';
 import { afterPaint } from './afterPaint';
 import { el, fmt } from './dom';
@@ -99,7 +100,7 @@ export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
     const a = ctx.runs.get(pair.a);
     const b = ctx.runs.get(pair.b);
     const m = ctx.store.current;
-    if (!a || !b || a.result.predictions.length !== m.values.length || b.result.predictions.length !== m.values.length) {
+    if (!runFitsDocument(a, ctx.store) || !runFitsDocument(b, ctx.store)) {
       summary.replaceChildren(el('p', { className: 'rf-panel-error' }, ['These runs no longer match the matrix’s shape; fill again to compare.']));
       ctx.grid.setLayers({ diff: null });
       return;

@@ -44,7 +44,7 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
   let centeringTouched = false;
   const syncCenteringFromForm = () => {
     if (centeringTouched) return;
-    const form = ctx.model.settings();
+    const form = ctx.settings.value;
     const current: Centering = form.model === 'lowrank' ? form.centering : 'both';
     for (const [c, box] of checks) box.checked = c === current;
     updateSize();
@@ -96,13 +96,11 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
   }
   for (const input of [ranksInput, lambdasInput, foldsInput]) input.addEventListener('input', updateSize);
   syncCenteringFromForm();
-  ctx.side.onSelect((id) => {
-    if (id === 'tuning') syncCenteringFromForm();
-  });
+  ctx.settings.subscribe(syncCenteringFromForm);
 
 
   const apply = (settings: FitSettings, what: string) => {
-    ctx.model.apply(settings);
+    ctx.settings.set(settings);
     ctx.notice.show(`Model settings: ${what} applied (${describe(settings)}). Fill again to see the estimates.`, 'info', 5000);
   };
   applyBest.addEventListener('click', () => {
@@ -154,7 +152,7 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
     runLabel: 'Run tuning',
     idleText: 'Not run yet.',
     plan: () => {
-      const form = ctx.model.settings();
+      const form = ctx.settings.value;
       const plan = planTuning(request(), form);
       if (!plan.ok) return { error: plan.message };
       familyNote.hidden = form.model === 'lowrank';

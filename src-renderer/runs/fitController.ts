@@ -41,6 +41,8 @@ export class FitController {
     doc.subscribe((e) => {
       if (e.type === 'cells') this.scheduleLiveRefit();
       else if (e.type === 'replaced') {
+        // Nothing computed on the old data set may reach the new one.
+        void this.cancelFill();
         void this.cancelLive();
         runs.clear();
       } else if (e.type === 'shape') this.scheduleLiveRefit();
@@ -65,6 +67,7 @@ export class FitController {
     if (this.fillJob) await this.cancelFill();
     await this.cancelLive();
     const revision = this.doc.revision;
+    const { dataSet, layout } = this.doc;
     const matrix = this.doc.current;
     const state: FillState = { phase: 'running', jobId: null, settings, progress: [] };
     this.setFill(state);
@@ -89,6 +92,11 @@ export class FitController {
         },
       });
       if (outcome.kind !== 'fit') throw new Error('unexpected reply to a fit');
+      if (this.doc.dataSet !== dataSet) {
+        // Another data set was opened while this one was fitted: its result is dropped.
+        this.setFill({ phase: 'idle' });
+        return undefined;
+      }
       const result = fitResultFromPayload(outcome.result);
       const run = this.runs.add({
         settings,
@@ -96,6 +104,8 @@ export class FitController {
         trust: outcome.trust ? trustFromPayload(outcome.trust) : undefined,
         createdAt: Date.now(),
         docRevision: revision,
+        dataSet,
+        layout,
         rows: result.rows,
         cols: result.cols,
         refits: 0,
@@ -135,8 +145,10 @@ export class FitController {
 
   private async runLiveRefit(run: Run): Promise<void> {
     const revision = this.doc.revision;
+    const { dataSet, layout } = this.doc;
     const matrix = this.doc.current;
-    const sameShape = matrix.rowLabels.length === run.rows && matrix.colLabels.length === run.cols;
+    // The run's factors are a good start only for the same cells in the same places.
+    const sameLayout = run.layout === layout && matrix.rowLabels.length === run.rows && matrix.colLabels.length === run.cols;
     const previous = this.liveJob;
     if (previous) void this.bridge.call('fit.cancel', { jobId: previous }).catch(() => undefined);
     // The page names the job itself and follows it before sending, so the result
@@ -150,20 +162,19 @@ export class FitController {
         matrix: matrixToPayload(matrix),
         settings: run.settings,
         clientId,
-        ...(sameShape && run.result.rank > 0
+        ...(sameLayout && run.result.rank > 0
           ? { warmStart: { rowFactors: Array.from(run.result.rowFactors), colFactors: Array.from(run.result.colFactors) } }
           : {}),
       })
       .catch((err: unknown) => this.jobs.abandon(jobId, err instanceof Error ? err : new Error(String(err))));
     try {
       const outcome = await outcomePromise;
-      if (outcome.kind !== 'fit' || this.liveJob !== jobId) return;
+      if (outcome.kind !== 'fit' || this.liveJob !== jobId || this.doc.dataSet !== dataSet || !this.runs.get(run.id)) return;
       const result = fitResultFromPayload(outcome.result);
       if (result.rows !== matrix.rowLabels.length || result.cols !== matrix.colLabels.length) return;
-      run.rows = result.rows;
-      run.cols = result.cols;
       // The refit itself is drawn first (fast, warm-started); the ensemble spread follows in a second job.
-      this.runs.refit(run.id, result, undefined, revision);
+      this.runs.refit(run.id, result, undefined, revision, layout);
+      this.liveJob = null;
       void this.refreshTrust(run, revision);
     } catch {
       // A cancelled live refit was superseded by a newer one; a failed one leaves the last result shown.
@@ -188,7 +199,7 @@ export class FitController {
     this.liveJob = jobId;
     try {
       const outcome = await this.jobs.follow(jobId);
-      if (outcome.kind !== 'fit' || this.liveJob !== jobId || this.doc.revision !== revision || !outcome.trust) return;
+      if (outcome.kind !== 'fit' || this.liveJob !== jobId || this.doc.revision !== revision || !outcome.trust || !this.runs.get(run.id)) return;
       this.runs.setTrust(run.id, trustFromPayload(outcome.trust));
     } catch {
       // Superseded by a newer edit.

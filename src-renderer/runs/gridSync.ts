@@ -1,12 +1,16 @@
 /**
  * Keeps the grid's model layers in step with the shown run: estimates in the
  * blank cells (tinted by spread), the baselines column and row, and the marks
- * on weakly determined rows and columns. A run whose shape no longer matches
- * the matrix (rows or columns added, deleted or swapped) is not drawn.
+ * on weakly determined rows and columns. A run is drawn only on the data set
+ * and cell layout it was computed on (runs/runMatch.ts); after rows or columns
+ * change, its estimates stay hidden until the live refit brings new ones.
  */
+import { supportOf, weakThreshold } from '../../src-shared/engine/trust';
 import type { FitResult } from '../../src-shared/engine/types';
+import type { RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
 import type { BaselineLayer, GridLayers, WeakMarks } from '../grid/overlayLayer';
 import type { PanelContext } from '../panels/panelContext';
+import { runFitsDocument } from './runMatch';
 import type { Run } from './runStore';
 
 export function baselineLayer(result: FitResult): BaselineLayer {
@@ -23,42 +27,70 @@ export function baselineLayer(result: FitResult): BaselineLayer {
   };
 }
 
-export function weakMarks(run: Run): WeakMarks | null {
-  if (!run.trust) return null;
+/**
+ * Rows and columns with fewer observed values than the rank, counted on the
+ * matrix as it is now (so a new, empty row is marked together with its estimates).
+ */
+export function weakMarks(run: Run, m: RatingMatrix): WeakMarks {
   const k = run.result.rank;
+  const s = supportOf(m.values, m.rowLabels.length, m.colLabels.length, weakThreshold(run.settings));
   const why = (n: number, what: string) => `Weakly determined: ${n} observed value${n === 1 ? '' : 's'} in this ${what}, fewer than the rank (${k}); its estimates rest mostly on the baseline.`;
   return {
-    rows: new Map(run.trust.weakRows.map((i) => [i, why(run.trust!.rowSupport[i], 'row')])),
-    cols: new Map(run.trust.weakCols.map((j) => [j, why(run.trust!.colSupport[j], 'column')])),
+    rows: new Map(s.weakRows.map((i) => [i, why(s.rowSupport[i], 'row')])),
+    cols: new Map(s.weakCols.map((j) => [j, why(s.colSupport[j], 'column')])),
   };
 }
 
-export function layersForRun(run: Run | undefined, values: Float64Array): Partial<GridLayers> {
-  if (!run || run.result.predictions.length !== values.length) return { overlay: null, baselines: null, weak: null };
+/** The layers for a run the caller has checked with runFitsDocument, or empty layers. */
+export function layersForRun(run: Run | undefined, m: RatingMatrix): Partial<GridLayers> {
+  const values = m.values;
+  if (!run) return { overlay: null, baselines: null, weak: null };
   const spread = run.trust?.spread ?? run.result.spread;
   let maxSpread = 0;
   if (spread) for (let c = 0; c < values.length; c++) if (values[c] !== values[c] && spread[c] > maxSpread) maxSpread = spread[c];
   return {
     overlay: { predictions: run.result.predictions, spread, maxSpread },
     baselines: baselineLayer(run.result),
-    weak: weakMarks(run),
+    weak: weakMarks(run, m),
   };
 }
 
+function sameKeys(a: Map<number, string>, b: Map<number, string>): boolean {
+  if (a.size !== b.size) return false;
+  for (const k of a.keys()) if (!b.has(k)) return false;
+  return true;
+}
+
 export function syncGridWithRuns(ctx: PanelContext): void {
-  let stale = false;
+  let hiddenNotice: number | null = null;
   const apply = () => {
     const run = ctx.runs.shown;
-    const m = ctx.store.current;
-    const matches = !!run && run.rows === m.rowLabels.length && run.cols === m.colLabels.length;
-    ctx.grid.setLayers(layersForRun(matches ? run : undefined, m.values));
-    if (run && !matches && !stale) ctx.notice.show('Estimates hidden: the matrix’s shape changed since the last fill. Fill again to see new ones.');
-    stale = !!run && !matches;
+    const fits = runFitsDocument(run, ctx.store);
+    ctx.grid.setLayers(layersForRun(fits ? run : undefined, ctx.store.current));
+    if (fits || !run) {
+      // Estimates are drawn again (or there is no run): the "hidden" notice no longer holds.
+      if (hiddenNotice !== null) ctx.notice.clear(hiddenNotice);
+      hiddenNotice = null;
+      return;
+    }
+    // The shown run was computed on another arrangement of the cells.
+    if (hiddenNotice !== null) return;
+    hiddenNotice = ctx.notice.show(
+      ctx.controller.liveRefit
+        ? 'Rows or columns changed: estimates are hidden until the refit for the new layout arrives.'
+        : 'Estimates hidden: rows or columns changed since the last fill. Fill again to see new ones.',
+    );
   };
   ctx.runs.subscribe((e) => {
     if (e.type === 'shown' || e.type === 'runs' || (e.type === 'updated' && e.id === ctx.runs.shownId)) apply();
   });
   ctx.store.subscribe((e) => {
     if (e.type === 'shape' || e.type === 'replaced') apply();
+    // Weak marks follow the observed counts.
+    else if (e.type === 'cells' && runFitsDocument(ctx.runs.shown, ctx.store)) {
+      const weak = weakMarks(ctx.runs.shown!, ctx.store.current);
+      const before = ctx.grid.currentLayers.weak;
+      if (!before || !sameKeys(before.rows, weak.rows) || !sameKeys(before.cols, weak.cols)) ctx.grid.setLayers({ weak });
+    }
   });
 }

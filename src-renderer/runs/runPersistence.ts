@@ -9,6 +9,7 @@
 import type { SavedRun } from '../../src-shared/project/projectDocument';
 import type { PanelContext } from '../panels/panelContext';
 import { describeSettings } from './describeSettings';
+import { runFitsDocument } from './runMatch';
 import type { Run } from './runStore';
 
 const MAX_SAVED_PREDICTION_CELLS = 250_000;
@@ -40,11 +41,11 @@ export function installRunPersistence(ctx: PanelContext): void {
   ctx.store.addContributor({
     collect(parts) {
       const cells = ctx.store.current.values.length;
-      parts.settings = ctx.model.settings();
-      parts.runs = ctx.runs.runs.filter((r) => r.result.predictions.length === cells).map((r) => toSavedRun(r, cells));
+      parts.settings = ctx.settings.value;
+      parts.runs = ctx.runs.runs.filter((r) => runFitsDocument(r, ctx.store)).map((r) => toSavedRun(r, cells));
     },
     load(parts) {
-      if (parts.settings) ctx.model.apply(parts.settings);
+      if (parts.settings) ctx.settings.set(parts.settings);
       const saved = parts.runs.slice();
       if (saved.length === 0) return;
       const token = ++restoring;

@@ -6,6 +6,7 @@
 import type { CrossValidationPayload } from '../../src-shared/api';
 import type { CellTrust } from '../../src-shared/engine/trust';
 import type { FitResult, FitSettings } from '../../src-shared/engine/types';
+import type { ViewStore } from '../state/viewStore';
 
 export interface RunEvaluation extends CrossValidationPayload {
   k: number;
@@ -21,6 +22,9 @@ export interface Run {
   createdAt: number;
   /** Document revision the current result was fitted on. */
   docRevision: number;
+  /** The data set (DocumentStore.dataSet) and cell layout (DocumentStore.layout) it was fitted on. */
+  dataSet: number;
+  layout: number;
   rows: number;
   cols: number;
   /** Live refits since the Fill (after edits). */
@@ -30,12 +34,25 @@ export interface Run {
 
 export type RunEvent = { type: 'runs' } | { type: 'shown' } | { type: 'compare' } | { type: 'updated'; id: number };
 
+/**
+ * Which run is shown and which pair is compared live in the view store; this
+ * class keeps the list and says when either changes. Numbering restarts with
+ * every data set (`clear`).
+ */
 export class RunStore {
   private list: Run[] = [];
   private nextId = 1;
-  shownId: number | null = null;
-  compare: { a: number; b: number } | null = null;
   private readonly listeners = new Set<(e: RunEvent) => void>();
+
+  constructor(private readonly view: ViewStore) {}
+
+  get shownId(): number | null {
+    return this.view.state.shownRunId;
+  }
+
+  get compare(): { a: number; b: number } | null {
+    return this.view.state.compare;
+  }
 
   subscribe(l: (e: RunEvent) => void): () => void {
     this.listeners.add(l);
@@ -66,12 +83,16 @@ export class RunStore {
     return r;
   }
 
-  /** Replace a run's result after a live refit. */
-  refit(id: number, result: FitResult, trust: CellTrust | undefined, docRevision: number): void {
+  /** Replace a run's result after a live refit (on `layout`; a new layout drops the old spread). */
+  refit(id: number, result: FitResult, trust: CellTrust | undefined, docRevision: number, layout: number): void {
     const r = this.get(id);
     if (!r) return;
-    r.result = result;
     if (trust) r.trust = trust;
+    else if (layout !== r.layout || result.predictions.length !== r.result.predictions.length) r.trust = undefined;
+    r.result = result;
+    r.rows = result.rows;
+    r.cols = result.cols;
+    r.layout = layout;
     r.docRevision = docRevision;
     r.refits++;
     // Cross-validated errors describe the data the run was evaluated on; after edits they are stale.
@@ -95,19 +116,20 @@ export class RunStore {
   }
 
   show(id: number | null): void {
-    this.shownId = id;
+    this.view.set({ shownRunId: id });
     this.emit({ type: 'shown' });
   }
 
   setCompare(pair: { a: number; b: number } | null): void {
-    this.compare = pair;
+    this.view.set({ compare: pair });
     this.emit({ type: 'compare' });
   }
 
+  /** Another data set was opened: no run of the old one stays, numbering starts again at 1. */
   clear(): void {
     this.list = [];
-    this.shownId = null;
-    this.compare = null;
+    this.nextId = 1;
+    this.view.set({ shownRunId: null, compare: null });
     this.emit({ type: 'runs' });
     this.emit({ type: 'shown' });
     this.emit({ type: 'compare' });

@@ -44,6 +44,9 @@ export interface MatrixSwap {
   label: string;
   before: RatingMatrix;
   after: RatingMatrix;
+  /** Layout ids before and after (equal when the swap keeps every cell where it was). */
+  beforeLayout: number;
+  afterLayout: number;
 }
 
 export type Change = CellPatch | MatrixSwap;
@@ -66,6 +69,16 @@ export class DocumentStore {
   private readonly listeners = new Set<(e: DocumentEvent) => void>();
   /** Bumped on every change; lets derived views (fits, exports) tell stale from fresh. */
   revision = 0;
+  /** Bumped when another data set is opened (sample, import, project, restore). */
+  dataSet = 0;
+  /**
+   * Which arrangement of cells the matrix has: a new id when another data set is
+   * opened or rows/columns are added, deleted, moved, sorted or swapped; undo and
+   * redo bring the earlier id back. Cell edits, renames and scale changes keep it.
+   * A run is drawn only on the layout it was computed on (runs/runMatch.ts).
+   */
+  layout = 0;
+  private layoutSeq = 0;
   title = 'Untitled';
   source: DocumentSource = { kind: 'new', name: '' };
   /** Revision at the last save (or open); differs from `revision` when there are unsaved changes. */
@@ -116,6 +129,8 @@ export class DocumentStore {
     this.source = source;
     this.undoStack = [];
     this.redoStack = [];
+    this.dataSet++;
+    this.layout = ++this.layoutSeq;
     this.revision++;
     this.savedRevision = this.revision;
     this.savedSeq = 0;
@@ -175,9 +190,13 @@ export class DocumentStore {
     return true;
   }
 
-  /** Replace the whole matrix (shape or labels change) as one undoable change. */
-  swapMatrix(label: string, next: RatingMatrix): void {
-    this.apply({ kind: 'matrix', label, before: cloneMatrix(this.matrix), after: cloneMatrix(next) });
+  /**
+   * Replace the whole matrix (shape or labels change) as one undoable change.
+   * `keepsCells`: every cell stays at its row and column (renames, scale changes).
+   */
+  swapMatrix(label: string, next: RatingMatrix, opts: { keepsCells?: boolean } = {}): void {
+    const afterLayout = opts.keepsCells ? this.layout : ++this.layoutSeq;
+    this.apply({ kind: 'matrix', label, before: cloneMatrix(this.matrix), after: cloneMatrix(next), beforeLayout: this.layout, afterLayout });
   }
 
   private apply(change: Change): void {
@@ -195,6 +214,7 @@ export class DocumentStore {
       this.emit({ type: 'cells', indices: c.indices });
     } else {
       this.matrix = cloneMatrix(c.after);
+      this.layout = c.afterLayout;
       this.revision++;
       this.emit({ type: 'shape' });
     }
@@ -207,6 +227,7 @@ export class DocumentStore {
       this.emit({ type: 'cells', indices: c.indices });
     } else {
       this.matrix = cloneMatrix(c.before);
+      this.layout = c.beforeLayout;
       this.revision++;
       this.emit({ type: 'shape' });
     }

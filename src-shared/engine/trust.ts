@@ -54,6 +54,37 @@ function bootstrapMatrix(matrix: RatingMatrix, cells: Int32Array, rng: ReturnTyp
   return { rowLabels: matrix.rowLabels, colLabels: matrix.colLabels, values, scale: matrix.scale };
 }
 
+/** Observed cells per row and per column, and the rows/columns whose support is below `threshold`. */
+export function supportOf(
+  values: Float64Array,
+  rows: number,
+  cols: number,
+  threshold: number,
+): { rowSupport: Int32Array; colSupport: Int32Array; weakRows: number[]; weakCols: number[]; observed: number } {
+  const rowSupport = new Int32Array(rows);
+  const colSupport = new Int32Array(cols);
+  let observed = 0;
+  for (let i = 0; i < rows; i++)
+    for (let j = 0; j < cols; j++) {
+      const x = values[i * cols + j];
+      if (x === x) {
+        rowSupport[i]++;
+        colSupport[j]++;
+        observed++;
+      }
+    }
+  const weakRows: number[] = [];
+  const weakCols: number[] = [];
+  for (let i = 0; i < rows; i++) if (rowSupport[i] < threshold) weakRows.push(i);
+  for (let j = 0; j < cols; j++) if (colSupport[j] < threshold) weakCols.push(j);
+  return { rowSupport, colSupport, weakRows, weakCols, observed };
+}
+
+/** The support below which a row or column is weakly determined under these settings. */
+export function weakThreshold(settings: FitSettings): number {
+  return settings.model === 'lowrank' ? settings.rank : 1;
+}
+
 export function cellTrust(
   matrix: RatingMatrix,
   settings: FitSettings,
@@ -63,18 +94,7 @@ export function cellTrust(
   const rows = matrix.rowLabels.length;
   const cols = matrix.colLabels.length;
   const values = matrix.values;
-  const rowSupport = new Int32Array(rows);
-  const colSupport = new Int32Array(cols);
-  let n = 0;
-  for (let i = 0; i < rows; i++)
-    for (let j = 0; j < cols; j++) {
-      const x = values[i * cols + j];
-      if (x === x) {
-        rowSupport[i]++;
-        colSupport[j]++;
-        n++;
-      }
-    }
+  const { rowSupport, colSupport, weakRows, weakCols, observed: n } = supportOf(values, rows, cols, weakThreshold(settings));
   const m = options.method === 'folds' ? options.k : options.B;
   if (!Number.isInteger(m) || m < 2) throw new Error(`trust needs an ensemble of at least 2 fits (got ${m})`);
   const ensemble = new EnsembleSpread(rows * cols);
@@ -96,11 +116,6 @@ export function cellTrust(
     progress.onProgress?.({ done: e + 1, total: m });
   }
   const spread = ensemble.spread();
-  const threshold = settings.model === 'lowrank' ? settings.rank : 1;
-  const weakRows: number[] = [];
-  const weakCols: number[] = [];
-  for (let i = 0; i < rows; i++) if (rowSupport[i] < threshold) weakRows.push(i);
-  for (let j = 0; j < cols; j++) if (colSupport[j] < threshold) weakCols.push(j);
   const intervals =
     heldOut && progress.full
       ? calibrateIntervals(heldOut, { rows, cols, values, family: settings.model, ensembleSpread: spread, ownSpread: progress.full.spread })
