@@ -10,11 +10,11 @@ export const USAGE = [
   'usage: rankfill fill IN.csv --out OUT.csv [--layout filled|estimates|long] [--decimals D] [--sidecar] [--mask] [--force]',
   '                [model options] [--scale MIN:MAX[:STEP]] [--long] [--duplicates last|average|refuse] [--json]',
   '       rankfill evaluate IN.csv [model options] [--folds 5] [--json]',
-  '       rankfill tune IN.csv [--models lowrank,gaussian] [--ranks 0,1,2,3,5,8] [--lambdas 0.1,1,10,30]',
+  '       rankfill tune IN.csv [--models lowrank,gaussian] [--ranks R,R,...] [--lambdas L,L,...]',
   '                [--centering none,row,column,both] [--shrinkages 0,0.05,0.1,0.2] [--transpose]',
   '                [--folds 5] [--seed S] [--iterations N] [--tolerance T] [--scale MIN:MAX[:STEP]] [--long] [--json]',
   '       rankfill report IN.csv|PROJECT.rankfill --out REPORT.html [model options as for fill] [--run ID] [--folds 5]',
-  '                [--compare-centering] [--tune [--ranks 0,1,2,3,5,8] [--lambdas 0.1,1,10,30]] [--csv FILLED.csv] [--json]',
+  '                [--compare-centering] [--tune [--ranks R,R,...] [--lambdas L,L,...]] [--csv FILLED.csv] [--json]',
   '       rankfill COMMAND --help   lists every option of COMMAND with its default',
 ].join('\n');
 
@@ -49,9 +49,9 @@ export const OPTIONS: readonly OptionSpec[] = [
   { name: 'mask', commands: ['fill'], default: 'off', help: 'with a wide layout, also write OUT.mask.csv saying "observed" or "filled" for every cell' },
   { name: 'force', commands: ['fill'], default: 'off', help: 'replace OUT (and its sidecar or mask) when it exists; without it an existing file is left untouched and the exit status is 2' },
   { name: 'model', value: 'lowrank|gaussian', commands: FIT, default: 'lowrank', help: 'model family' },
-  { name: 'rank', value: 'K', commands: FIT, default: '2', help: 'low-rank: number of hidden traits (0 = baseline alone)' },
+  { name: 'rank', value: 'K', commands: FIT, default: { fill: 'chosen from the data (see fill)', evaluate: '2', report: '2' }, help: 'low-rank: number of hidden traits (0 = baseline alone)' },
   { name: 'lambda', value: 'L', commands: FIT, default: '1', help: 'low-rank: ridge weight on the factors' },
-  { name: 'centering', value: 'none|row|column|both', commands: ALL, default: { fill: 'both', evaluate: 'both', report: 'both', tune: 'none,row,column,both' }, help: 'low-rank baseline; for tune a comma-separated list' },
+  { name: 'centering', value: 'none|row|column|both', commands: ALL, default: { fill: 'chosen from the data (see fill)', evaluate: 'both', report: 'both', tune: 'all four for rank 0, then the best of them' }, help: 'low-rank baseline; for tune a comma-separated list' },
   { name: 'shrinkage', value: 'S', commands: FIT, default: '0.05', help: 'gaussian: pull the covariance toward its diagonal, 0 ≤ S < 1' },
   { name: 'transpose', commands: ALL, default: 'off', help: 'gaussian: the rows are the variables' },
   { name: 'iterations', value: 'N', commands: ALL, default: '100 (low-rank), 200 (gaussian)', help: 'iteration limit' },
@@ -59,8 +59,8 @@ export const OPTIONS: readonly OptionSpec[] = [
   { name: 'seed', value: 'S', commands: ALL, default: '1', help: 'seed of every random choice (start, folds)' },
   { name: 'folds', value: 'K', commands: ['evaluate', 'tune', 'report'], default: '5', help: 'number of cross-validation folds' },
   { name: 'models', value: 'LIST', commands: ['tune'], default: 'lowrank, plus gaussian when the matrix allows it', help: 'families to compare, e.g. lowrank,gaussian' },
-  { name: 'ranks', value: 'LIST', commands: ['tune', 'report'], default: '0,1,2,3,5,8', help: 'ranks to try' },
-  { name: 'lambdas', value: 'LIST', commands: ['tune', 'report'], default: '0.1,1,10,30', help: 'lambda values to try' },
+  { name: 'ranks', value: 'LIST', commands: ['tune', 'report'], default: '0 and 1, 2, 3, 5, 8, 12, 16, 20 up to what the data support', help: 'ranks to try' },
+  { name: 'lambdas', value: 'LIST', commands: ['tune', 'report'], default: 'five values ×2 apart below σ₁ of the residuals, then a refinement pass', help: 'lambda values to try' },
   { name: 'shrinkages', value: 'LIST', commands: ['tune'], default: '0,0.05,0.1,0.2', help: 'gaussian shrinkages to try' },
   { name: 'scale', value: 'MIN:MAX[:STEP]', commands: ALL, default: 'observed min and max, step detected', help: 'the rating scale; estimates are clipped to it, and with a STEP rounded to the step' },
   { name: 'long', commands: ALL, default: 'off', help: 'input is row,column,value triples (fill then writes the long layout unless --layout says otherwise)' },
@@ -69,7 +69,10 @@ export const OPTIONS: readonly OptionSpec[] = [
 ];
 
 const SUMMARY: Record<Command, string> = {
-  fill: 'fit once and write every cell (observed values unchanged, missing ones estimated)',
+  fill:
+    'fit once and write every cell (observed values unchanged, missing ones estimated); without --model, --rank, ' +
+    '--lambda, --centering, --shrinkage or --transpose the settings are chosen by a quick 3-fold cross-validation ' +
+    '(rank 0 among the candidates) and the choice is printed',
   evaluate: 'k-fold cross-validation of one setting (RMSE and MAE per fold)',
   tune:
     'cross-validate a grid of ranks × lambdas × centerings and Gaussian shrinkages on the same folds; the family ' +
@@ -115,7 +118,11 @@ diagonal; --transpose makes the rows the variables.
              same folds; the family with the lowest mean RMSE wins, and its simplest setting
              within one standard error is the choice. By default the Gaussian model is tried
              when it accepts the matrix (at most 300 variables, 3 observed values each) and
-             there are at least 2 rows per variable; --models picks the families explicitly
+             there are at least 2 rows per variable; --models picks the families explicitly.
+             Without --ranks / --lambdas both come from the data (five λ values ×2 apart below
+             the largest singular value of the residuals, ranks up to what the ratings support),
+             a second pass tries λ values between the best one and its neighbours, and without
+             --centering the factor settings use the centering whose baselines alone score best
   report     fit once, cross-validate beside the baselines alone, and write a self-contained HTML
              study report (the data's missing pattern, a methods paragraph, errors, cautions,
              provenance); --compare-centering and --tune add those comparisons; IN may be a
@@ -152,9 +159,11 @@ export interface CliOptions {
   json: boolean;
   decimals?: number;
   folds: number;
-  ranks: number[];
-  lambdas: number[];
-  centerings: Centering[];
+  /** tune / report --tune: undefined = derived from the data (engine/tuningGrid.ts). */
+  ranks?: number[];
+  lambdas?: number[];
+  /** tune: undefined = rank 0 under all four, factor settings under the best of them. */
+  centerings?: Centering[];
   /** fill / evaluate: the model family (default lowrank). */
   model: ModelFamily;
   shrinkage?: number;
@@ -180,6 +189,8 @@ export interface CliOptions {
   force: boolean;
   /** --long input: what to do with a repeated (row, column) pair. */
   duplicates: DuplicatePolicy;
+  /** fill: a model option (--model, --rank, --lambda, --centering, --shrinkage, --transpose) was given. */
+  modelOptionsGiven: boolean;
 }
 
 export type FillLayout = 'filled' | 'estimates' | 'long';
@@ -300,9 +311,8 @@ export function parseArgs(argv: string[]): ParsedArgs {
     long: flags.has('long'),
     json: flags.has('json'),
     folds: get('folds') !== undefined ? wholeNumber('folds', get('folds')!, 2) : 5,
-    ranks: get('ranks') !== undefined ? list('ranks', get('ranks')!, (n, s) => wholeNumber(n, s, 0)) : [0, 1, 2, 3, 5, 8],
-    lambdas: get('lambdas') !== undefined ? list('lambdas', get('lambdas')!, nonNegative) : [0.1, 1, 10, 30],
-    centerings: ['none', 'row', 'column', 'both'],
+    ranks: get('ranks') !== undefined ? list('ranks', get('ranks')!, (n, s) => wholeNumber(n, s, 0)) : undefined,
+    lambdas: get('lambdas') !== undefined ? list('lambdas', get('lambdas')!, nonNegative) : undefined,
     model: get('model') !== undefined ? model('model', get('model')!) : 'lowrank',
     transpose: flags.has('transpose'),
     shrinkages: get('shrinkages') !== undefined ? list('shrinkages', get('shrinkages')!, shrinkage) : [0, 0.05, 0.1, 0.2],
@@ -313,6 +323,7 @@ export function parseArgs(argv: string[]): ParsedArgs {
     duplicates: get('duplicates') !== undefined ? oneOf('duplicates', get('duplicates')!, DUPLICATES) : 'refuse',
     compareCentering: flags.has('compare-centering'),
     tune: flags.has('tune'),
+    modelOptionsGiven: ['model', 'rank', 'lambda', 'centering', 'shrinkage'].some((n) => values.has(n)) || flags.has('transpose'),
   };
   if (get('run') !== undefined) opts.run = get('run')!.trim();
   if (get('csv') !== undefined) opts.csv = get('csv');

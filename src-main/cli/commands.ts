@@ -8,7 +8,9 @@ import { createHash } from 'node:crypto';
 import { fitModel } from '../../src-shared/engine/fitModel';
 import { FitFailedError } from '../../src-shared/engine/errors';
 import { crossValidate, makeFolds } from '../../src-shared/engine/crossValidation';
-import { expandLowRankGrid, tune } from '../../src-shared/engine/tuning';
+import { expandLowRankGrid, tune, type TuneResult } from '../../src-shared/engine/tuning';
+import { tuneDefault } from '../../src-shared/engine/defaultTune';
+import { autoSettings, type AutoChoice } from '../../src-shared/engine/autoSettings';
 import type { FitSettings, ModelFamily } from '../../src-shared/engine/types';
 import { gaussianRefusal } from '../../src-shared/engine/gaussian/fitGaussian';
 import { observedCount, type RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
@@ -64,7 +66,15 @@ export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, 
   if (existing !== undefined) {
     return { code: 2, stdout: [], stderr: [`rankfill: ${existing} already exists; nothing written (add --force to replace it)`] };
   }
-  const settings = fitSettingsFromOptions(o);
+  let settings = fitSettingsFromOptions(o);
+  let auto: AutoChoice | undefined;
+  if (!o.modelOptionsGiven && settings.model === 'lowrank') {
+    // No model options: choose by a quick cross-validation (engine/autoSettings.ts).
+    const ta = performance.now();
+    auto = autoSettings(m, settings);
+    settings = auto.settings;
+    timings.chooseMs = performance.now() - ta;
+  }
   const t0 = performance.now();
   const fit = fitModel(m, settings);
   timings.fitMs = performance.now() - t0;
@@ -124,6 +134,7 @@ export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, 
           filled: rows * cols - observed,
           scale: m.scale,
           settings: fit.settings,
+          ...(auto ? { chosen: { reason: auto.reason, folds: auto.folds, candidates: auto.candidates, meanRmse: auto.rmse, baselineMeanRmse: auto.baselineRmse } } : {}),
           iterations: fit.iterations,
           converged: fit.converged,
           objective,
@@ -137,6 +148,7 @@ export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, 
     code: 0,
     stderr: [],
     stdout: [
+      ...(auto ? [`settings chosen: ${auto.reason}`] : []),
       `filled ${rows * cols - observed} of ${rows * cols} cells (${rows} rows × ${cols} columns) with model estimates → ${files.map(([p]) => p).join(', ')}`,
       `model: ${settingsLabel(fit.settings)}; ${fit.iterations} iterations${fit.converged ? ' (converged)' : ' (iteration limit)'}, objective ${objective.toPrecision(6)}`,
     ],
@@ -203,14 +215,28 @@ export function runTune(o: CliOptions, m: RatingMatrix, timings: Record<string, 
   const base = settingsFromOptions(o);
   const { families, skipped } = tuneFamilies(o, m);
   if (families.length === 0) throw new FitFailedError(skipped.map((x) => x.reason).join(' '));
-  const list: FitSettings[] = [];
-  if (families.includes('lowrank')) list.push(...expandLowRankGrid({ ranks: o.ranks, lambdas: o.lambdas, centerings: o.centerings, base }));
+  const gaussians: FitSettings[] = [];
   if (families.includes('gaussian')) {
     const g = gaussianSettingsFromOptions(o);
-    for (const shrinkage of o.shrinkages) list.push({ ...g, shrinkage });
+    for (const shrinkage of o.shrinkages) gaussians.push({ ...g, shrinkage });
   }
   const t0 = performance.now();
-  const result = tune(m, { settings: list }, o.folds, base.seed);
+  let result: TuneResult;
+  let grid: { ranks: number[]; lambdas: number[]; centerings: string[]; refinedLambdas: number[] } | undefined;
+  if (families.includes('lowrank') && (o.ranks === undefined || o.lambdas === undefined)) {
+    // The data-derived grid with its refinement pass (engine/defaultTune.ts). Without
+    // --centering the baselines alone are scored under all four centerings and the factor
+    // settings use the best of them.
+    const d = tuneDefault(m, { folds: o.folds, seed: base.seed, centerings: o.centerings, ranks: o.ranks, lambdas: o.lambdas, base, extra: gaussians });
+    result = d;
+    grid = { ranks: d.grid.ranks, lambdas: d.grid.lambdas, centerings: d.grid.centerings, refinedLambdas: d.refinedLambdas };
+  } else {
+    const list: FitSettings[] = [];
+    if (families.includes('lowrank')) list.push(...expandLowRankGrid({ ranks: o.ranks!, lambdas: o.lambdas!, centerings: o.centerings ?? ['none', 'row', 'column', 'both'], base }));
+    list.push(...gaussians);
+    result = tune(m, { settings: list }, o.folds, base.seed);
+  }
+  const list = result.table;
   timings.tuneMs = performance.now() - t0;
   const row = (r: (typeof result.table)[number]) => ({
     model: r.settings.model,
@@ -254,12 +280,19 @@ export function runTune(o: CliOptions, m: RatingMatrix, timings: Record<string, 
           best: { ...row(result.best), settings: result.best.settings },
           oneStandardError: { ...row(result.oneStandardError), settings: result.oneStandardError.settings },
           threshold: result.threshold,
+          ...(grid ? { grid } : {}),
           timings,
         }),
       ],
     };
   }
   const lines = [`${o.folds}-fold cross-validation of ${list.length} settings (same folds for all)`];
+  if (grid) {
+    lines.push(
+      `grid from the data: ranks ${grid.ranks.join(', ')}; lambdas ${grid.lambdas.join(', ')}; centering ${grid.centerings.join(', ')}` +
+        (grid.refinedLambdas.length ? `; refined around the best with lambda ${grid.refinedLambdas.join(', ')}` : ''),
+    );
+  }
   for (const x of skipped) lines.push(`${x.model} model not tried: ${x.reason}`);
   if (families.includes('lowrank')) lines.push('rank  lambda  centering  mean rmse  sd rmse  mean mae');
   for (const r of result.table) {

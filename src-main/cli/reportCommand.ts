@@ -15,6 +15,7 @@ import { tuneToPayload } from '../../src-shared/apiCodec';
 import { fitModel } from '../../src-shared/engine/fitModel';
 import { defaultLowRankSettings } from '../../src-shared/engine/defaults';
 import { expandLowRankGrid, tune } from '../../src-shared/engine/tuning';
+import { defaultGrid } from '../../src-shared/engine/tuningGrid';
 import type { FitSettings, LowRankSettings } from '../../src-shared/engine/types';
 import { buildExport, buildSidecar, matrixFingerprintText, type ExportOptions } from '../../src-shared/io/exportFilled';
 import { observedCount, type RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
@@ -105,7 +106,7 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
     ? tuneToPayload(tune(m, { settings: (['none', 'row', 'column', 'both'] as const).map((c) => ({ ...base, centering: c })) }, o.folds, settings.seed))
     : null;
   const tuning = o.tune
-    ? tuneToPayload(tune(m, { settings: expandLowRankGrid({ ranks: o.ranks, lambdas: o.lambdas, centerings: [base.centering], base }) }, o.folds, settings.seed))
+    ? tuneToPayload(tune(m, { settings: expandLowRankGrid({ ranks: o.ranks ?? defaultGrid(m).ranks, lambdas: o.lambdas ?? defaultGrid(m).lambdas, centerings: [base.centering], base }) }, o.folds, settings.seed))
     : null;
   const computeMs = performance.now() - t0;
   const inputSha256 = sha256(matrixFingerprintText(m));

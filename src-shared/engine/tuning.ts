@@ -6,7 +6,8 @@
  *   best  = the row with the smallest mean RMSE;
  *   SE    = sdRmse(best) / √k                (standard error of best's mean over k folds);
  *   oneSE = among rows of best's family with meanRmse ≤ meanRmse(best) + SE, the simplest:
- *           low-rank → the smallest rank (ties: smaller mean RMSE); gaussian → the largest
+ *           low-rank → the smallest rank, then (same rank) the largest λ (ties: smaller mean
+ *           RMSE; the order is `simplerLowRank` in tuningGrid.ts); gaussian → the largest
  *           shrinkage, i.e. Σ closest to its diagonal (ties: smaller mean RMSE). The simplest
  *           model statistically indistinguishable from the best (Hastie, Tibshirani &
  *           Friedman, The Elements of Statistical Learning, §7.10). The family itself is the
@@ -18,6 +19,7 @@ import type { Centering, FitSettings, GaussianSettings, LowRankSettings } from '
 import { crossValidate, makeFolds, type FoldScore } from './crossValidation';
 import { defaultLowRankSettings } from './defaults';
 import { FitCancelledError } from './errors';
+import { simplerLowRank } from './tuningGrid';
 
 export interface LowRankGridSpec {
   ranks: number[];
@@ -93,8 +95,9 @@ export function chooseFromTable(table: TuneRow[], k: number): Omit<TuneResult, '
     const cur = table[pick].settings;
     const tie = row.meanRmse < table[pick].meanRmse;
     if (row.settings.model === 'lowrank') {
-      const rank = (cur as LowRankSettings).rank;
-      if (row.settings.rank < rank || (row.settings.rank === rank && tie)) pick = t;
+      const c = cur as LowRankSettings;
+      const same = row.settings.rank === c.rank && row.settings.lambda === c.lambda;
+      if (simplerLowRank(row.settings, c) || (same && tie)) pick = t;
     } else {
       const shrinkage = (cur as GaussianSettings).shrinkage;
       if (row.settings.shrinkage > shrinkage || (row.settings.shrinkage === shrinkage && tie)) pick = t;

@@ -94,6 +94,37 @@ describe('rankfill fill', () => {
   });
 });
 
+describe('rankfill fill without model options', () => {
+  it('chooses its settings by a quick cross-validation and says so', async () => {
+    const input = file('auto.csv', wideCsv().text);
+    const out = join(dir, 'auto-out.csv');
+    const r = await run('fill', input, '--out', out, '--json');
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.stdout);
+    expect(j.chosen.reason).toMatch(/^rank \d+.*: lowest 3-fold error of 13 settings; /);
+    expect(j.chosen.meanRmse).toBeLessThanOrEqual(j.chosen.baselineMeanRmse);
+    expect(j.settings.maxIterations).toBe(defaultLowRankSettings().maxIterations);
+    const text = await run('fill', input, '--out', out);
+    expect(text.stdout.split('\n')[0]).toBe(`settings chosen: ${j.chosen.reason}`);
+    // Any model option means the user's settings are used as given.
+    const own = JSON.parse((await run('fill', input, '--out', out, '--rank', '1', '--json')).stdout);
+    expect(own.chosen).toBeUndefined();
+    expect(own.settings).toMatchObject({ rank: 1, lambda: defaultLowRankSettings().lambda });
+  });
+
+  it('tune without --ranks/--lambdas uses the data-derived grid and a refinement pass', async () => {
+    const input = file('grid.csv', wideCsv().text);
+    const j = JSON.parse((await run('tune', input, '--folds', '3', '--models', 'lowrank', '--json')).stdout);
+    expect(j.grid.ranks[0]).toBe(0);
+    // 12 × 8: half of 8 = 4 → ranks 0, 1, 2, 3.
+    expect(j.grid.ranks).toEqual([0, 1, 2, 3]);
+    expect(j.grid.lambdas).toHaveLength(5);
+    for (let t = 1; t < 5; t++) expect(j.grid.lambdas[t] / j.grid.lambdas[t - 1]).toBeLessThanOrEqual(2.06);
+    const rankZero = j.table.filter((r: { rank: number }) => r.rank === 0);
+    expect(rankZero.map((r: { centering: string }) => r.centering)).toEqual(['none', 'row', 'column', 'both']);
+  });
+});
+
 describe('rankfill evaluate and tune', () => {
   it('evaluate --json prints the fold table', async () => {
     const input = file('e.csv', wideCsv().text);
