@@ -104,10 +104,10 @@ describe('rankfill fill without model options', () => {
     expect(j.chosen.reason).toMatch(/^rank \d+.*: lowest 3-fold error of 13 settings; /);
     expect(j.chosen.meanRmse).toBeLessThanOrEqual(j.chosen.baselineMeanRmse);
     expect(j.settings.maxIterations).toBe(defaultLowRankSettings().maxIterations);
-    const text = await run('fill', input, '--out', out);
+    const text = await run('fill', input, '--out', out, '--force');
     expect(text.stdout.split('\n')[0]).toBe(`settings chosen: ${j.chosen.reason}`);
     // Any model option means the user's settings are used as given.
-    const own = JSON.parse((await run('fill', input, '--out', out, '--rank', '1', '--json')).stdout);
+    const own = JSON.parse((await run('fill', input, '--out', out, '--rank', '1', '--force', '--json')).stdout);
     expect(own.chosen).toBeUndefined();
     expect(own.settings).toMatchObject({ rank: 1, lambda: defaultLowRankSettings().lambda });
   });

@@ -55,9 +55,13 @@ describe('per-command --help', () => {
     const lr = defaultLowRankSettings();
     const g = defaultGaussianSettings();
     const fill = (await run('help', 'fill')).stdout;
-    expect(fill).toMatch(new RegExp(`--rank K .*\\(default: ${lr.rank}\\)`));
-    expect(fill).toMatch(new RegExp(`--lambda L .*\\(default: ${lr.lambda}\\)`));
-    expect(fill).toMatch(new RegExp(`--centering \\S+ .*\\(default: ${lr.centering}\\)`));
+    // fill without model options chooses rank, λ and centering from the data (issue 15);
+    // evaluate keeps the engine defaults.
+    expect(fill).toMatch(/--rank K .*\(default: chosen from the data/);
+    const evaluate = (await run('help', 'evaluate')).stdout;
+    expect(evaluate).toMatch(new RegExp(`--rank K .*\\(default: ${lr.rank}\\)`));
+    expect(evaluate).toMatch(new RegExp(`--lambda L .*\\(default: ${lr.lambda}\\)`));
+    expect(evaluate).toMatch(new RegExp(`--centering \\S+ .*\\(default: ${lr.centering}\\)`));
     expect(fill).toMatch(new RegExp(`--shrinkage S .*\\(default: ${g.shrinkage}\\)`));
     expect(fill).toMatch(new RegExp(`--iterations N .*\\(default: ${lr.maxIterations} \\(low-rank\\), ${g.maxIterations} \\(gaussian\\)\\)`));
     expect(fill).toMatch(new RegExp(`--seed S .*\\(default: ${lr.seed}\\)`));
