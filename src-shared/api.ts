@@ -92,6 +92,7 @@ export const fitResultPayloadSchema = z.object({
   converged: z.boolean(),
   elapsedMs: z.number(),
   spread: nullableNumbers.optional(),
+  covariance: nullableNumbers.optional(),
 });
 export type FitResultPayload = z.infer<typeof fitResultPayloadSchema>;
 

@@ -63,6 +63,7 @@ export function fitResultToPayload(r: FitResult): FitResultPayload {
     converged: r.converged,
     elapsedMs: r.elapsedMs,
     ...(r.spread ? { spread: toNullable(r.spread) } : {}),
+    ...(r.covariance ? { covariance: toNullable(r.covariance) } : {}),
   };
 }
 
@@ -85,6 +86,7 @@ export function fitResultFromPayload(p: FitResultPayload): FitResult {
     converged: p.converged,
     elapsedMs: p.elapsedMs,
     ...(p.spread ? { spread: fromNullable(p.spread) } : {}),
+    ...(p.covariance ? { covariance: fromNullable(p.covariance) } : {}),
   };
 }
 

@@ -25,6 +25,10 @@ export interface BaselineLayer {
   col: Float64Array | null;
   /** Label of the bottom row. */
   colLabel: string;
+  /** Title of the side column, and what the side column and the bottom row hold, in words (their tooltips). */
+  rowLabel?: string;
+  rowTooltip?: string;
+  colTooltip?: string;
 }
 
 export interface WeakMarks {

@@ -118,7 +118,10 @@ export class RatingGrid {
         if (p.data?.i === BASELINE_ROW) return 'rf-row-label rf-baseline-label';
         return p.data && this.layers.weak?.rows.has(p.data.i) ? 'rf-row-label rf-weak' : 'rf-row-label';
       },
-      tooltipValueGetter: (p) => (p.data && p.data.i >= 0 ? this.layers.weak?.rows.get(p.data.i) : undefined),
+      tooltipValueGetter: (p) => {
+        if (p.data?.i === BASELINE_ROW) return this.layers.baselines?.colTooltip || undefined;
+        return p.data && p.data.i >= 0 ? this.layers.weak?.rows.get(p.data.i) : undefined;
+      },
     };
     const valueCols: ColDef<RowRecord>[] = m.colLabels.map((label, j) => ({
       colId: colIdFor(j),
@@ -171,8 +174,8 @@ export class RatingGrid {
           {
             colId: BASELINE_COL_ID,
             hide: !showRowBaseline,
-            headerName: 'Baseline',
-            headerTooltip: 'The row’s baseline under the run’s centering: what the model predicts before the interaction term',
+            headerName: this.layers.baselines.rowLabel ?? 'Baseline',
+            headerTooltip: this.layers.baselines.rowTooltip ?? 'The row’s part of the baseline under the run’s centering',
             pinned: 'right',
             width: 92,
             editable: false,
@@ -271,7 +274,7 @@ export class RatingGrid {
     const hadSide = !!before.baselines;
     const hadRowBaseline = !!before.baselines?.row;
     this.layers = { ...before, ...patch };
-    if (hadSide !== !!this.layers.baselines || hadRowBaseline !== !!this.layers.baselines?.row) {
+    if (hadSide !== !!this.layers.baselines || hadRowBaseline !== !!this.layers.baselines?.row || before.baselines?.rowLabel !== this.layers.baselines?.rowLabel) {
       this.rebuild();
       return;
     }

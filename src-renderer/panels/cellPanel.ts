@@ -1,20 +1,17 @@
 /**
- * Details of the focused cell: the observed value, or the filled value taken
- * apart as baseline + interaction term, its spread and support, and the
- * observed cells in its row that moved it most.
+ * Details of the focused cell: the observed value, or the filled value taken apart into
+ * terms that add up to it (engine/decomposition.ts: the baseline parts of the run's centering
+ * + the interaction term, or for the Gaussian family the column mean μ + the regression on
+ * the row's observed cells; then any clipping or rounding), its spread labelled for what it
+ * is, its support, and the observed cells that moved it most.
  */
 import { explainCell } from '../../src-shared/engine/contributions';
+import { decomposeCell } from '../../src-shared/engine/decomposition';
 import { formatObserved } from '../grid/cellText';
 import { runFitsDocument } from '../runs/runMatch';
 import { afterPaint } from './afterPaint';
 import { el, fmt } from './dom';
 import type { PanelContext } from './panelContext';
-
-function dotFactors(u: Float64Array, v: Float64Array, i: number, j: number, k: number): number {
-  let s = 0;
-  for (let c = 0; c < k; c++) s += u[i * k + c] * v[j * k + c];
-  return s;
-}
 
 export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(row: number, col: number): void } {
   const body = el('div', { testid: 'cell-details' }, [el('p', { className: 'rf-hint' }, ['Select a cell to see where its value comes from.'])]);
@@ -31,6 +28,7 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
     const y = m.values[idx];
     const run = ctx.runs.shown;
     const rows: [string, string][] = [];
+    let termValues: number[] | undefined;
     const title = el('p', { className: 'rf-cell-title' }, [`${m.rowLabels[row]} × ${m.colLabels[col]}`]);
     const parts: HTMLElement[] = [title];
     let rowObs = 0;
@@ -45,38 +43,52 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
       rows.push(['Value', 'blank (no estimate yet: use Fill)']);
     } else {
       const r = run.result;
-      const ex = explainCell(m.values, r, row, col);
-      rows.push(['Filled value (estimate)', fmt(r.predictions[idx], 2)]);
-      rows.push(['= baseline', fmt(r.baseline[idx], 2)]);
-      const raw = r.baseline[idx] + (r.rank > 0 ? dotFactors(r.rowFactors, r.colFactors, row, col, r.rank) : 0);
-      const clipped = r.settings.model === 'lowrank' && (raw < m.scale.min || raw > m.scale.max);
-      if (r.settings.model === 'lowrank') rows.push(['+ interaction term', fmt(raw - r.baseline[idx], 2)]);
-      if (clipped) rows.push(['clipped to the scale from', fmt(raw, 2)]);
-      const spread = run.trust?.spread[idx] ?? r.spread?.[idx];
-      rows.push(['Spread (std. dev.)', fmt(spread, 2)]);
-      if (ex) {
-        const top = ex.contributions.slice(0, 5);
-        if (top.length) {
-          const table = el('table', { className: 'rf-table', testid: 'cell-contributors' }, [
-            el('tr', {}, [el('th', {}, ['Observed in this row']), el('th', {}, ['value']), el('th', {}, ['adds'])]),
-            ...top.map((c) =>
-              el('tr', {}, [el('td', {}, [m.colLabels[c.col]]), el('td', {}, [formatObserved(c.value, m.scale)]), el('td', {}, [(c.contribution >= 0 ? '+' : '') + c.contribution.toFixed(2)])]),
-            ),
-          ]);
-          parts.push(
-            el('h3', {}, ['What moved it most']),
-            el('p', { className: 'rf-hint' }, ['Each observed cell in the row adds its weight × (value − baseline); together they make up the interaction term (exactly so once the fit has settled).']),
-            table,
-          );
-        }
+      const d = decomposeCell(m.values, r, m.scale, row, col);
+      rows.push(['Filled value (estimate)', fmt(r.predictions[idx], 3)]);
+      if (d) {
+        d.terms.forEach((t, n) => rows.push([`${n === 0 ? '=' : '+'} ${t.label}`, fmt(t.value, 3)]));
+        termValues = d.terms.map((t) => t.value);
       }
+      const spread = run.trust?.spread[idx] ?? r.spread?.[idx];
+      if (r.settings.model === 'gaussian') rows.push(['Conditional spread (std. dev.)', fmt(spread, 2)]);
+      else rows.push(['Fold-model spread', fmt(spread, 2)]);
+      const shares = d?.shares;
+      const ex = r.settings.model === 'lowrank' ? explainCell(m.values, r, row, col) : undefined;
+      const top = shares
+        ? shares.slice(0, 5).map((c) => ({ label: r.settings.model === 'gaussian' && r.settings.transpose ? m.rowLabels[c.row] : m.colLabels[c.col], value: c.value, contribution: c.contribution }))
+        : (ex?.contributions.slice(0, 5).map((c) => ({ label: m.colLabels[c.col], value: c.value, contribution: c.contribution })) ?? []);
+      if (top.length) {
+        const table = el('table', { className: 'rf-table', testid: 'cell-contributors' }, [
+          el('tr', {}, [el('th', {}, [shares && r.settings.model === 'gaussian' && r.settings.transpose ? 'Observed in this column' : 'Observed in this row']), el('th', {}, ['value']), el('th', {}, ['adds'])]),
+          ...top.map((c) => el('tr', {}, [el('td', {}, [c.label]), el('td', {}, [formatObserved(c.value, m.scale)]), el('td', {}, [(c.contribution >= 0 ? '+' : '') + c.contribution.toFixed(3)])])),
+        ]);
+        parts.push(
+          el('h3', {}, ['What moved it most']),
+          el('p', { className: 'rf-hint' }, [
+            shares
+              ? 'Each observed cell adds its regression weight × (value − its column mean μ); together they make the regression term above exactly.'
+              : 'Each observed cell in the row adds its weight × (value − baseline); together they make up the interaction term (exactly so once the fit has settled).',
+          ]),
+          table,
+        );
+      }
+      parts.push(
+        el('p', { className: 'rf-hint', testid: 'cell-spread-note' }, [
+          r.settings.model === 'gaussian'
+            ? 'Conditional spread: the Gaussian model’s own standard deviation of this cell given the row’s observed cells. It is not a cross-validated error.'
+            : 'Fold-model spread: how much this estimate moves between 5 refits, each leaving out a fifth of the observed cells. It measures the model’s stability, not its error: it is not an error bar (see the cross-validated RMSE in the Runs tab).',
+        ]),
+        el('p', { className: 'rf-hint' }, ['Terms are shown to 3 decimals; they add up to the value before rounding.']),
+      );
     }
     rows.push(['Support', `${rowObs} observed in the row, ${colObs} in the column`]);
     if (matches && run.trust) {
       if (run.trust.weakRows.includes(row)) rows.push(['Caution', `row has fewer observed values than the rank (${run.result.rank})`]);
       if (run.trust.weakCols.includes(col)) rows.push(['Caution', `column has fewer observed values than the rank (${run.result.rank})`]);
     }
-    const dl = el('table', { className: 'rf-table rf-kv' }, rows.map(([k, v]) => el('tr', {}, [el('td', {}, [k]), el('td', {}, [v])])));
+    const dl = el('table', { className: 'rf-table rf-kv', testid: 'cell-facts' }, rows.map(([k, v]) => el('tr', {}, [el('td', {}, [k]), el('td', {}, [v])])));
+    // The exact terms, for whoever checks that they add up (the end-to-end tests do).
+    if (termValues) dl.dataset.terms = JSON.stringify(termValues);
     parts.splice(1, 0, dl);
     body.replaceChildren(...parts);
   };

@@ -16,14 +16,49 @@ import type { Run } from './runStore';
 export function baselineLayer(result: FitResult): BaselineLayer {
   const s = result.settings;
   if (s.model === 'gaussian') {
-    return { row: null, col: result.colBaseline, colLabel: 'Column mean (μ)' };
+    return {
+      row: null,
+      col: result.colBaseline,
+      colLabel: 'Column mean (μ)',
+      colTooltip: 'The Gaussian model’s estimate of each column’s mean μ. A filled value is μ plus the regression on the observed cells of its row (Cell tab).',
+    };
   }
   const usesRow = s.centering === 'row' || s.centering === 'both';
   const usesCol = s.centering === 'column' || s.centering === 'both';
+  const words: Record<typeof s.centering, { rowLabel: string; rowTooltip: string; colLabel: string; colTooltip: string }> = {
+    none: {
+      rowLabel: 'Baseline',
+      rowTooltip: 'Centering none: every baseline is 0, so a filled value is the interaction term alone.',
+      colLabel: 'Column baseline',
+      colTooltip: '',
+    },
+    row: {
+      rowLabel: 'Row mean',
+      rowTooltip: 'The mean of the row’s observed ratings: the baseline of every cell in the row. A filled value is this plus the interaction term.',
+      colLabel: 'Column baseline',
+      colTooltip: '',
+    },
+    column: {
+      rowLabel: 'Baseline',
+      rowTooltip: 'Centering by column: the baseline is in the bottom row.',
+      colLabel: 'Column mean',
+      colTooltip: 'The mean of the column’s observed ratings: the baseline of every cell in the column. A filled value is this plus the interaction term.',
+    },
+    both: {
+      rowLabel: 'Row part',
+      rowTooltip: 'The row’s part of the baseline: global mean + the row’s offset. A cell’s baseline adds its column’s offset (bottom row); a filled value adds the interaction term to that.',
+      colLabel: 'Column offset',
+      colTooltip: 'The column’s offset from the global mean (shrunk toward 0). A cell’s baseline is the row part (right-hand column) + this offset.',
+    },
+  };
+  const w = words[s.centering];
   return {
     row: usesRow ? result.rowBaseline : new Float64Array(result.rows).fill(s.centering === 'none' ? 0 : NaN),
     col: usesCol ? result.colBaseline : null,
-    colLabel: s.centering === 'both' ? 'Column offset' : 'Column baseline',
+    colLabel: w.colLabel,
+    rowLabel: w.rowLabel,
+    rowTooltip: w.rowTooltip,
+    ...(usesCol ? { colTooltip: w.colTooltip } : {}),
   };
 }
 

@@ -71,4 +71,6 @@ export interface FitResult {
   elapsedMs: number;
   /** Row-major per-cell spread (std. dev.) when computed; NaN where unknown. */
   spread?: Float64Array;
+  /** Gaussian family: the fitted covariance Σ of the variables (p × p, row-major), as used for the conditional means. */
+  covariance?: Float64Array;
 }

@@ -116,4 +116,71 @@ describe('issue 12 in the browser host', () => {
       expect([await stored(page, 5, 0), await stored(page, 5, 1)]).toEqual(before);
     });
   });
+
+  describe('decompositions in the Cell tab', () => {
+    /** Fill with these settings through the Model tab's controls, then read a blank cell's terms. */
+    async function fillAndDecompose(settings: Record<string, unknown>) {
+      const before = await page.evaluate(() => (window as unknown as { rankfillApp: { runs: { runs: unknown[] } } }).rankfillApp.runs.runs.length);
+      await page.evaluate((s) => {
+        const app = (window as unknown as { rankfillApp: { model: { apply(s: unknown): void; settings(): unknown } } }).rankfillApp;
+        app.model.apply({ ...(app.model.settings() as object), ...s });
+      }, settings);
+      await page.click('[data-testid=tab-model]');
+      await page.click('[data-testid=fill-button]');
+      await expect.poll(() => page.evaluate(() => (window as unknown as { rankfillApp: { runs: { runs: unknown[] } } }).rankfillApp.runs.runs.length), { timeout: 30_000 }).toBe(before + 1);
+      // Blank cells of the sample, checked against the engine's prediction for each.
+      const blanks: [number, number][] = [];
+      for (let i = 0; i < 8 && blanks.length < 3; i++) for (let j = 0; j < 6 && blanks.length < 3; j++) if (cellOf(i, j) === '' && i > 5) blanks.push([i, j]);
+      const out: { sum: number; prediction: number; labels: string[] }[] = [];
+      for (const [i, j] of blanks) {
+        await cell(page, i, j).click();
+        await page.click('[data-testid=tab-cell]');
+        await page.waitForSelector('[data-testid=cell-facts][data-terms]');
+        out.push(
+          await page.evaluate(([r, c]) => {
+            const facts = document.querySelector<HTMLElement>('[data-testid=cell-facts]')!;
+            const terms = JSON.parse(facts.dataset.terms!) as number[];
+            const app = (window as unknown as { rankfillApp: { runs: { shown: { result: { predictions: Float64Array; cols: number } } } } }).rankfillApp;
+            const res = app.runs.shown.result;
+            const labels = [...facts.querySelectorAll('tr td:first-child')].map((td) => td.textContent ?? '');
+            return { sum: terms.reduce((a, b) => a + b, 0), prediction: res.predictions[r * res.cols + c], labels };
+          }, [i, j] as const),
+        );
+      }
+      return out;
+    }
+
+    for (const centering of ['none', 'row', 'column', 'both'] as const) {
+      it(`low-rank, centering ${centering}: the shown terms add up to the engine's prediction (1e-9)`, async () => {
+        const cells = await fillAndDecompose({ model: 'lowrank', centering, rank: 2, lambda: 1 });
+        expect(cells.length).toBe(3);
+        for (const c of cells) {
+          expect(Math.abs(c.sum - c.prediction)).toBeLessThan(1e-9);
+          expect(c.labels.some((l) => /^[=+] interaction \(hidden traits\)$/.test(l))).toBe(true);
+          if (centering === 'both') expect(c.labels.slice(1, 4)).toEqual(['= global mean', '+ row offset', '+ column offset']);
+        }
+        // The side column says what it holds under this centering.
+        if (centering === 'both') expect(await page.textContent(`.ag-header-cell[col-id="rowBaseline"]`)).toContain('Row part');
+        if (centering === 'row') expect(await page.textContent(`.ag-header-cell[col-id="rowBaseline"]`)).toContain('Row mean');
+      });
+    }
+
+    it('Gaussian: column mean μ + the regression on the row’s observed cells add up to the prediction (1e-9)', async () => {
+      const cells = await fillAndDecompose({ model: 'gaussian', shrinkage: 0.05, transpose: false });
+      for (const c of cells) {
+        expect(Math.abs(c.sum - c.prediction)).toBeLessThan(1e-9);
+        expect(c.labels[1]).toBe('= column mean μ (the model’s)');
+        expect(c.labels[2]).toMatch(/^\+ regression on the \d+ observed cells of this row$/);
+      }
+      expect(await page.textContent('[data-testid=cell-spread-note]')).toContain('not a cross-validated error');
+      await page.screenshot({ path: '/tmp/i12-cell-gaussian.png' });
+    });
+
+    it('the low-rank spread is labelled as the fold-model spread, not an error bar', async () => {
+      await fillAndDecompose({ model: 'lowrank', centering: 'both', rank: 2, lambda: 1 });
+      expect(await page.textContent('[data-testid=cell-facts]')).toContain('Fold-model spread');
+      expect(await page.textContent('[data-testid=cell-spread-note]')).toContain('it is not an error bar');
+      await page.screenshot({ path: '/tmp/i12-cell-lowrank.png' });
+    });
+  });
 });

@@ -14,6 +14,7 @@
  *   rowBaseline / colBaseline  μ on the variable axis, zeros on the other
  *   globalMean   mean of all observed values
  *   objectiveTrace  observed-data log-likelihood after each EM iteration
+ *   covariance   Σ of the last E-step (the one that made the conditional means)
  *   rank 0, empty factors.
  * Errors: FitFailedError when the model refuses the matrix (limits.ts) or a setting is
  * out of range; FitCancelledError when shouldStop returns true (checked every iteration).
@@ -142,5 +143,6 @@ export function fitGaussian(matrix: RatingMatrix, settings: GaussianSettings, op
     converged: em.converged,
     elapsedMs: Date.now() - t0,
     spread,
+    covariance: new Float64Array(em.sigma),
   };
 }
