@@ -122,8 +122,9 @@ describe('issue 12 in the browser host', () => {
     async function fillAndDecompose(settings: Record<string, unknown>) {
       const before = await page.evaluate(() => (window as unknown as { rankfillApp: { runs: { runs: unknown[] } } }).rankfillApp.runs.runs.length);
       await page.evaluate((s) => {
-        const app = (window as unknown as { rankfillApp: { model: { apply(s: unknown): void; settings(): unknown } } }).rankfillApp;
-        app.model.apply({ ...(app.model.settings() as object), ...s });
+        const app = (window as unknown as { rankfillApp: { settings: { set(s: unknown): void; state: Record<string, object> } } }).rankfillApp;
+        const family = (s as { model: string }).model === 'gaussian' ? 'gaussian' : 'lowRank';
+        app.settings.set({ ...app.settings.state[family], ...s });
       }, settings);
       await page.click('[data-testid=tab-model]');
       await page.click('[data-testid=fill-button]');
