@@ -13,6 +13,8 @@ import { mountCellPanel } from './panels/cellPanel';
 import { mountCenteringPanel } from './panels/centeringPanel';
 import { mountTuningPanel } from './panels/tuningPanel';
 import { createExportDialog } from './panels/exportDialog';
+import { createReportDialog } from './panels/reportDialog';
+import { StudyRecord } from './report/studyRecord';
 import { ModelPanel } from './panels/modelPanel';
 import { Notice } from './panels/notice';
 import type { PanelContext } from './panels/panelContext';
@@ -36,6 +38,7 @@ const byTestId = <T extends HTMLElement>(id: string): T => {
 export interface App extends PanelContext {
   openDocument(doc: DocumentPayload): void;
   exportDialog: { open(): Promise<void> };
+  reportDialog: { open(): Promise<void> };
   editing: Editing;
 }
 
@@ -79,7 +82,8 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   view.subscribe((changed) => {
     if (changed.has('overlayVisible')) grid.setLayers({ overlayVisible: view.state.overlayVisible });
   });
-  const ctx: PanelContext = { bridge, store, runs, controller, grid, notice, settings, view, side };
+  const record = new StudyRecord(store);
+  const ctx: PanelContext = { bridge, store, runs, controller, grid, notice, settings, view, side, record };
   mountRunsPanel(runsRoot, ctx);
   cellPanel = mountCellPanel(cellRoot, ctx);
   mountCenteringPanel(centeringRoot, ctx);
@@ -108,9 +112,12 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   };
   const exportDialog = createExportDialog(ctx, info.version);
   byTestId('export-button').addEventListener('click', () => void exportDialog.open());
+  const reportDialog = createReportDialog(ctx, record, info.version);
+  byTestId('report-button').addEventListener('click', () => void reportDialog.open());
   bridge.on('menu.command', ({ command }) => {
     if (command === 'model.fill') void controller.fill(settings.value);
     else if (command === 'file.export') void exportDialog.open();
+    else if (command === 'file.report') void reportDialog.open();
     else if (command === 'model.compareCentering') side?.select('centering');
     else if (command === 'model.tune') side?.select('tuning');
     else if (command === 'view.toggleOverlay') view.set({ overlayVisible: !view.state.overlayVisible });
@@ -177,7 +184,7 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   }
   refreshStatus();
   void editing.files.offerRecovery();
-  return { ...ctx, openDocument, exportDialog, editing };
+  return { ...ctx, openDocument, exportDialog, reportDialog, editing };
 }
 
 export function messageOf(err: unknown): string {

@@ -29,6 +29,7 @@ export function mountCenteringPanel(root: HTMLElement, ctx: PanelContext): void 
   type Plan = ReturnType<typeof planCenteringComparison> & { folds: number };
   const runner = new GridRunPanel<Plan>(ctx, {
     prefix: 'centering',
+    recordAs: 'centering',
     runLabel: 'Compare centering',
     idleText: 'Not run yet. Uses the rank and λ now set in the Model tab.',
     plan: () => {

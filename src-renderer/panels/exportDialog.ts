@@ -17,11 +17,8 @@ import { confirmDialog } from '../dialogs/modal';
 import { runFitsDocument } from '../runs/runMatch';
 import { el, field, numberInput } from './dom';
 import type { PanelContext } from './panelContext';
+import { sha256Hex } from './sha256';
 
-async function sha256Hex(text: string): Promise<string> {
-  const digest = await crypto.subtle.digest('SHA-256', new TextEncoder().encode(text));
-  return Array.from(new Uint8Array(digest), (b) => b.toString(16).padStart(2, '0')).join('');
-}
 
 const KIND_WORDS: Record<ExportKind, [string, string]> = {
   'filled-wide': ['Filled matrix', 'observed ratings plus estimates in the blank cells, one row per row label'],
@@ -118,6 +115,7 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
       const reply = await ctx.bridge.call('export.write', { path: path.value.trim(), text, overwrite, ...(sidecarText ? { sidecar: sidecarText } : {}) });
       if (reply.ok) {
         status.textContent = `Written: ${reply.path}${reply.sidecarPath ? ` and ${reply.sidecarPath}` : ''}.`;
+        ctx.record.addExport(run.id, { path: reply.path, sidecarPath: reply.sidecarPath, writtenAt: new Date().toISOString() });
         ctx.notice.show(`Exported to ${reply.path}. Filled values in it are model estimates.`);
       } else if (reply.reason === 'exists') {
         if (await confirmDialog('Replace the file?', `${reply.message}. Replace it (and its settings file)?`, 'Replace', 'Keep it', 'export-overwrite-dialog')) await doWrite(true);

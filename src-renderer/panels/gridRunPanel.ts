@@ -9,6 +9,7 @@ import type { TunePayload } from '../../src-shared/api';
 import type { FitSettings } from '../../src-shared/engine/types';
 import { JobEndedError } from '../bridge/jobTracker';
 import { el } from './dom';
+import type { GridKind } from '../report/studyRecord';
 import type { PanelContext } from './panelContext';
 
 export interface GridRunPlan {
@@ -30,6 +31,8 @@ export interface GridRunSpec<P extends GridRunPlan> {
   errorPrefix: string;
   staleText: { replaced: string; edited: string };
   render(reply: TunePayload, plan: P): void;
+  /** Keep the result for the study report under this name (with the data revision it was computed on). */
+  recordAs?: GridKind;
 }
 
 export class GridRunPanel<P extends GridRunPlan> {
@@ -121,6 +124,7 @@ export class GridRunPanel<P extends GridRunPlan> {
       return;
     }
     const token = ++this.runToken;
+    const revision = this.ctx.store.revision;
     this.stopRequested = false;
     this.jobId = null;
     this.setRunning(true);
@@ -146,6 +150,7 @@ export class GridRunPanel<P extends GridRunPlan> {
       this.dataChanged = null;
       this.progressText.textContent = this.spec.doneText(plan, reply);
       this.spec.render(reply, plan);
+      if (this.spec.recordAs) this.ctx.record.setGrid(this.spec.recordAs, reply, revision);
       this.results.hidden = false;
     } catch (err) {
       if (token !== this.runToken) return;

@@ -2,6 +2,7 @@
 import type { HostBridge } from '../bridge/hostBridge';
 import type { RatingGrid } from '../grid/ratingGrid';
 import type { FitController } from '../runs/fitController';
+import type { StudyRecord } from '../report/studyRecord';
 import type { RunStore } from '../runs/runStore';
 import type { DocumentStore } from '../state/documentStore';
 import type { SettingsStore } from '../state/settingsStore';
@@ -19,4 +20,6 @@ export interface PanelContext {
   settings: SettingsStore;
   view: ViewStore;
   side: SidePanel;
+  /** Results and exports the study report gathers (report/studyRecord.ts). */
+  record: StudyRecord;
 }

@@ -149,6 +149,7 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
   type Plan = Extract<ReturnType<typeof planTuning>, { ok: true }>;
   const runner = new GridRunPanel<Plan>(ctx, {
     prefix: 'tuning',
+    recordAs: 'tuning',
     runLabel: 'Run tuning',
     idleText: 'Not run yet.',
     plan: () => {

@@ -11,6 +11,11 @@ import { plotHeight, plotWidth, svg, text, yAxis, yScale, type Frame } from './s
 const MAX_BARS = 80;
 const MAX_BINS = 40;
 
+/** Long labels keep their start and their end ("Submi…sion 12"), since labels often differ only at the end. */
+export function shortLabel(label: string): string {
+  return label.length > 12 ? `${label.slice(0, 5)}…${label.slice(-6)}` : label;
+}
+
 export function countChartSvg(counts: Int32Array, labels: string[], what: 'row' | 'column', total: number, thinBelow: number, testid: string): string {
   return counts.length <= MAX_BARS ? barsSvg(counts, labels, what, total, thinBelow, testid) : histogramSvg(counts, what, total, testid);
 }
@@ -36,7 +41,7 @@ function barsSvg(counts: Int32Array, labels: string[], what: string, total: numb
     if (labelled) {
       const lx = x + bw / 2;
       const ly = f.top + plotHeight(f) + 8;
-      const short = labels[i].length > 12 ? `${labels[i].slice(0, 11)}…` : labels[i];
+      const short = shortLabel(labels[i]);
       body += text(lx, ly, short, { 'text-anchor': 'end', transform: `rotate(-55 ${lx.toFixed(2)} ${ly})`, 'font-size': 9.5 });
     }
   }

@@ -10,6 +10,7 @@ export type MenuCommand =
   | 'file.save'
   | 'file.saveAs'
   | 'file.export'
+  | 'file.report'
   | 'edit.undo'
   | 'edit.redo'
   | 'view.toggleOverlay'
@@ -59,6 +60,7 @@ export function appMenuTemplate(
         item('Keep Project', 'file.save', 'CmdOrCtrl+S'),
         item('Keep Project As…', 'file.saveAs', 'CmdOrCtrl+Shift+S'),
         item('Write Out Filled Matrix…', 'file.export', 'CmdOrCtrl+E'),
+        item('Write Study Report…', 'file.report'),
         { type: 'separator' },
         isMac ? { role: 'close', label: 'Close Window' } : { role: 'quit', label: 'Leave Rankfill' },
       ],

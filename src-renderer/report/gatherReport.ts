@@ -1,0 +1,54 @@
+/**
+ * Gathers the study report's input in the page: the shown run, its cross-validation beside
+ * the baselines alone (computed once per run and data state, on the evaluation lane), the
+ * centering comparison and tuning when they belong to the current data, the exports
+ * written from the run, and the input hash. The builder in src-shared/report does the rest.
+ */
+import { matrixFingerprintText } from '../../src-shared/io/exportFilled';
+import type { ReportInput } from '../../src-shared/report/reportInput';
+import { REPORT_FOLDS, reportEvaluationSettings } from '../../src-shared/report/reportEvaluation';
+import type { PanelContext } from '../panels/panelContext';
+import { sha256Hex } from '../panels/sha256';
+import type { Run } from '../runs/runStore';
+import type { StudyRecord } from './studyRecord';
+
+export interface GatherOptions {
+  appVersion: string;
+  reportPath: string;
+  onStep?: (done: number, total: number) => void;
+}
+
+export async function gatherReport(ctx: PanelContext, record: StudyRecord, run: Run, o: GatherOptions): Promise<ReportInput> {
+  const m = ctx.store.current;
+  let evaluation = record.evaluation(run.id);
+  if (!evaluation) {
+    const revision = ctx.store.revision;
+    evaluation = await ctx.controller.evaluateGrid(reportEvaluationSettings(run.settings), REPORT_FOLDS, run.settings.seed, o.onStep);
+    if (ctx.store.revision !== revision) throw new Error('The data changed while the report was being prepared; write the report again.');
+    record.setEvaluation(run.id, evaluation, revision);
+  }
+  const trace = run.result.objectiveTrace;
+  const source = ctx.store.filePath ?? (ctx.store.source.kind === 'sample' ? `sample “${ctx.store.source.name}”` : ctx.store.source.name || undefined);
+  return {
+    title: ctx.store.title,
+    ...(source ? { source } : {}),
+    app: { name: 'Rankfill', version: o.appVersion },
+    createdAt: new Date().toISOString(),
+    matrix: m,
+    inputSha256: await sha256Hex(matrixFingerprintText(m)),
+    run: {
+      label: `Run ${run.id}`,
+      settings: run.settings,
+      iterations: run.result.iterations,
+      converged: run.result.converged,
+      finalObjective: trace.length ? trace[trace.length - 1] : null,
+      objectiveTrace: trace,
+      refitsAfterEdits: run.refits,
+    },
+    evaluation,
+    centering: record.grid('centering'),
+    tuning: record.grid('tuning'),
+    exports: record.exportsOf(run.id),
+    reportPath: o.reportPath,
+  };
+}
