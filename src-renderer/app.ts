@@ -25,6 +25,11 @@ import { syncGridWithRuns } from './runs/gridSync';
 import { installRunPersistence } from './runs/runPersistence';
 import { FitController } from './runs/fitController';
 import { RunStore } from './runs/runStore';
+import { CommandRegistry } from './commands/commandRegistry';
+import { commandHandlers } from './commands/commandHandlers';
+import { installShortcuts } from './commands/shortcuts';
+import { helpDialog } from './dialogs/helpDialog';
+import { sampleDialog } from './dialogs/sampleDialog';
 import { DocumentStore } from './state/documentStore';
 import { SettingsStore } from './state/settingsStore';
 import { ViewStore } from './state/viewStore';
@@ -40,6 +45,7 @@ export interface App extends PanelContext {
   exportDialog: { open(): Promise<void> };
   reportDialog: { open(): Promise<void> };
   editing: Editing;
+  commands: CommandRegistry;
 }
 
 export async function startApp(bridge: HostBridge, styleNonce: string): Promise<App> {
@@ -114,14 +120,6 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   byTestId('export-button').addEventListener('click', () => void exportDialog.open());
   const reportDialog = createReportDialog(ctx, record, info.version);
   byTestId('report-button').addEventListener('click', () => void reportDialog.open());
-  bridge.on('menu.command', ({ command }) => {
-    if (command === 'model.fill') void controller.fill(settings.value);
-    else if (command === 'file.export') void exportDialog.open();
-    else if (command === 'file.report') void reportDialog.open();
-    else if (command === 'model.compareCentering') side?.select('centering');
-    else if (command === 'model.tune') side?.select('tuning');
-    else if (command === 'view.toggleOverlay') view.set({ overlayVisible: !view.state.overlayVisible });
-  });
 
   const openDocument = (doc: DocumentPayload) => {
     store.replace(matrixFromPayload(doc.matrix), doc.title, doc.source);
@@ -149,9 +147,8 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
     pickedSample = store.source.kind === 'sample' ? store.source.name : '';
     picker.value = pickedSample;
   });
-  picker.addEventListener('change', () => {
-    const id = picker.value;
-    void (editing ? editing.confirmLeave('Opening a sample set') : Promise.resolve(true))
+  const openSample = (id: string): Promise<void> =>
+    (editing ? editing.confirmLeave('Opening a sample set') : Promise.resolve(true))
       .then((go) => {
         if (go) return bridge.call('samples.open', { id });
         picker.value = pickedSample; // stayed: the picker shows what is open
@@ -162,8 +159,8 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
         pickedSample = id;
         openDocument(doc);
       })
-      .catch((err: unknown) => notice.show(messageOf(err), 'error'));
-  });
+      .catch((err: unknown) => void notice.show(messageOf(err), 'error'));
+  picker.addEventListener('change', () => void openSample(picker.value));
 
   // Editing, import with preview, project files and autosave (editing/installEditing.ts).
   editing = installEditing({
@@ -175,7 +172,40 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
     editBar: byTestId('edit-bar'),
     importInput: byTestId<HTMLInputElement>('import-file'),
     openDocument,
+    runCommand: (id, index) => commands.run(id, index),
   });
+
+  // One command registry for the menu, the shortcuts and the edit bar (commands/).
+  const importInput = byTestId<HTMLInputElement>('import-file');
+  const ed = editing;
+  const commands = new CommandRegistry(
+    commandHandlers({
+      edit: ed.commands,
+      files: {
+        save: () => ed.files.save(),
+        saveAs: () => ed.files.saveAs(),
+        open: () => ed.files.open(),
+        openRecent: (i) => ed.files.openRecent(i),
+        clearRecent: () => bridge.call('recent.clear', {}),
+        closeRequested: () => ed.files.closeRequested(),
+      },
+      chooseSample: async () => {
+        const id = await sampleDialog(samples, pickedSample);
+        if (id) await openSample(id);
+      },
+      chooseImportFile: () => importInput.click(),
+      openExport: () => exportDialog.open(),
+      openReport: () => reportDialog.open(),
+      toggleOverlay: () => view.set({ overlayVisible: !view.state.overlayVisible }),
+      toggleSidePanel: () => view.setLayout({ sideCollapsed: !view.state.layout.sideCollapsed }),
+      fill: () => controller.fill(settings.value),
+      showTab: (tab) => side?.select(tab),
+      showGuide: () => helpDialog(),
+    }),
+    (id, err) => notice.show(`${id}: ${messageOf(err)}`, 'error'),
+  );
+  bridge.on('menu.command', ({ command }) => void commands.runWire(command));
+  installShortcuts(commands, () => ed.isEditing());
 
   // First start: open the first sample.
   if (samples.length > 0) {
@@ -184,7 +214,7 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   }
   refreshStatus();
   void editing.files.offerRecovery();
-  return { ...ctx, openDocument, exportDialog, reportDialog, editing };
+  return { ...ctx, openDocument, exportDialog, reportDialog, editing, commands };
 }
 
 export function messageOf(err: unknown): string {

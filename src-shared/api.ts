@@ -7,6 +7,7 @@
  * replies and events again on arrival. Numbers cross the boundary as JSON, so a
  * missing cell travels as `null` (never NaN, never 0).
  */
+import { parseCommand } from './commands';
 import { z } from 'zod';
 
 /** Bumped when the contract changes incompatibly. */
@@ -422,7 +423,7 @@ export const apiEvents = {
   'fit.cancelled': z.object({ jobId }),
   'fit.error': z.object({ jobId, message: z.string() }),
   /** A menu command chosen in the Electron application menu. */
-  'menu.command': z.object({ command: z.string().min(1).max(100) }),
+  'menu.command': z.object({ command: z.string().min(1).max(100).refine((c) => parseCommand(c) !== undefined, 'not a Rankfill command') }),
 } as const;
 
 export type ApiEventName = keyof typeof apiEvents;

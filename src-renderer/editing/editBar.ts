@@ -7,8 +7,7 @@ import { el } from '../dialogs/modal';
 import { describeScale } from '../grid/cellText';
 import type { HostBridge } from '../bridge/hostBridge';
 import type { DocumentStore } from '../state/documentStore';
-import type { EditCommands } from './editCommands';
-import type { ProjectFiles } from './projectFiles';
+import type { CommandId } from '../../src-shared/commands';
 
 function button(label: string, testId: string, onClick: () => void, title = ''): HTMLButtonElement {
   const b = el('button', { type: 'button', class: 'rf-button rf-edit-button', 'data-testid': testId, text: label, title });
@@ -17,7 +16,7 @@ function button(label: string, testId: string, onClick: () => void, title = ''):
 }
 
 /** A small drop-down menu built on <details>; closes after a choice. */
-function menu(label: string, testId: string, items: ([string, string, () => void] | 'sep')[], onOpen?: (list: HTMLElement) => void): HTMLElement {
+function menu(label: string, testId: string, items: ([string, string, () => void] | 'sep')[], onOpen?: (list: HTMLElement) => void): HTMLDetailsElement {
   const list = el('div', { class: 'rf-menu-list', role: 'menu' });
   const details = el('details', { class: 'rf-menu', 'data-testid': testId }, el('summary', { class: 'rf-button rf-edit-button', text: label }), list);
   const fill = () => {
@@ -47,30 +46,31 @@ function menu(label: string, testId: string, items: ([string, string, () => void
   return details;
 }
 
-export function mountEditBar(root: HTMLElement, deps: { store: DocumentStore; commands: EditCommands; files: ProjectFiles; bridge: HostBridge }): void {
-  const { store, commands: c, files, bridge } = deps;
-  const undo = button('Undo', 'undo-button', () => c.undo());
-  const redo = button('Redo', 'redo-button', () => c.redo());
-  const scale = button('', 'scale-button', () => void c.editScale(), 'Change the rating scale (minimum, maximum, step)');
+export function mountEditBar(root: HTMLElement, deps: { store: DocumentStore; bridge: HostBridge; run: (id: CommandId, index?: number) => void }): void {
+  const { store, bridge, run } = deps;
+  const cmd = (id: CommandId) => () => run(id);
+  const undo = button('Undo', 'undo-button', cmd('edit.undo'));
+  const redo = button('Redo', 'redo-button', cmd('edit.redo'));
+  const scale = button('', 'scale-button', cmd('edit.scale'), 'Change the rating scale (minimum, maximum, step)');
   const rowsCols = menu('Rows & columns ▾', 'rows-cols-menu', [
-    ['Add row below', 'cmd-add-row', () => c.addRow()],
-    ['Add column to the right', 'cmd-add-column', () => c.addColumn()],
-    ['Rename row…', 'cmd-rename-row', () => void c.renameRow()],
-    ['Rename column…', 'cmd-rename-column', () => void c.renameColumn()],
-    ['Delete selected rows…', 'cmd-delete-rows', () => void c.deleteRows()],
-    ['Delete selected columns…', 'cmd-delete-columns', () => void c.deleteColumns()],
+    ['Add row below', 'cmd-add-row', cmd('edit.addRow')],
+    ['Add column to the right', 'cmd-add-column', cmd('edit.addColumn')],
+    ['Rename row…', 'cmd-rename-row', cmd('edit.renameRow')],
+    ['Rename column…', 'cmd-rename-column', cmd('edit.renameColumn')],
+    ['Delete selected rows…', 'cmd-delete-rows', cmd('edit.deleteRows')],
+    ['Delete selected columns…', 'cmd-delete-columns', cmd('edit.deleteColumns')],
     'sep',
-    ['Move row up', 'cmd-row-up', () => c.moveRow(-1)],
-    ['Move row down', 'cmd-row-down', () => c.moveRow(1)],
-    ['Move column left', 'cmd-col-left', () => c.moveColumn(-1)],
-    ['Move column right', 'cmd-col-right', () => c.moveColumn(1)],
+    ['Move row up', 'cmd-row-up', cmd('edit.moveRowUp')],
+    ['Move row down', 'cmd-row-down', cmd('edit.moveRowDown')],
+    ['Move column left', 'cmd-col-left', cmd('edit.moveColumnLeft')],
+    ['Move column right', 'cmd-col-right', cmd('edit.moveColumnRight')],
     'sep',
-    ['Sort rows by label, A → Z', 'cmd-sort-label-asc', () => c.sortByLabel('asc')],
-    ['Sort rows by label, Z → A', 'cmd-sort-label-desc', () => c.sortByLabel('desc')],
-    ['Sort rows by this column, low → high', 'cmd-sort-col-asc', () => c.sortByColumn('asc')],
-    ['Sort rows by this column, high → low', 'cmd-sort-col-desc', () => c.sortByColumn('desc')],
+    ['Sort rows by label, A → Z', 'cmd-sort-label-asc', cmd('edit.sortByLabelAsc')],
+    ['Sort rows by label, Z → A', 'cmd-sort-label-desc', cmd('edit.sortByLabelDesc')],
+    ['Sort rows by this column, low → high', 'cmd-sort-col-asc', cmd('edit.sortByColumnAsc')],
+    ['Sort rows by this column, high → low', 'cmd-sort-col-desc', cmd('edit.sortByColumnDesc')],
   ]);
-  const swap = button('Swap rows ⇄ columns', 'transpose-button', () => c.transpose(), 'Rows become columns and columns become rows (one undoable change)');
+  const swap = button('Swap rows ⇄ columns', 'transpose-button', cmd('edit.transpose'), 'Rows become columns and columns become rows (one undoable change)');
 
   const recentItems: [string, string, () => void][] = [];
   const recent = menu('Recent ▾', 'recent-menu', [], (list) => {
@@ -85,7 +85,7 @@ export function mountEditBar(root: HTMLElement, deps: { store: DocumentStore; co
           const b = el('button', { type: 'button', role: 'menuitem', 'data-testid': `recent-${i}`, text: f.path, title: `last opened ${new Date(f.openedAt).toLocaleString('en-GB')}` });
           b.addEventListener('click', () => {
             (list.parentElement as HTMLDetailsElement).open = false;
-            void files.open(f.path);
+            run('file.openRecent', i);
           });
           list.append(b);
         });
@@ -100,10 +100,10 @@ export function mountEditBar(root: HTMLElement, deps: { store: DocumentStore; co
     el(
       'div',
       { class: 'rf-edit-group' },
-      button('Open project…', 'open-project-button', () => void files.open(), 'Open a .rankfill project file'),
+      button('Open project…', 'open-project-button', cmd('file.openProject'), 'Open a .rankfill project file (Ctrl+Shift+O)'),
       recent,
-      button('Keep', 'save-button', () => void files.save(), 'Keep the project in its file (Ctrl+S)'),
-      button('Keep as…', 'save-as-button', () => void files.saveAs(), 'Keep the project in a new file (Ctrl+Shift+S)'),
+      button('Keep', 'save-button', cmd('file.save'), 'Keep the project in its file (Ctrl+S)'),
+      button('Keep as…', 'save-as-button', cmd('file.saveAs'), 'Keep the project in a new file (Ctrl+Shift+S)'),
     ),
   );
 

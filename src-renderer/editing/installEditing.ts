@@ -1,9 +1,11 @@
 /**
  * Sets up the editing and project-file half of the workbench on a started page:
- * selection, clipboard, edit bar, shortcuts, import with preview, project files,
- * autosave and menu commands. Returns what app.ts needs from it.
+ * selection, clipboard, edit bar, import with preview, project files and
+ * autosave. Returns what app.ts needs from it (the commands behind the menu,
+ * shortcuts and edit bar are in commands/).
  */
 import type { DocumentPayload } from '../../src-shared/api';
+import type { CommandId } from '../../src-shared/commands';
 import type { HostBridge } from '../bridge/hostBridge';
 import { importPreviewDialog } from '../dialogs/importPreview';
 import type { RatingGrid } from '../grid/ratingGrid';
@@ -14,7 +16,6 @@ import { installClipboard, pasteText, selectionText } from './clipboard';
 import { mountEditBar } from './editBar';
 import { EditCommands } from './editCommands';
 import { ProjectFiles } from './projectFiles';
-import { installShortcuts } from './shortcuts';
 
 /** Largest ratings file the page reads for import (the main side checks the same limit): 50 MB. */
 export const IMPORT_LIMIT_BYTES = 50 * 1024 * 1024;
@@ -28,6 +29,8 @@ export interface EditingDeps {
   editBar: HTMLElement;
   importInput: HTMLInputElement;
   openDocument: (doc: DocumentPayload) => void;
+  /** Runs a command through the page's registry (the edit bar's buttons use it). */
+  runCommand: (id: CommandId, index?: number) => void;
 }
 
 export interface Editing {
@@ -41,6 +44,8 @@ export interface Editing {
   /** For tests and menus: paste text at the selection; copy the selection as text. */
   paste(text: string): Promise<boolean>;
   copyText(): string | null;
+  /** A cell editor is open in the grid. */
+  isEditing(): boolean;
 }
 
 export function installEditing(d: EditingDeps): Editing {
@@ -50,8 +55,7 @@ export function installEditing(d: EditingDeps): Editing {
   installClipboard(clipDeps);
   const commands = new EditCommands({ store: d.store, selection, notice: d.notice });
   const files = new ProjectFiles(d.bridge, d.store, d.notice);
-  mountEditBar(d.editBar, { store: d.store, commands, files, bridge: d.bridge });
-  installShortcuts({ commands, files, isEditing });
+  mountEditBar(d.editBar, { store: d.store, bridge: d.bridge, run: d.runCommand });
 
   const importWithPreview = async (fileName: string, text: string, bytes: number): Promise<boolean> => {
     const doc = await importPreviewDialog(fileName, text, bytes, (req) => d.bridge.call('document.previewImport', req));
@@ -87,30 +91,11 @@ export function installEditing(d: EditingDeps): Editing {
     });
   }
 
-  d.bridge.on('menu.command', ({ command }) => {
-    const run: Record<string, () => void> = {
-      'file.save': () => void files.save(),
-      'file.saveAs': () => void files.saveAs(),
-      'file.openProject': () => void files.open(),
-      'file.clearRecent': () => void d.bridge.call('recent.clear', {}),
-      'file.import': () => d.importInput.click(),
-      'edit.undo': () => commands.undo(),
-      'edit.redo': () => commands.redo(),
-      'edit.addRow': () => commands.addRow(),
-      'edit.addColumn': () => commands.addColumn(),
-      'edit.transpose': () => commands.transpose(),
-      'edit.scale': () => void commands.editScale(),
-      'app.closeRequested': () => void files.closeRequested(),
-    };
-    const recent = /^file\.openRecent\.(\d+)$/.exec(command);
-    if (recent) void files.openRecent(Number(recent[1]));
-    else run[command]?.();
-  });
-
   return {
     selection,
     commands,
     files,
+    isEditing,
     confirmLeave: (doing) => files.confirmLeave(doing),
     importWithPreview,
     paste: (text) => pasteText(clipDeps, text),

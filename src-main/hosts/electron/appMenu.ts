@@ -3,30 +3,10 @@
  * forwarded to the page as `menu.command` events; the page owns the document.
  */
 import type { MenuItemConstructorOptions } from 'electron';
+import { COMMAND_SHORTCUTS, commandWire, parseCommand, type CommandWire } from '../../../src-shared/commands';
 
-export type MenuCommand =
-  | 'file.openSample'
-  | 'file.import'
-  | 'file.save'
-  | 'file.saveAs'
-  | 'file.export'
-  | 'file.report'
-  | 'edit.undo'
-  | 'edit.redo'
-  | 'view.toggleOverlay'
-  | 'model.fill'
-  | 'model.compareCentering'
-  | 'model.tune'
-  | 'help.guide'
-  // documents and projects (issue 4)
-  | 'file.openProject'
-  | `file.openRecent.${number}`
-  | 'file.clearRecent'
-  | 'edit.addRow'
-  | 'edit.addColumn'
-  | 'edit.transpose'
-  | 'edit.scale'
-  | 'app.closeRequested';
+/** What a menu item sends: one of the command ids in src-shared/commands.ts. */
+export type MenuCommand = CommandWire;
 
 export function appMenuTemplate(
   send: (command: MenuCommand) => void,
@@ -34,9 +14,10 @@ export function appMenuTemplate(
   recentProjects: readonly string[] = [],
   editLabels: { undo?: string | null; redo?: string | null } = {},
 ): MenuItemConstructorOptions[] {
-  const item = (label: string, command: MenuCommand, accelerator?: string): MenuItemConstructorOptions => ({
+  // The shortcut shown is the command's first one in src-shared/commands.ts (the page reads the same list).
+  const item = (label: string, command: MenuCommand): MenuItemConstructorOptions => ({
     label,
-    accelerator,
+    accelerator: COMMAND_SHORTCUTS[parseCommand(command)?.id ?? 'file.openRecent']?.[0],
     click: () => send(command),
   });
   return [
@@ -44,22 +25,22 @@ export function appMenuTemplate(
       label: '&File',
       submenu: [
         item('Open a Sample Set…', 'file.openSample'),
-        item('Bring In Ratings File…', 'file.import', 'CmdOrCtrl+O'),
-        item('Open Project…', 'file.openProject', 'CmdOrCtrl+Shift+O'),
+        item('Bring In Ratings File…', 'file.import'),
+        item('Open Project…', 'file.openProject'),
         {
           label: 'Recent Projects',
           submenu: [
             ...(recentProjects.length === 0
               ? [{ label: '(none yet)', enabled: false } as MenuItemConstructorOptions]
-              : recentProjects.slice(0, 10).map((p, i) => item(p, `file.openRecent.${i}`))),
+              : recentProjects.slice(0, 10).map((p, i) => item(p, commandWire('file.openRecent', i)))),
             { type: 'separator' },
             { ...item('Forget Recent Projects', 'file.clearRecent'), enabled: recentProjects.length > 0 },
           ],
         },
         { type: 'separator' },
-        item('Keep Project', 'file.save', 'CmdOrCtrl+S'),
-        item('Keep Project As…', 'file.saveAs', 'CmdOrCtrl+Shift+S'),
-        item('Write Out Filled Matrix…', 'file.export', 'CmdOrCtrl+E'),
+        item('Keep Project', 'file.save'),
+        item('Keep Project As…', 'file.saveAs'),
+        item('Write Out Filled Matrix…', 'file.export'),
         item('Write Study Report…', 'file.report'),
         { type: 'separator' },
         isMac ? { role: 'close', label: 'Close Window' } : { role: 'quit', label: 'Leave Rankfill' },
@@ -68,8 +49,8 @@ export function appMenuTemplate(
     {
       label: '&Edit',
       submenu: [
-        item(editLabels.undo ? `Take Back: ${editLabels.undo}` : 'Take Back', 'edit.undo', 'CmdOrCtrl+Z'),
-        item(editLabels.redo ? `Bring Back: ${editLabels.redo}` : 'Bring Back', 'edit.redo', 'CmdOrCtrl+Shift+Z'),
+        item(editLabels.undo ? `Take Back: ${editLabels.undo}` : 'Take Back', 'edit.undo'),
+        item(editLabels.redo ? `Bring Back: ${editLabels.redo}` : 'Bring Back', 'edit.redo'),
         { type: 'separator' },
         { role: 'cut', label: 'Cut Cells' },
         { role: 'copy', label: 'Copy Cells' },
@@ -84,7 +65,8 @@ export function appMenuTemplate(
     {
       label: '&View',
       submenu: [
-        item('Show or Hide Estimates', 'view.toggleOverlay', 'CmdOrCtrl+H'),
+        item('Show or Hide Estimates', 'view.toggleOverlay'),
+        item('Show or Hide the Side Panel', 'view.toggleSidePanel'),
         { type: 'separator' },
         { role: 'resetZoom', label: 'Actual Size' },
         { role: 'zoomIn', label: 'Larger Text' },
@@ -94,14 +76,14 @@ export function appMenuTemplate(
     {
       label: '&Model',
       submenu: [
-        item('Fill Blank Cells', 'model.fill', 'CmdOrCtrl+Enter'),
+        item('Fill Blank Cells', 'model.fill'),
         item('Weigh Centering Choices', 'model.compareCentering'),
         item('Search Rank and Regularization…', 'model.tune'),
       ],
     },
     {
       label: '&Help',
-      submenu: [item('How Rankfill Fills Cells', 'help.guide', 'F1')],
+      submenu: [item('How Rankfill Fills Cells', 'help.guide')],
     },
   ];
 }
