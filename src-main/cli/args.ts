@@ -7,9 +7,9 @@
 import type { Centering, ModelFamily } from '../../src-shared/engine/types';
 
 export const USAGE = [
-  'usage: rankfill fill IN.csv --out OUT.csv [--layout filled|estimates|long] [--decimals D] [--sidecar] [--mask] [--force]',
+  'usage: rankfill fill IN.csv --out OUT.csv [--layout filled|estimates|long] [--decimals D] [--level P] [--sidecar] [--mask] [--force]',
   '                [model options] [--scale MIN:MAX[:STEP]] [--long] [--duplicates last|average|refuse] [--json]',
-  '       rankfill evaluate IN.csv [model options] [--folds 5] [--json]',
+  '       rankfill evaluate IN.csv [model options] [--folds 5] [--level P] [--json]',
   '       rankfill tune IN.csv [--models lowrank,gaussian] [--ranks R,R,...] [--lambdas L,L,...]',
   '                [--centering none,row,column,both] [--shrinkages 0,0.05,0.1,0.2] [--transpose]',
   '                [--folds 5] [--seed S] [--iterations N] [--tolerance T] [--scale MIN:MAX[:STEP]] [--long] [--json]',
@@ -45,6 +45,16 @@ export const OPTIONS: readonly OptionSpec[] = [
   { name: 'tune', commands: ['report'], default: 'off', help: 'add the tuning grid (--ranks, --lambdas)' },
   { name: 'layout', value: 'filled|estimates|long', commands: ['fill'], default: 'filled (long with --long)', help: 'filled: wide, observed ratings plus estimates; estimates: wide, estimates only; long: row,column,value,source,baseline,spread (same writers as the window\'s export)' },
   { name: 'decimals', value: 'D', commands: ['fill', 'report'], default: 'full precision', help: 'round estimates to D decimals (observed ratings are written as read)' },
+  {
+    name: 'level',
+    value: 'P',
+    commands: ['fill', 'evaluate'],
+    default: { fill: 'none (no intervals)', evaluate: '0.8' },
+    help:
+      'interval level, 0.5–0.99: fill also fits the 5 fold models and gives every filled cell an interval meant to hold the true rating ' +
+      'in a share P of cells like the held-out ones (long layout: lower,upper columns; bounds inclusive, clipped to the scale); ' +
+      'evaluate reports the coverage and mean width of such intervals on each fold',
+  },
   { name: 'sidecar', commands: ['fill'], default: 'off', help: 'also write OUT.settings.json: settings, seed, iterations, objective, app version, time, hash of the input' },
   { name: 'mask', commands: ['fill'], default: 'off', help: 'with a wide layout, also write OUT.mask.csv saying "observed" or "filled" for every cell' },
   { name: 'force', commands: ['fill'], default: 'off', help: 'replace OUT (and its sidecar or mask) when it exists; without it an existing file is left untouched and the exit status is 2' },
@@ -73,7 +83,7 @@ const SUMMARY: Record<Command, string> = {
     'fit once and write every cell (observed values unchanged, missing ones estimated); without --model, --rank, ' +
     '--lambda, --centering, --shrinkage or --transpose the settings are chosen by a quick 3-fold cross-validation ' +
     '(rank 0 among the candidates) and the choice is printed',
-  evaluate: 'k-fold cross-validation of one setting (RMSE and MAE per fold)',
+  evaluate: 'k-fold cross-validation of one setting (RMSE and MAE per fold, and the coverage and mean width of the intervals on each fold)',
   tune:
     'cross-validate a grid of ranks × lambdas × centerings and Gaussian shrinkages on the same folds; the family ' +
     'with the lowest mean RMSE wins, and its simplest setting within one standard error is the choice',
@@ -158,6 +168,8 @@ export interface CliOptions {
   long: boolean;
   json: boolean;
   decimals?: number;
+  /** Interval level in [0.5, 0.99] (fill: only when given; evaluate: default 0.8). */
+  level?: number;
   folds: number;
   /** tune / report --tune: undefined = derived from the data (engine/tuningGrid.ts). */
   ranks?: number[];
@@ -353,6 +365,11 @@ export function parseArgs(argv: string[]): ParsedArgs {
   if (get('seed') !== undefined) opts.seed = wholeNumber('seed', get('seed')!, 0);
   if (get('decimals') !== undefined) opts.decimals = wholeNumber('decimals', get('decimals')!, 0);
   if (opts.decimals !== undefined && opts.decimals > 17) throw new UsageError('--decimals expects at most 17');
+  if (get('level') !== undefined) {
+    const x = number('level', get('level')!);
+    if (!(x >= 0.5 && x <= 0.99)) throw new UsageError(`--level expects a share between 0.5 and 0.99 (e.g. 0.9 for 90 %), got "${get('level')}"`);
+    opts.level = x;
+  }
   if (get('scale') !== undefined) opts.scale = scale(get('scale')!);
   if (get('centering') !== undefined) {
     if (command === 'tune') opts.centerings = list('centering', get('centering')!, centering);

@@ -14,7 +14,10 @@ import { autoSettings, type AutoChoice } from '../../src-shared/engine/autoSetti
 import type { FitSettings, ModelFamily } from '../../src-shared/engine/types';
 import { gaussianRefusal } from '../../src-shared/engine/gaussian/fitGaussian';
 import { observedCount, type RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
-import { buildExport, buildMask, buildSidecar, matrixFingerprintText, type ExportKind, type ExportOptions } from '../../src-shared/io/exportFilled';
+import { buildExport, buildMask, buildSidecar, matrixFingerprintText, sidecarIntervals, type ExportKind, type ExportOptions } from '../../src-shared/io/exportFilled';
+import { cellTrust } from '../../src-shared/engine/trust';
+import { intervalsAtLevel, type IntervalsAtLevel } from '../../src-shared/engine/cellIntervals';
+import { DEFAULT_INTERVAL_LEVEL, INTERVAL_METHOD } from '../../src-shared/engine/intervals';
 import { maskPathFor, sidecarPathFor } from '../services/exportPaths';
 import type { CliOptions, FillLayout } from './args';
 import { appVersion } from './version';
@@ -78,12 +81,20 @@ export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, 
   const t0 = performance.now();
   const fit = fitModel(m, settings);
   timings.fitMs = performance.now() - t0;
+  let intervals: IntervalsAtLevel | undefined;
+  if (o.level !== undefined) {
+    // The 5 fold fits give the calibration (the same ensemble the workbench's spread uses).
+    const t2 = performance.now();
+    const trust = cellTrust(m, settings, { method: 'folds', k: 5, seed: settings.seed }, { full: fit });
+    intervals = intervalsAtLevel(trust.intervals!, fit.predictions, m.scale, o.level);
+    timings.intervalsMs = performance.now() - t2;
+  }
   const rows = m.rowLabels.length;
   const cols = m.colLabels.length;
   // The window's writers: observed cells are written as read; only estimates are rounded by --decimals.
   const options: ExportOptions = { kind: EXPORT_KIND[o.layout], roundToStep: false, decimals: o.decimals ?? null, delimiter: ',' };
   const t1 = performance.now();
-  const text = buildExport(m, fit, fit.spread, options);
+  const text = buildExport(m, fit, fit.spread, options, intervals);
   const observedCells = observedCount(m);
   const finalObjective = fit.objectiveTrace.length > 0 ? fit.objectiveTrace[fit.objectiveTrace.length - 1] : null;
   const files: [string, string][] = [[o.out!, text]];
@@ -99,6 +110,7 @@ export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, 
         settings: fit.settings,
         run: { iterations: fit.iterations, converged: fit.converged, finalObjective, refitsAfterEdits: 0 },
         metrics: null,
+        ...(intervals ? { intervals: sidecarIntervals(intervals) } : {}),
         inputSha256: createHash('sha256').update(matrixFingerprintText(m)).digest('hex'),
       }),
     ]);
@@ -139,6 +151,7 @@ export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, 
           converged: fit.converged,
           objective,
           objectiveTrace: fit.objectiveTrace,
+          ...(intervals ? { intervals: { ...sidecarIntervals(intervals), written: o.layout === 'long' ? 'lower,upper columns' : 'not written (wide layout; use --layout long)' } } : {}),
           timings,
         }),
       ],
@@ -151,28 +164,68 @@ export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, 
       ...(auto ? [`settings chosen: ${auto.reason}`] : []),
       `filled ${rows * cols - observed} of ${rows * cols} cells (${rows} rows × ${cols} columns) with model estimates → ${files.map(([p]) => p).join(', ')}`,
       `model: ${settingsLabel(fit.settings)}; ${fit.iterations} iterations${fit.converged ? ' (converged)' : ' (iteration limit)'}, objective ${objective.toPrecision(6)}`,
+      ...(intervals ? intervalLines(intervals, o.layout === 'long') : []),
     ],
   };
+}
+
+const pct = (x: number): string => (Number.isFinite(x) ? `${(100 * x).toFixed(1)} %` : 'n/a');
+
+function intervalLines(iv: IntervalsAtLevel, long: boolean): string[] {
+  return [
+    `intervals: ${pct(iv.level)} (${iv.method}; scale from the ${iv.scaleSource}); bounds inclusive, clipped to the scale; ` +
+      (long ? 'written as lower,upper' : 'not written in a wide layout (use --layout long)'),
+    `  on the held-out folds: coverage ${pct(iv.heldOut.coverage)}, mean width ${fmt(iv.heldOut.meanWidth, 3)} ` +
+      `(constant-width intervals: coverage ${pct(iv.constantWidth.coverage)}, mean width ${fmt(iv.constantWidth.meanWidth, 3)})`,
+    '  an interval holds the true rating in about that share of cells like the held-out ones, on average; not for each cell',
+  ];
 }
 
 export function runEvaluate(o: CliOptions, m: RatingMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
   const settings = fitSettingsFromOptions(o);
   const t0 = performance.now();
   const folds = makeFolds(m, o.folds, settings.seed);
-  const cv = crossValidate(m, settings, folds);
+  const level = o.level ?? DEFAULT_INTERVAL_LEVEL;
+  const cv = crossValidate(m, settings, folds, { intervalLevels: [level] });
   timings.evaluateMs = performance.now() - t0;
-  const table = cv.folds.map((f, t) => ({ fold: t + 1, rmse: f.rmse, mae: f.mae, n: f.n }));
+  const iv = cv.intervals?.[0];
+  const table = cv.folds.map((f, t) => ({
+    fold: t + 1,
+    rmse: f.rmse,
+    mae: f.mae,
+    n: f.n,
+    coverage: iv ? iv.normalized.folds[t].coverage : NaN,
+    meanWidth: iv ? iv.normalized.folds[t].meanWidth : NaN,
+  }));
+  const intervalSummary = iv
+    ? {
+        level,
+        method: INTERVAL_METHOD,
+        coverage: iv.normalized.coverage,
+        meanWidth: iv.normalized.meanWidth,
+        constantWidth: { coverage: iv.constantWidth.coverage, meanWidth: iv.constantWidth.meanWidth },
+      }
+    : null;
   timings.totalMs = performance.now() - startedAt;
   if (o.json) {
     return {
       code: 0,
       stderr: [],
-      stdout: [JSON.stringify({ command: 'evaluate', input: o.input, scale: m.scale, settings, folds: o.folds, seed: settings.seed, table, meanRmse: cv.meanRmse, sdRmse: cv.sdRmse, meanMae: cv.meanMae, sdMae: cv.sdMae, timings })],
+      stdout: [JSON.stringify({ command: 'evaluate', input: o.input, scale: m.scale, settings, folds: o.folds, seed: settings.seed, table, meanRmse: cv.meanRmse, sdRmse: cv.sdRmse, meanMae: cv.meanMae, sdMae: cv.sdMae, intervals: intervalSummary, timings })],
     };
   }
-  const lines = [`${o.folds}-fold cross-validation of ${settingsLabel(settings)}`, 'fold  rmse    mae     cells'];
-  for (const r of table) lines.push(`${String(r.fold).padEnd(5)} ${fmt(r.rmse)}  ${fmt(r.mae)}  ${r.n}`);
+  const lines = [
+    `${o.folds}-fold cross-validation of ${settingsLabel(settings)}; ${pct(level)} intervals calibrated on the other folds`,
+    'fold  rmse    mae     cells  coverage  mean width',
+  ];
+  for (const r of table) lines.push(`${String(r.fold).padEnd(5)} ${fmt(r.rmse)}  ${fmt(r.mae)}  ${String(r.n).padEnd(6)} ${pct(r.coverage).padEnd(9)} ${fmt(r.meanWidth, 3)}`);
   lines.push(`mean  ${fmt(cv.meanRmse)}  ${fmt(cv.meanMae)}   (sd ${fmt(cv.sdRmse)} / ${fmt(cv.sdMae)})`);
+  if (iv) {
+    lines.push(
+      `intervals: coverage ${pct(iv.normalized.coverage)}, mean width ${fmt(iv.normalized.meanWidth, 3)}; ` +
+        `constant-width ones: ${pct(iv.constantWidth.coverage)}, ${fmt(iv.constantWidth.meanWidth, 3)}`,
+    );
+  }
   return { code: 0, stderr: [], stdout: lines };
 }
 

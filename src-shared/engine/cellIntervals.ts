@@ -25,8 +25,18 @@
  * Cells are addressed by their dense row-major index; only the collection step touches
  * the layout of the matrix.
  */
+import type { RatingScale } from '../matrix/ratingMatrix';
 import type { ModelFamily } from './types';
-import { applyErrorScale, fitErrorScale, INTERVAL_METHOD, type ErrorScaleModel, type HeldOutScores } from './intervals';
+import {
+  applyErrorScale,
+  fitErrorScale,
+  INTERVAL_METHOD,
+  intervalBounds,
+  summarizeLevel,
+  type ErrorScaleModel,
+  type HeldOutScores,
+  type LevelSummary,
+} from './intervals';
 
 export const ERROR_FEATURES = ['constant', 'row + column spread', 'row error', 'column error', 'row support⁻½', 'column support⁻½'] as const;
 const P = ERROR_FEATURES.length;
@@ -94,7 +104,7 @@ export interface FullModelView {
   family: ModelFamily;
   /** Ensemble spread of every cell across the fold models (low-rank). */
   ensembleSpread?: Float64Array;
-  /** The full model's own conditional sd (Gaussian). */
+  /** The full model's own conditional sd (Gaussian); without it σ̂ of blank cells stays NaN. */
   ownSpread?: Float64Array;
 }
 
@@ -194,12 +204,11 @@ export function calibrateIntervals(h: HeldOutCollector, full: FullModelView): In
   const heldOut = (): HeldOutScores => ({ k, fold: h.fold, estimate: h.estimate, observed: h.observed, sigma });
 
   if (full.family === 'gaussian') {
-    if (!full.ownSpread) throw new Error('the Gaussian family needs its conditional sd for intervals');
     for (let t = 0; t < n; t++) {
       const s = h.ownSd[t];
       sigma[t] = s > floor ? s : floor;
     }
-    const own = full.ownSpread;
+    const own = full.ownSpread ?? errorScale;
     for (let c = 0; c < errorScale.length; c++) {
       if (full.values[c] === full.values[c]) continue;
       const s = own[c];
@@ -275,4 +284,25 @@ export class EnsembleSpread {
     for (let c = 0; c < out.length; c++) out[c] = Math.sqrt(Math.max(this.m2[c], 0) / (m - 1));
     return out;
   }
+}
+
+export interface IntervalsAtLevel {
+  level: number;
+  method: typeof INTERVAL_METHOD;
+  scaleSource: IntervalCalibration['scaleSource'];
+  /** Bounds for every cell (row-major), clipped to the scale and inclusive; NaN on observed cells. */
+  lower: Float64Array;
+  upper: Float64Array;
+  /** Quantile used and the coverage/width measured on the held-out folds. */
+  heldOut: LevelSummary;
+  /** The same procedure with a constant width (σ̂ ≡ 1), for comparison. */
+  constantWidth: LevelSummary;
+}
+
+/** The intervals of a run at `level`: bounds around its estimates, and what the held-out folds measured. */
+export function intervalsAtLevel(cal: IntervalCalibration, estimates: Float64Array, scale: RatingScale, level: number): IntervalsAtLevel {
+  const heldOut = summarizeLevel(cal.heldOut, level, scale, true);
+  const constantWidth = summarizeLevel(cal.heldOut, level, scale, false);
+  const { lower, upper } = intervalBounds(estimates, cal.errorScale, heldOut.q, scale);
+  return { level, method: cal.method, scaleSource: cal.scaleSource, lower, upper, heldOut, constantWidth };
 }

@@ -13,11 +13,16 @@
  * scored on the cells in f:
  *   RMSE_f = √(Σ_{c∈f} (ŷ_c − y_c)² / n_f),   MAE_f = Σ_{c∈f} |ŷ_c − y_c| / n_f.
  * Summary: mean over folds and sample standard deviation (divisor k − 1).
+ * Asked for interval levels, the same fold fits also calibrate the intervals of
+ * cellIntervals.ts and report, per fold, their coverage and mean width (each fold's
+ * quantile from the other folds' held-out cells).
  */
 import type { RatingMatrix } from '../matrix/ratingMatrix';
 import type { FitProgress, FitSettings } from './types';
 import { fitModel } from './fitModel';
 import { createRng, shuffleInPlace } from './random';
+import { calibrateIntervals, EnsembleSpread, HeldOutCollector } from './cellIntervals';
+import { summarizeLevel, type LevelSummary } from './intervals';
 
 export interface Folds {
   k: number;
@@ -40,12 +45,16 @@ export interface CrossValidationResult {
   sdRmse: number;
   meanMae: number;
   sdMae: number;
+  /** Per asked level: coverage and width of the intervals on each fold, and of constant-width ones. */
+  intervals?: { level: number; normalized: LevelSummary; constantWidth: LevelSummary }[];
 }
 
 export interface CrossValidateOptions {
   /** Called after each fold with (folds done, total); `fit` carries the inner fit's progress. */
   onProgress?: (p: { done: number; total: number; fit?: FitProgress }) => void;
   shouldStop?: () => boolean;
+  /** Interval levels (0.5–0.99) to measure on the folds. */
+  intervalLevels?: number[];
 }
 
 function spanCount(foldsSeen: Int32Array, k: number): number {
@@ -165,6 +174,9 @@ export function crossValidate(
 ): CrossValidationResult {
   const scores: FoldScore[] = [];
   const values = matrix.values;
+  const levels = opts.intervalLevels ?? [];
+  const heldOut = levels.length ? new HeldOutCollector(values, folds.foldOf, folds.k) : undefined;
+  const ensemble = levels.length && settings.model === 'lowrank' ? new EnsembleSpread(values.length) : undefined;
   for (let f = 0; f < folds.k; f++) {
     const train = trainingMatrix(matrix, folds, f);
     const fit = fitModel(train, settings, {
@@ -175,6 +187,8 @@ export function crossValidate(
     let ae = 0;
     let n = 0;
     const pred = fit.predictions;
+    heldOut?.add(f, pred, fit.spread);
+    ensemble?.add(pred);
     for (let c = 0; c < values.length; c++) {
       if (folds.foldOf[c] !== f) continue;
       const e = pred[c] - values[c];
@@ -187,5 +201,16 @@ export function crossValidate(
   }
   const r = meanSd(scores.map((s) => s.rmse));
   const a = meanSd(scores.map((s) => s.mae));
-  return { folds: scores, meanRmse: r.mean, sdRmse: r.sd, meanMae: a.mean, sdMae: a.sd };
+  const out: CrossValidationResult = { folds: scores, meanRmse: r.mean, sdRmse: r.sd, meanMae: a.mean, sdMae: a.sd };
+  if (heldOut && heldOut.complete) {
+    const rows = matrix.rowLabels.length;
+    const cols = matrix.colLabels.length;
+    const cal = calibrateIntervals(heldOut, { rows, cols, values, family: settings.model, ensembleSpread: ensemble?.spread() });
+    out.intervals = levels.map((level) => ({
+      level,
+      normalized: summarizeLevel(cal.heldOut, level, matrix.scale, true),
+      constantWidth: summarizeLevel(cal.heldOut, level, matrix.scale, false),
+    }));
+  }
+  return out;
 }

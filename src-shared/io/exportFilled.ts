@@ -6,6 +6,7 @@
  * source, and the sidecar states it in words.
  */
 import type { FitResult, FitSettings } from '../engine/types';
+import type { IntervalsAtLevel } from '../engine/cellIntervals';
 import type { RatingMatrix } from '../matrix/ratingMatrix';
 import type { Delimiter } from './detectDelimiter';
 import { quoteField, writeFilledLongCsv, writeWideCsv } from './writeDelimited';
@@ -52,7 +53,19 @@ function roundTo(x: number, decimals: number): number {
   return Number((Math.round(x * f) / f).toPrecision(12));
 }
 
-export function buildExport(matrix: RatingMatrix, result: FitResult, spread: ArrayLike<number> | undefined, opts: ExportOptions): string {
+/** Interval bounds of a run's cells (row-major, NaN on observed cells), written by the long layout. */
+export interface ExportIntervals {
+  lower: ArrayLike<number>;
+  upper: ArrayLike<number>;
+}
+
+export function buildExport(
+  matrix: RatingMatrix,
+  result: FitResult,
+  spread: ArrayLike<number> | undefined,
+  opts: ExportOptions,
+  intervals?: ExportIntervals,
+): string {
   const cols = matrix.colLabels.length;
   if (result.rows !== matrix.rowLabels.length || result.cols !== cols) {
     throw new Error('the run does not match the matrix shape; fill again before exporting');
@@ -63,7 +76,16 @@ export function buildExport(matrix: RatingMatrix, result: FitResult, spread: Arr
     for (let c = 0; c < predictions.length; c++) predictions[c] = estimate(Math.floor(c / cols), c % cols);
     // Baseline and spread are model output too: the decimals asked for apply to them.
     const rounded = (a: ArrayLike<number> | undefined) => (a === undefined || opts.decimals === null ? a : Float64Array.from(a, (x) => roundTo(x, opts.decimals!)));
-    return writeFilledLongCsv(matrix, { predictions, baseline: rounded(result.baseline), spread: rounded(spread) }, { delimiter: opts.delimiter });
+    return writeFilledLongCsv(
+      matrix,
+      {
+        predictions,
+        baseline: rounded(result.baseline),
+        spread: rounded(spread),
+        ...(intervals ? { lower: rounded(intervals.lower), upper: rounded(intervals.upper) } : {}),
+      },
+      { delimiter: opts.delimiter },
+    );
   }
   const onlyEstimates = opts.kind === 'estimates-wide';
   return writeWideCsv(matrix, {
@@ -110,6 +132,40 @@ export function matrixFingerprintText(matrix: RatingMatrix): string {
   return parts.join('\n');
 }
 
+export interface SidecarIntervals {
+  level: number;
+  method: string;
+  scaleFrom: string;
+  meaning: string;
+  boundsInclusive: true;
+  clippedToScale: true;
+  /** Measured on the held-out folds: each fold's cells against a quantile from the other folds. */
+  heldOutCoverage: number | null;
+  heldOutMeanWidth: number | null;
+  folds: { n: number; coverage: number | null; meanWidth: number | null }[];
+  constantWidth: { coverage: number | null; meanWidth: number | null };
+}
+
+const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
+
+/** What the sidecar records about a run's intervals at its level. */
+export function sidecarIntervals(iv: IntervalsAtLevel): SidecarIntervals {
+  return {
+    level: iv.level,
+    method: iv.method,
+    scaleFrom: iv.scaleSource,
+    meaning:
+      `Each filled cell's interval is meant to hold the true rating in ${Math.round(iv.level * 100)} % of cells like the held-out ones, ` +
+      'on average over cells, not for each cell. Bounds are inclusive and clipped to the scale.',
+    boundsInclusive: true,
+    clippedToScale: true,
+    heldOutCoverage: finite(iv.heldOut.coverage),
+    heldOutMeanWidth: finite(iv.heldOut.meanWidth),
+    folds: iv.heldOut.folds.map((f) => ({ n: f.n, coverage: finite(f.coverage), meanWidth: finite(f.meanWidth) })),
+    constantWidth: { coverage: finite(iv.constantWidth.coverage), meanWidth: finite(iv.constantWidth.meanWidth) },
+  };
+}
+
 export interface SidecarInput {
   app: { name: string; version: string };
   exportedAt: Date;
@@ -119,6 +175,8 @@ export interface SidecarInput {
   settings: FitSettings;
   run: { iterations: number; converged: boolean; finalObjective: number | null; refitsAfterEdits: number };
   metrics: { folds: number; seed: number; meanRmse: number | null; sdRmse: number | null; meanMae: number | null; sdMae: number | null } | null;
+  /** The run's intervals, when it has them (see sidecarIntervals). */
+  intervals?: SidecarIntervals;
   /** SHA-256 of matrixFingerprintText(matrix), hex. */
   inputSha256: string;
 }
@@ -138,6 +196,7 @@ export function buildSidecar(s: SidecarInput): string {
         model: { family: s.settings.model, settings: s.settings, seed: s.settings.seed },
         run: s.run,
         crossValidation: s.metrics,
+        ...(s.intervals ? { intervals: s.intervals } : {}),
       },
       null,
       2,

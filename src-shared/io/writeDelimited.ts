@@ -93,18 +93,22 @@ export interface FilledLayers {
   baseline?: ArrayLike<number>;
   /** Per-cell spread; NaN where unknown. */
   spread?: ArrayLike<number>;
+  /** Interval bounds per cell (NaN on observed cells); when given, `lower` and `upper` columns follow. */
+  lower?: ArrayLike<number>;
+  upper?: ArrayLike<number>;
 }
 
 /**
  * Long export of a completed matrix: one record per cell with
- * `row, column, value, source, baseline, spread` where value is the observed
- * rating (source "observed") or the model's prediction (source "filled");
- * baseline and spread are empty when not available.
+ * `row, column, value, source, baseline, spread` (and `lower, upper` when the run has
+ * intervals) where value is the observed rating (source "observed") or the model's
+ * prediction (source "filled"); baseline, spread and bounds are empty when not available.
  */
 export function writeFilledLongCsv(matrix: RatingMatrix, layers: FilledLayers, opts: WriteOptions = {}): string {
   const d = opts.delimiter ?? ',';
   const eol = opts.lineEnding ?? '\r\n';
-  const out: string[] = [['row', 'column', 'value', 'source', 'baseline', 'spread'].join(d)];
+  const bounds = layers.lower && layers.upper ? { lower: layers.lower, upper: layers.upper } : undefined;
+  const out: string[] = [['row', 'column', 'value', 'source', 'baseline', 'spread', ...(bounds ? ['lower', 'upper'] : [])].join(d)];
   const nCols = matrix.colLabels.length;
   for (let i = 0; i < matrix.rowLabels.length; i++) {
     const r = quoteField(matrix.rowLabels[i], d);
@@ -121,6 +125,7 @@ export function writeFilledLongCsv(matrix: RatingMatrix, layers: FilledLayers, o
           observed ? 'observed' : 'filled',
           formatNumber(layers.baseline ? layers.baseline[k] : undefined, opts),
           formatNumber(layers.spread ? layers.spread[k] : undefined, opts),
+          ...(bounds ? [formatNumber(observed ? undefined : bounds.lower[k], opts), formatNumber(observed ? undefined : bounds.upper[k], opts)] : []),
         ].join(d),
       );
     }
