@@ -57,7 +57,7 @@ export const OPTIONS: readonly OptionSpec[] = [
   },
   { name: 'sidecar', commands: ['fill'], default: 'off', help: 'also write OUT.settings.json: settings, seed, iterations, objective, app version, time, hash of the input' },
   { name: 'mask', commands: ['fill'], default: 'off', help: 'with a wide layout, also write OUT.mask.csv saying "observed" or "filled" for every cell' },
-  { name: 'force', commands: ['fill'], default: 'off', help: 'replace OUT (and its sidecar or mask) when it exists; without it an existing file is left untouched and the exit status is 2' },
+  { name: 'force', commands: ['fill', 'report'], default: 'off', help: 'replace OUT (and its sidecar, mask or --csv files) when it exists; without it an existing file is left untouched and the exit status is 2' },
   { name: 'model', value: 'lowrank|gaussian', commands: FIT, default: 'lowrank', help: 'model family' },
   { name: 'rank', value: 'K', commands: FIT, default: { fill: 'chosen from the data without model options, else 2', evaluate: '2', report: '2' }, help: 'low-rank: number of hidden traits (0 = baseline alone)' },
   { name: 'lambda', value: 'L', commands: FIT, default: { fill: '1 when another model option is given, else chosen from the data', evaluate: '1', report: '1' }, help: 'low-rank: ridge weight on the factors' },

@@ -9,9 +9,10 @@
  * succeeded; each file is written atomically.
  */
 import { createHash } from 'node:crypto';
-import { readFileSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
 import { basename } from 'node:path';
 import { tuneToPayload } from '../../src-shared/apiCodec';
+import { autoSettings } from '../../src-shared/engine/autoSettings';
 import { fitModel } from '../../src-shared/engine/fitModel';
 import { defaultLowRankSettings } from '../../src-shared/engine/defaults';
 import { expandLowRankGrid, tune } from '../../src-shared/engine/tuning';
@@ -38,6 +39,8 @@ interface Loaded {
   settings: FitSettings;
   runLabel: string;
   warnings: string[];
+  /** No model options and no saved settings: choose them as `fill` does (engine/autoSettings.ts). */
+  choose?: boolean;
 }
 
 function isProjectPath(path: string): boolean {
@@ -63,7 +66,7 @@ function loadProject(o: CliOptions): Loaded | CommandOutput {
     if (o.run !== undefined) throw new UsageError(`${o.input} has no saved runs, so --run ${o.run} cannot be found`);
     // No saved run: the project's model settings, or the options (and defaults) when any are given.
     const settings = project.settings && !anyModelOption ? project.settings : fitSettingsFromOptions(o);
-    return { matrix, settings, runLabel: project.settings && !anyModelOption ? 'Project settings' : 'Command-line run', warnings: [] };
+    return { matrix, settings, runLabel: project.settings && !anyModelOption ? 'Project settings' : 'Command-line run', warnings: [], choose: !project.settings && !o.modelOptionsGiven };
   }
   if (anyModelOption) {
     throw new UsageError(`a saved run fixes the model settings; leave out ${given.length ? given.map((k) => `--${k}`).join(', ') : '--model / --transpose'} (or report the ratings file instead)`);
@@ -82,7 +85,7 @@ function loadProject(o: CliOptions): Loaded | CommandOutput {
 function loadRatings(o: CliOptions): Loaded | CommandOutput {
   const read = readMatrix(o.input, o.long);
   if (!read.ok) return { code: 2, stdout: [], stderr: read.messages };
-  return { matrix: withScale(read.matrix, o), settings: fitSettingsFromOptions(o), runLabel: 'Command-line run', warnings: read.warnings };
+  return { matrix: withScale(read.matrix, o), settings: fitSettingsFromOptions(o), runLabel: 'Command-line run', warnings: read.warnings, choose: !o.modelOptionsGiven };
 }
 
 function sha256(text: string): string {
@@ -97,8 +100,19 @@ function lowRankBase(s: FitSettings): LowRankSettings {
 export function runReport(o: CliOptions, appVersion: string, now: () => Date = () => new Date()): CommandOutput {
   const loaded = isProjectPath(o.input) ? loadProject(o) : loadRatings(o);
   if ('code' in loaded) return loaded;
-  const { matrix: m, settings } = loaded;
+  const m = loaded.matrix;
+  const outputs = [o.out!, ...(o.csv !== undefined ? [o.csv, sidecarPathFor(o.csv)] : [])];
+  const existing = o.force ? undefined : outputs.find((p) => existsSync(p));
+  if (existing !== undefined) return { code: 2, stdout: [], stderr: [`rankfill: ${existing} already exists; nothing written (add --force to replace it)`] };
   const t0 = performance.now();
+  let settings = loaded.settings;
+  let choice: ReportInput['choice'] = null;
+  if (loaded.choose && settings.model === 'lowrank') {
+    // No model options: the same quick cross-validated choice as `fill` makes.
+    const auto = autoSettings(m, settings);
+    settings = auto.settings;
+    choice = { reason: auto.reason, folds: auto.folds, candidates: auto.candidates, meanRmse: auto.rmse, baselineMeanRmse: auto.baselineRmse };
+  }
   const fit = fitModel(m, settings);
   const evaluation = tuneToPayload(tune(m, { settings: reportEvaluationSettings(settings) }, o.folds, settings.seed));
   const base = lowRankBase(settings);
@@ -149,6 +163,7 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
     evaluation,
     centering,
     tuning,
+    choice,
     exports,
     reportPath: o.out,
   };
@@ -172,6 +187,7 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
     stderr: loaded.warnings,
     stdout: [
       `report of ${loaded.runLabel.toLowerCase()} (${settings.model === 'lowrank' ? `rank ${settings.rank}, lambda ${settings.lambda}, centering ${settings.centering}` : `gaussian, shrinkage ${settings.shrinkage}`}) → ${o.out} (${Math.ceil(Buffer.byteLength(html) / 1024)} KB)`,
+      ...(choice ? [`settings chosen: ${choice.reason}`] : []),
       `cross-validated RMSE ${own.meanRmse === null ? 'n/a' : own.meanRmse.toFixed(4)} (${evaluation.k} folds), against ${evaluation.table[1]?.meanRmse?.toFixed(4) ?? 'n/a'} for the row and column baselines alone`,
       ...exports.map((x) => `filled matrix → ${x.path} (settings: ${x.sidecarPath})`),
     ],

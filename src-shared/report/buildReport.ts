@@ -248,6 +248,7 @@ function provenanceSection(input: ReportInput, n: number): string {
       ['Input SHA-256', tag('code', { 'data-testid': 'report-sha256' }, esc(input.inputSha256))],
       ['Hash of', 'row and column labels, scale and values (the same hash as the export’s settings file)'],
       ['Run', esc(`${input.run.label}: ${describeSettings(s)}${input.run.refitsAfterEdits ? `, refitted after ${input.run.refitsAfterEdits} edit${input.run.refitsAfterEdits === 1 ? '' : 's'}` : ''}`)],
+      ...(input.choice ? ([['Settings chosen', esc(input.choice.reason)]] as [string, string][]) : []),
       ['Seed', tag('span', { 'data-testid': 'report-seed' }, esc(String(s.seed)))],
       ['Fit', esc(`${input.run.iterations} ${s.model === 'gaussian' ? 'EM iterations' : 'sweeps'}, ${input.run.converged ? 'settled' : 'stopped at the limit'}; final ${s.model === 'gaussian' ? 'log-likelihood' : 'objective'} ${input.run.finalObjective === null ? 'n/a' : input.run.finalObjective.toPrecision(6)}`)],
       ['Full settings', tag('code', {}, esc(JSON.stringify(s)))],
@@ -274,6 +275,7 @@ export function reportData(input: ReportInput, paragraph: string, p: MissingPatt
     centering: input.centering,
     tuning: input.tuning,
     intervals: input.intervals ?? null,
+    choice: input.choice ?? null,
     exports: input.exports,
     methods: paragraph,
   };

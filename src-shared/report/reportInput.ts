@@ -71,6 +71,8 @@ export interface ReportInput {
   /** The tuning grid, when it was run on this data. */
   tuning: TunePayload | null;
   intervals?: ReportIntervals | null;
+  /** Set when the settings were chosen automatically (no model options given), as `fill` does. */
+  choice?: { reason: string; folds: number; candidates: number; meanRmse: number; baselineMeanRmse: number } | null;
   /** Exports written from this run, oldest first. */
   exports: ReportExport[];
   /** Where the report itself is written (optional). */

@@ -68,6 +68,25 @@ describe('rankfill report', () => {
     expect(readFileSync(csv, 'utf8').split('\n')[0]).toContain('blank cells filled with model estimates');
   });
 
+  it('without model options chooses the settings as fill does, and says so in the methods', async () => {
+    const out = join(dir, 'auto.html');
+    const r = await run('report', sample, '--out', out);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toMatch(/settings chosen: rank \d+/);
+    const html = readFileSync(out, 'utf8');
+    const d = data(html) as unknown as { choice: { folds: number; candidates: number } };
+    expect(d.choice.folds).toBe(3);
+    expect(d.choice.candidates).toBeGreaterThan(4);
+    expect(html).toContain(`were scored by a quick 3-fold cross-validation, and the one with the lowest error was kept.`);
+    // A second report to the same file is refused without --force and leaves the file alone.
+    const again = await run('report', sample, '--out', out, '--rank', '1');
+    expect(again.code).toBe(2);
+    expect(again.stderr).toContain('already exists; nothing written (add --force to replace it)');
+    expect(readFileSync(out, 'utf8')).toBe(html);
+    expect((await run('report', sample, '--out', out, '--rank', '1', '--force')).code).toBe(0);
+    expect(data(readFileSync(out, 'utf8')).run.settings).toMatchObject({ rank: 1 });
+  });
+
   it('adds the centering comparison and the tuning grid when asked', async () => {
     const out = join(dir, 'tuned.html');
     const r = await run('report', sample, '--out', out, '--compare-centering', '--tune', '--ranks', '0,1,2', '--lambdas', '1,10', '--json');
