@@ -24,6 +24,7 @@ import { renderStatusLine } from './panels/statusLine';
 import { syncGridWithRuns } from './runs/gridSync';
 import { installRunPersistence } from './runs/runPersistence';
 import { FitController } from './runs/fitController';
+import { fillAdaptively } from './runs/firstFill';
 import { RunStore } from './runs/runStore';
 import { CommandRegistry } from './commands/commandRegistry';
 import { commandHandlers } from './commands/commandHandlers';
@@ -84,7 +85,17 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   const cellRoot = side.add('cell', 'Cell');
   const centeringRoot = side.add('centering', 'Centering');
   const tuningRoot = side.add('tuning', 'Tuning');
-  const model = new ModelPanel(modelRoot, { controller, settings, view });
+  // Fill: the first Fill of a data set chooses its settings from the data unless the user set them (runs/firstFill.ts).
+  const fill = (): void =>
+    void fillAdaptively({
+      controller,
+      settings,
+      runs,
+      store,
+      onChoosing: (state, cancel) => model.showChoosing(state, cancel),
+      onFailed: (message) => model.showChoiceFailed(message),
+    });
+  const model: ModelPanel = new ModelPanel(modelRoot, { controller, settings, view, fill });
   view.subscribe((changed) => {
     if (changed.has('overlayVisible')) grid.setLayers({ overlayVisible: view.state.overlayVisible });
   });
@@ -198,7 +209,7 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
       openReport: () => reportDialog.open(),
       toggleOverlay: () => view.set({ overlayVisible: !view.state.overlayVisible }),
       toggleSidePanel: () => view.setLayout({ sideCollapsed: !view.state.layout.sideCollapsed }),
-      fill: () => controller.fill(settings.value),
+      fill: () => fill(),
       showTab: (tab) => side?.select(tab),
       showGuide: () => helpDialog(),
     }),

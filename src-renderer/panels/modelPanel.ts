@@ -15,6 +15,8 @@ export interface ModelPanelHooks {
   controller: FitController;
   settings: SettingsStore;
   view: ViewStore;
+  /** What Fill does (default: fill with the settings as they stand). */
+  fill?: () => void;
 }
 
 export class ModelPanel {
@@ -35,6 +37,8 @@ export class ModelPanel {
   private readonly progressText: HTMLElement;
   private readonly message: HTMLElement;
   private readonly familyNote: HTMLElement;
+  private readonly choiceNote: HTMLElement;
+  private cancelChoosing: (() => void) | null = null;
   private readonly chart: ObjectiveChart;
 
   constructor(root: HTMLElement, private readonly hooks: ModelPanelHooks) {
@@ -74,12 +78,13 @@ export class ModelPanel {
       ]),
     ]);
     this.familyNote = el('p', { className: 'rf-hint', testid: 'family-note' });
+    this.choiceNote = el('p', { className: 'rf-hint rf-note', testid: 'model-choice', hidden: true });
     this.wireInputs();
 
     this.fillButton = el('button', { className: 'rf-button rf-primary', testid: 'fill-button' }, ['Fill blank cells']) as HTMLButtonElement;
     this.stopButton = el('button', { className: 'rf-button', testid: 'cancel-button', disabled: true }, ['Stop']) as HTMLButtonElement;
-    this.fillButton.addEventListener('click', () => void this.hooks.controller.fill(this.hooks.settings.value));
-    this.stopButton.addEventListener('click', () => void this.hooks.controller.cancelFill());
+    this.fillButton.addEventListener('click', () => (this.hooks.fill ? this.hooks.fill() : void this.hooks.controller.fill(this.hooks.settings.value)));
+    this.stopButton.addEventListener('click', () => (this.cancelChoosing ? this.cancelChoosing() : void this.hooks.controller.cancelFill()));
     this.bar = el('progress', { testid: 'fill-progress' }) as HTMLProgressElement;
     this.bar.max = 1;
     this.bar.value = 0;
@@ -104,6 +109,7 @@ export class ModelPanel {
       field('Family', this.family),
       this.familyNote,
       this.lowRankBox,
+      this.choiceNote,
       this.gaussianBox,
       el('details', { className: 'rf-more' }, [
         el('summary', {}, ['More settings']),
@@ -179,6 +185,9 @@ export class ModelPanel {
     put(this.seed, shared.seed);
     this.clip.checked = shared.clipToScale;
     const g = family === 'gaussian';
+    const reason = this.hooks.settings.reason;
+    this.choiceNote.hidden = g || reason === '';
+    this.choiceNote.textContent = reason ? `Chosen from the data — ${reason}. Change any setting to use your own.` : '';
     this.lowRankBox.hidden = g;
     this.gaussianBox.hidden = !g;
     this.familyNote.textContent = g
@@ -212,6 +221,25 @@ export class ModelPanel {
     } else {
       this.bar.value = this.bar.max;
     }
+  }
+
+  /** The settings are being chosen from the data before a first Fill (null: that step ended). */
+  showChoosing(state: { done: number; total: number } | null, cancel: () => void): void {
+    this.cancelChoosing = state ? cancel : null;
+    this.fillButton.disabled = state !== null;
+    this.stopButton.disabled = state === null;
+    if (!state) return;
+    this.message.hidden = true;
+    this.bar.max = Math.max(1, state.total);
+    this.bar.value = state.done;
+    this.progressText.textContent = `Choosing settings from the data: ${state.done} of ${state.total} fold fits (3-fold cross-validation, rank 0 among the candidates)…`;
+  }
+
+  /** Choosing the settings failed; nothing was filled. */
+  showChoiceFailed(message: string): void {
+    this.message.hidden = false;
+    this.message.textContent = `Could not choose settings from the data: ${message}`;
+    this.progressText.textContent = 'No new run.';
   }
 
   /** No run to show (another data set was opened): no status or chart of the old one stays. */

@@ -55,9 +55,34 @@ export function defaultSettingsState(): SettingsState {
   return { family: 'lowrank', lowRank, gaussian };
 }
 
+/**
+ * Who set the settings last: the defaults, the adaptive choice of a first Fill
+ * (runs/firstFill.ts), or the user (typing in the Model tab, Use / Apply, an
+ * opened project). Once the user has set them, they are never replaced by a choice.
+ */
+export type SettingsOrigin = 'default' | 'chosen' | 'user';
+
 export class SettingsStore {
   private s: SettingsState = defaultSettingsState();
+  private who: SettingsOrigin = 'default';
+  private why = '';
   private readonly listeners = new Set<(s: FitSettings) => void>();
+
+  get origin(): SettingsOrigin {
+    return this.who;
+  }
+
+  /** The one-line reason of a choice ('' unless origin is 'chosen'). */
+  get reason(): string {
+    return this.who === 'chosen' ? this.why : '';
+  }
+
+  /** Take settings chosen from the data (a first Fill), with the line that says why. */
+  choose(next: FitSettings, reason: string): void {
+    this.who = 'chosen';
+    this.why = reason;
+    this.set(next, 'chosen');
+  }
 
   /** The settings a Fill would use now. */
   get value(): FitSettings {
@@ -75,7 +100,8 @@ export class SettingsStore {
   }
 
   /** Take these settings (their family becomes the chosen one). */
-  set(next: FitSettings): void {
+  set(next: FitSettings, origin: SettingsOrigin = 'user'): void {
+    this.who = origin;
     const n = normaliseSettings(next);
     const shared = { maxIterations: n.maxIterations, seed: n.seed, clipToScale: n.clipToScale };
     this.s =
@@ -100,6 +126,7 @@ export class SettingsStore {
   /** Back to the defaults. */
   reset(): void {
     this.s = defaultSettingsState();
+    this.who = 'default';
     this.emit();
   }
 

@@ -1,0 +1,70 @@
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import type { Browser, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { autoSettings } from '../../src-shared/engine/autoSettings';
+import { launchBrowser } from './support/browser';
+import { repoRoot, startHost, type RunningHost } from './support/hostProcess';
+
+type PageRun = { settings: { rank: number; lambda: number; centering: string } };
+type PageMatrix = { rowLabels: string[]; colLabels: string[]; values: (number | null)[]; scale: { min: number; max: number; step: number } };
+
+describe('a first Fill chooses its settings from the data', () => {
+  let host: RunningHost;
+  let browser: Browser;
+  let page: Page;
+  const tid = (id: string) => `[data-testid="${id}"]`;
+  const runs = (): Promise<PageRun[]> =>
+    page.evaluate(() => (window as unknown as { rankfillApp: { runs: { runs: PageRun[] } } }).rankfillApp.runs.runs.map((r) => ({ settings: r.settings })));
+
+  beforeAll(async () => {
+    host = await startHost([], { RANKFILL_CONFIG_DIR: mkdtempSync(join(tmpdir(), 'rankfill-config-')) });
+    browser = await launchBrowser();
+    page = await browser.newPage({ viewport: { width: 1500, height: 1000 } });
+    await page.goto(host.launchUrl);
+    await page.waitForSelector('body[data-ready="true"]', { timeout: 30_000 });
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await host?.stop();
+  });
+
+  it('shows the chosen values as editable settings with the reason, the same as the engine chooses', async () => {
+    expect(await page.locator(tid('model-choice')).isHidden()).toBe(true);
+    await page.click(tid('fill-button'));
+    await expect.poll(async () => (await runs()).length, { timeout: 30_000 }).toBe(1);
+    const note = (await page.textContent(tid('model-choice'))) ?? '';
+    expect(note).toMatch(/^Chosen from the data — rank \d+.*: lowest 3-fold error of \d+ settings; .+\. Change any setting to use your own\.$/);
+    const [run] = await runs();
+    expect(await page.inputValue(tid('model-rank'))).toBe(String(run.settings.rank));
+    expect(await page.inputValue(tid('model-centering'))).toBe(run.settings.centering);
+    // The page's worker chose what the engine chooses in-process on the same matrix.
+    const m = await page.evaluate(() => {
+      const cur = (window as unknown as { rankfillApp: { store: { current: { rowLabels: string[]; colLabels: string[]; values: Float64Array; scale: PageMatrix['scale'] } } } }).rankfillApp.store.current;
+      return { rowLabels: cur.rowLabels, colLabels: cur.colLabels, values: Array.from(cur.values, (x) => (Number.isNaN(x) ? null : x)), scale: cur.scale };
+    });
+    const here = autoSettings({ ...m, values: Float64Array.from(m.values, (x) => (x === null ? NaN : x)) });
+    expect(run.settings).toMatchObject({ rank: here.settings.rank, lambda: here.settings.lambda, centering: here.settings.centering });
+    expect(note).toContain(here.reason);
+    await page.screenshot({ path: join(repoRoot, 'test-results', 'adaptive-fill.png') });
+  });
+
+  it('the user’s own settings win once changed, also on the next data set', async () => {
+    await page.fill(tid('model-rank'), '1');
+    await expect.poll(() => page.locator(tid('model-choice')).isHidden()).toBe(true);
+    await page.click(tid('fill-button'));
+    await expect.poll(async () => (await runs()).length, { timeout: 30_000 }).toBe(2);
+    expect((await runs())[1].settings.rank).toBe(1);
+    // Another data set: its first Fill keeps the user's settings.
+    const picker = page.locator(tid('sample-picker'));
+    const options = await picker.locator('option:not([disabled])').evaluateAll((os) => os.map((o) => (o as HTMLOptionElement).value));
+    await picker.selectOption(options[1]);
+    await expect.poll(async () => (await runs()).length).toBe(0);
+    await page.click(tid('fill-button'));
+    await expect.poll(async () => (await runs()).length, { timeout: 30_000 }).toBe(1);
+    expect((await runs())[0].settings.rank).toBe(1);
+    expect(await page.locator(tid('model-choice')).isHidden()).toBe(true);
+  });
+});
