@@ -48,8 +48,8 @@ export const OPTIONS: readonly OptionSpec[] = [
   {
     name: 'level',
     value: 'P',
-    commands: ['fill', 'evaluate'],
-    default: { fill: 'none (no intervals)', evaluate: '0.8' },
+    commands: ['fill', 'evaluate', 'report'],
+    default: { fill: 'none (no intervals)', evaluate: '0.8', report: 'none (no intervals section)' },
     help:
       'interval level, 0.5–0.99: fill also fits the 5 fold models and gives every filled cell an interval meant to hold the true rating ' +
       'in a share P of cells like the held-out ones (long layout: lower,upper columns; bounds inclusive, clipped to the scale); ' +
@@ -59,9 +59,9 @@ export const OPTIONS: readonly OptionSpec[] = [
   { name: 'mask', commands: ['fill'], default: 'off', help: 'with a wide layout, also write OUT.mask.csv saying "observed" or "filled" for every cell' },
   { name: 'force', commands: ['fill', 'report'], default: 'off', help: 'replace OUT (and its sidecar, mask or --csv files) when it exists; without it an existing file is left untouched and the exit status is 2' },
   { name: 'model', value: 'lowrank|gaussian', commands: FIT, default: 'lowrank', help: 'model family' },
-  { name: 'rank', value: 'K', commands: FIT, default: { fill: 'chosen from the data without model options, else 2', evaluate: '2', report: '2' }, help: 'low-rank: number of hidden traits (0 = baseline alone)' },
-  { name: 'lambda', value: 'L', commands: FIT, default: { fill: '1 when another model option is given, else chosen from the data', evaluate: '1', report: '1' }, help: 'low-rank: ridge weight on the factors' },
-  { name: 'centering', value: 'none|row|column|both', commands: ALL, default: { fill: 'chosen from the data without model options, else both', evaluate: 'both', report: 'both', tune: 'all four for rank 0, then the best of them' }, help: 'low-rank baseline; for tune a comma-separated list' },
+  { name: 'rank', value: 'K', commands: FIT, default: { fill: 'chosen from the data without model options, else 2', evaluate: '2', report: 'chosen from the data without model options, else 2' }, help: 'low-rank: number of hidden traits (0 = baseline alone)' },
+  { name: 'lambda', value: 'L', commands: FIT, default: { fill: '1 when another model option is given, else chosen from the data', evaluate: '1', report: '1 when another model option is given, else chosen from the data' }, help: 'low-rank: ridge weight on the factors' },
+  { name: 'centering', value: 'none|row|column|both', commands: ALL, default: { fill: 'chosen from the data without model options, else both', evaluate: 'both', report: 'chosen from the data without model options, else both', tune: 'all four for rank 0, then the best of them' }, help: 'low-rank baseline; for tune a comma-separated list' },
   { name: 'shrinkage', value: 'S', commands: FIT, default: '0.05', help: 'gaussian: pull the covariance toward its diagonal, 0 ≤ S < 1' },
   { name: 'transpose', commands: ALL, default: 'off', help: 'gaussian: the rows are the variables' },
   { name: 'iterations', value: 'N', commands: ALL, default: '100 (low-rank), 200 (gaussian)', help: 'iteration limit' },

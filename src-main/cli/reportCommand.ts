@@ -13,17 +13,19 @@ import { existsSync, readFileSync } from 'node:fs';
 import { basename } from 'node:path';
 import { tuneToPayload } from '../../src-shared/apiCodec';
 import { autoSettings } from '../../src-shared/engine/autoSettings';
+import { intervalsAtLevel, type IntervalsAtLevel } from '../../src-shared/engine/cellIntervals';
 import { fitModel } from '../../src-shared/engine/fitModel';
+import { cellTrust } from '../../src-shared/engine/trust';
 import { defaultLowRankSettings } from '../../src-shared/engine/defaults';
 import { expandLowRankGrid, tune } from '../../src-shared/engine/tuning';
 import { defaultGrid } from '../../src-shared/engine/tuningGrid';
 import type { FitSettings, LowRankSettings } from '../../src-shared/engine/types';
-import { buildExport, buildSidecar, matrixFingerprintText, type ExportOptions } from '../../src-shared/io/exportFilled';
+import { buildExport, buildSidecar, matrixFingerprintText, sidecarIntervals, type ExportOptions } from '../../src-shared/io/exportFilled';
 import { observedCount, type RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
 import { formatProblem } from '../../src-shared/io';
 import { parseProject } from '../../src-shared/project';
 import { buildReport } from '../../src-shared/report/buildReport';
-import type { ReportExport, ReportInput } from '../../src-shared/report/reportInput';
+import type { ReportExport, ReportInput, ReportIntervals } from '../../src-shared/report/reportInput';
 import { reportEvaluationSettings } from '../../src-shared/report/reportEvaluation';
 import { UsageError, type CliOptions } from './args';
 import { writeAtomically, type CommandOutput } from './commands';
@@ -88,6 +90,31 @@ function loadRatings(o: CliOptions): Loaded | CommandOutput {
   return { matrix: withScale(read.matrix, o), settings: fitSettingsFromOptions(o), runLabel: 'Command-line run', warnings: read.warnings, choose: !o.modelOptionsGiven };
 }
 
+/** The published sources of the interval method (see the comment at the top of engine/intervals.ts). */
+export const INTERVAL_SOURCES = [
+  'Vovk, V., Gammerman, A. & Shafer, G. (2005). Algorithmic Learning in a Random World. Springer.',
+  'Lei, J., G’Sell, M., Rinaldo, A., Tibshirani, R. J. & Wasserman, L. (2018). Distribution-free predictive inference for regression. Journal of the American Statistical Association, 113(523), 1094–1111.',
+  'Barber, R. F., Candès, E. J., Ramdas, A. & Tibshirani, R. J. (2021). Predictive inference with the jackknife+. The Annals of Statistics, 49(1), 486–507.',
+];
+
+/** The report's intervals section from the run's intervals at one level. */
+export function reportIntervals(iv: IntervalsAtLevel): ReportIntervals {
+  const finite = (x: number) => (Number.isFinite(x) ? x : null);
+  const cw = iv.constantWidth;
+  return {
+    method: `${iv.method} prediction interval`,
+    sources: INTERVAL_SOURCES,
+    citation: 'Vovk, Gammerman & Shafer, 2005; Lei et al., 2018; Barber et al., 2021',
+    level: iv.level,
+    coverage: finite(iv.heldOut.coverage),
+    meanWidth: finite(iv.heldOut.meanWidth),
+    note:
+      `Calibrated on the held-out residuals of the 5 fold models, the width scaled to how hard each cell is (scale from the ${iv.scaleSource}); bounds inclusive and clipped to the scale. ` +
+      `An interval holds the true rating in about that share of cells like the held-out ones, on average over cells, not for each cell. ` +
+      `For comparison, intervals of one constant width would cover ${Number.isFinite(cw.coverage) ? `${(cw.coverage * 100).toFixed(1)} %` : 'n/a'} with a mean width of ${Number.isFinite(cw.meanWidth) ? cw.meanWidth.toFixed(2) : 'n/a'}.`,
+  };
+}
+
 function sha256(text: string): string {
   return createHash('sha256').update(text, 'utf8').digest('hex');
 }
@@ -122,6 +149,12 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
   const tuning = o.tune
     ? tuneToPayload(tune(m, { settings: expandLowRankGrid({ ranks: o.ranks ?? defaultGrid(m).ranks, lambdas: o.lambdas ?? defaultGrid(m).lambdas, centerings: [base.centering], base }) }, o.folds, settings.seed))
     : null;
+  let intervals: IntervalsAtLevel | undefined;
+  if (o.level !== undefined) {
+    // The 5 fold fits calibrate the intervals, as `fill --level` does.
+    const trust = cellTrust(m, settings, { method: 'folds', k: 5, seed: settings.seed }, { full: fit });
+    if (trust.intervals) intervals = intervalsAtLevel(trust.intervals, fit.predictions, m.scale, o.level);
+  }
   const computeMs = performance.now() - t0;
   const inputSha256 = sha256(matrixFingerprintText(m));
   const app = { name: 'Rankfill', version: appVersion };
@@ -141,6 +174,7 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
       settings,
       run: { iterations: fit.iterations, converged: fit.converged, finalObjective, refitsAfterEdits: 0 },
       metrics: { folds: evaluation.k, seed: evaluation.seed, meanRmse: evaluation.table[0].meanRmse, sdRmse: evaluation.table[0].sdRmse, meanMae: evaluation.table[0].meanMae, sdMae: evaluation.table[0].sdMae },
+      ...(intervals ? { intervals: sidecarIntervals(intervals) } : {}),
       inputSha256,
     });
     try {
@@ -164,6 +198,7 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
     centering,
     tuning,
     choice,
+    intervals: intervals ? reportIntervals(intervals) : null,
     exports,
     reportPath: o.out,
   };

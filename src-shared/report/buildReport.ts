@@ -15,7 +15,7 @@ import type { TunePayload } from '../api';
 import { MODEL_ESTIMATE_CAUTION, PEOPLE_JUDGED_CAUTION } from '../io/exportFilled';
 import { countChartSvg } from './countChartSvg';
 import { errorBarSvg } from './errorBarSvg';
-import { count, esc, fmt, nameList, percent, tag } from './html';
+import { articleFor, count, esc, fmt, nameList, percent, tag } from './html';
 import { methodsText, scaleWords } from './methodsText';
 import { missingPattern, type MissingPattern } from './missingPattern';
 import { patternMapSvg } from './patternMapSvg';
@@ -206,13 +206,13 @@ function intervalsSection(input: ReportInput, n: number): string {
   return section(
     'intervals',
     `${n}. How far each filled value may be off`,
-    tag('p', {}, esc(`Each filled value comes with a ${percent(iv.level, 0)} ${iv.method}: a range that should hold the true rating about ${percent(iv.level, 0)} of the time.`)),
+    tag('p', {}, esc(`Each filled value comes with ${articleFor(percent(iv.level, 0))} ${percent(iv.level, 0)} ${iv.method}: a range that should hold the true rating about ${percent(iv.level, 0)} of the time.`)),
     facts([
       ['Method', esc(iv.method)],
       ['Nominal coverage', esc(percent(iv.level, 0))],
       ['Checked coverage', esc(iv.coverage === null ? 'not checked' : `${percent(iv.coverage)} of held-out ratings fell inside their interval`)],
       ['Mean width', esc(iv.meanWidth === null ? 'n/a' : `${fmt(iv.meanWidth, 2)} rating units`)],
-      ['Source', esc(iv.source)],
+      ['Sources', iv.sources.map((x) => esc(x)).join('<br>')],
     ]),
     iv.note ? tag('p', { class: 'rf-hint' }, esc(iv.note)) : '',
   );

@@ -35,6 +35,12 @@ export function percent(share: number, digits = 1): string {
   return Number.isFinite(share) ? `${(share * 100).toFixed(digits)} %` : 'n/a';
 }
 
+/** "a" or "an" before a number written in digits, as it is read aloud (an 80 %, an 11, a 90 %). */
+export function articleFor(digits: string): string {
+  const n = /^\d+/.exec(digits)?.[0] ?? '';
+  return n.startsWith('8') || n === '11' || n === '18' ? 'an' : 'a';
+}
+
 /** 12345 → "12,345". */
 export function count(n: number): string {
   return Math.round(n).toString().replace(/\B(?=(\d{3})+(?!\d))/g, ',');

@@ -10,7 +10,7 @@
  */
 import type { TunePayload } from '../api';
 import type { FitSettings, LowRankSettings } from '../engine/types';
-import { count, fmt, listWords, percent } from './html';
+import { articleFor, count, fmt, listWords, percent } from './html';
 import type { ReportInput } from './reportInput';
 import { BASELINE_MODELS } from './reportEvaluation';
 import { CENTERING_SHORT } from './settingsWords';
@@ -105,12 +105,12 @@ function centeringSentence(run: FitSettings, c: TunePayload): string {
 export function methodsText(input: ReportInput): MethodsText {
   const refs: string[] = [];
   const cite = (k: ReferenceKey): string => {
-    const text = k === 'intervals' ? (input.intervals?.source ?? '') : REFERENCES[k];
-    if (text && !refs.includes(text)) refs.push(text);
+    const texts = k === 'intervals' ? (input.intervals?.sources ?? []) : [REFERENCES[k]];
+    for (const text of texts) if (text && !refs.includes(text)) refs.push(text);
     if (k === 'als') return 'Hastie, Mazumder, Lee & Zadeh, 2015';
     if (k === 'em') return 'Dempster, Laird & Rubin, 1977';
     if (k === 'cv') return 'Hastie, Tibshirani & Friedman, 2009, §7.10';
-    return input.intervals?.citation ?? input.intervals?.source ?? '';
+    return input.intervals?.citation ?? input.intervals?.sources.join('; ') ?? '';
   };
   const m = input.matrix;
   const rows = m.rowLabels.length;
@@ -166,7 +166,7 @@ export function methodsText(input: ReportInput): MethodsText {
   const iv = input.intervals;
   if (iv) {
     parts.push(
-      `Each filled value was given a ${percent(iv.level, 0)} ${iv.method} (${cite('intervals')})` +
+      `Each filled value was given ${articleFor(percent(iv.level, 0))} ${percent(iv.level, 0)} ${iv.method} (${cite('intervals')})` +
         (iv.coverage !== null ? `; on held-out ratings ${percent(iv.coverage)} fell inside their interval` : '') +
         (iv.meanWidth !== null ? `, with a mean width of ${fmt(iv.meanWidth, 2)} rating units` : '') +
         '.',

@@ -34,8 +34,8 @@ export interface ReportExport {
 export interface ReportIntervals {
   /** Plain-words name of the method, e.g. "split-conformal intervals". */
   method: string;
-  /** Published source of the method, as a full reference line. */
-  source: string;
+  /** Published sources of the method, as full reference lines. */
+  sources: string[];
   /** Short citation for the methods paragraph, e.g. "Author & Author, 2005". */
   citation?: string;
   /** Nominal coverage, e.g. 0.9. */

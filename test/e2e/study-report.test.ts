@@ -169,7 +169,7 @@ describe('study report', () => {
     const csv = join(exportDir, 'cli filled.csv');
     const r = spawnSync(
       process.execPath,
-      [join(repoRoot, 'bin/rankfill.js'), 'report', join(repoRoot, 'samples/peer-review-round.csv'), '--out', out, '--rank', '3', '--lambda', '10', '--centering', 'column', '--seed', '5', '--tune', '--ranks', '0,1,2,3', '--lambdas', '1,10', '--csv', csv],
+      [join(repoRoot, 'bin/rankfill.js'), 'report', join(repoRoot, 'samples/peer-review-round.csv'), '--out', out, '--rank', '3', '--lambda', '10', '--centering', 'column', '--seed', '5', '--tune', '--ranks', '0,1,2,3', '--lambdas', '1,10', '--level', '0.9', '--csv', csv],
       { encoding: 'utf8', timeout: 120_000 },
     );
     expect(r.stderr).toBe('');
@@ -183,6 +183,8 @@ describe('study report', () => {
       expect(opened.methods).toContain('cross-validation of ranks 0, 1, 2, 3 × λ 1, 10 was also run (seed 5)');
       expect(opened.data.exports.map((x) => x.path)).toEqual([csv]);
       expect(await opened.page.locator('[data-testid="report-tuning-chart"]').count()).toBe(1);
+      expect(await opened.page.textContent('[data-testid="report-intervals"]')).toContain('Nominal coverage90 %');
+      expect(opened.methods).toContain('Each filled value was given a 90 % cross-validated normalized conformal prediction interval');
       await opened.page.screenshot({ path: join(results, 'report-cli.png'), fullPage: true });
       const printed = await printAndRender(opened.page, 'report-cli');
       expect(printed.pages).toBeGreaterThanOrEqual(3);

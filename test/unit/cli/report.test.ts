@@ -87,6 +87,27 @@ describe('rankfill report', () => {
     expect(data(readFileSync(out, 'utf8')).run.settings).toMatchObject({ rank: 1 });
   });
 
+  it('with --level adds the intervals section, the method and its sources, and the interval record in the --csv settings file', async () => {
+    const out = join(dir, 'intervals.html');
+    const csv = join(dir, 'intervals filled.csv');
+    const r = await run('report', sample, '--out', out, '--rank', '2', '--level', '0.8', '--csv', csv);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const html = readFileSync(out, 'utf8');
+    const d = data(html) as unknown as { intervals: { level: number; coverage: number; meanWidth: number; sources: string[] } };
+    expect(d.intervals.level).toBe(0.8);
+    // Held-out coverage is a share; the conformal guarantee is ≥ 1 − 2α in the worst case (Barber et al. 2021), near the level in practice.
+    expect(d.intervals.coverage).toBeGreaterThan(0.6);
+    expect(d.intervals.coverage).toBeLessThanOrEqual(1);
+    expect(d.intervals.meanWidth).toBeGreaterThan(0);
+    expect(html).toContain('data-testid="report-intervals"');
+    expect(html).toContain('Each filled value was given an 80 % cross-validated normalized conformal prediction interval (Vovk, Gammerman &amp; Shafer, 2005');
+    expect(html).toContain('Predictive inference with the jackknife+');
+    const sidecar = JSON.parse(readFileSync(join(dir, 'intervals filled.settings.json'), 'utf8')) as { intervals: { level: number; heldOutCoverage: number } };
+    expect(sidecar.intervals.level).toBe(0.8);
+    expect(sidecar.intervals.heldOutCoverage).toBeCloseTo(d.intervals.coverage, 12);
+  });
+
   it('adds the centering comparison and the tuning grid when asked', async () => {
     const out = join(dir, 'tuned.html');
     const r = await run('report', sample, '--out', out, '--compare-centering', '--tune', '--ranks', '0,1,2', '--lambdas', '1,10', '--json');

@@ -106,7 +106,7 @@ describe('study report builder', () => {
   });
 
   it('adds an intervals section between the errors and the cautions when the run carries intervals', () => {
-    const withIntervals = buildReport(reportInput({ intervals: { method: 'prediction interval', source: 'Someone (2000). A source.', level: 0.8, coverage: 0.81, meanWidth: 1.5 } }));
+    const withIntervals = buildReport(reportInput({ intervals: { method: 'prediction interval', sources: ['Someone (2000). A source.'], level: 0.8, coverage: 0.81, meanWidth: 1.5 } }));
     const at = (id: string) => withIntervals.indexOf(`data-testid="${id}"`);
     expect(at('report-intervals')).toBeGreaterThan(at('report-accuracy'));
     expect(at('report-intervals')).toBeLessThan(at('report-caution'));

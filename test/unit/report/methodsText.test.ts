@@ -5,6 +5,7 @@ import type { TunePayload } from '../../../src-shared/api';
 import type { FitSettings, LowRankSettings } from '../../../src-shared/engine/types';
 import { methodsText, smallNumber, REFERENCES } from '../../../src-shared/report/methodsText';
 import type { ReportInput } from '../../../src-shared/report/reportInput';
+import { articleFor } from '../../../src-shared/report/html';
 
 const matrix = {
   rowLabels: ['a', 'b', 'c'],
@@ -85,10 +86,14 @@ describe('methods paragraph', () => {
 
   it('adds the interval method and its source when the run carries intervals', () => {
     const t = methodsText(
-      input(defaultLowRankSettings(), { intervals: { method: 'split-conformal interval', source: 'A. Author (2005). A book.', citation: 'Author, 2005', level: 0.9, coverage: 0.893, meanWidth: 2.345 } }),
+      input(defaultLowRankSettings(), { intervals: { method: 'split-conformal interval', sources: ['A. Author (2005). A book.'], citation: 'Author, 2005', level: 0.9, coverage: 0.893, meanWidth: 2.345 } }),
     );
     expect(t.paragraph).toContain('Each filled value was given a 90 % split-conformal interval (Author, 2005); on held-out ratings 89.3 % fell inside their interval, with a mean width of 2.35 rating units.');
     expect(t.references).toContain('A. Author (2005). A book.');
+  });
+
+  it('says "an 80 %" but "a 90 %" (English usage, from memory)', () => {
+    expect(['80 %', '8', '11', '18 %', '90 %', '1 %', '110', '180', '800', '8000'].map(articleFor)).toEqual(['an', 'an', 'an', 'an', 'a', 'a', 'a', 'a', 'an', 'an']);
   });
 
   it('writes tolerances as 1e-6, not 0.000001', () => {
