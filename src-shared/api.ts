@@ -102,6 +102,20 @@ export const trustRequestSchema = z.discriminatedUnion('method', [
   z.object({ method: z.literal('bootstrap'), B: z.number().int().min(2).max(200) }),
 ]);
 
+/** Calibration of a fit's intervals (engine/cellIntervals.ts): held-out cells and σ̂ per cell. */
+export const intervalCalibrationPayloadSchema = z.object({
+  method: z.literal('cross-validated normalized conformal'),
+  scaleSource: z.enum(['conditional sd', 'error model']),
+  coefficients: z.array(z.number()),
+  k: z.number().int().min(2),
+  fold: z.array(z.number().int()),
+  estimate: nullableNumbers,
+  observed: z.array(z.number()),
+  sigma: nullableNumbers,
+  errorScale: nullableNumbers,
+});
+export type IntervalCalibrationPayload = z.infer<typeof intervalCalibrationPayloadSchema>;
+
 /** Per-cell trust of a fit: ensemble spread and support; weak rows/columns have fewer observations than the rank. */
 export const trustPayloadSchema = z.object({
   spread: nullableNumbers,
@@ -109,6 +123,7 @@ export const trustPayloadSchema = z.object({
   colSupport: z.array(z.number().int()),
   weakRows: z.array(z.number().int()),
   weakCols: z.array(z.number().int()),
+  intervals: intervalCalibrationPayloadSchema.optional(),
 });
 export type TrustPayload = z.infer<typeof trustPayloadSchema>;
 

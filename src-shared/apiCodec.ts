@@ -2,7 +2,8 @@
  * Conversions between in-memory objects (typed arrays, NaN = missing) and their
  * JSON-safe wire form in api.ts (plain arrays, null = missing).
  */
-import type { CrossValidationPayload, FitResultPayload, MatrixPayload, TrustPayload, TunePayload } from './api';
+import type { CrossValidationPayload, FitResultPayload, IntervalCalibrationPayload, MatrixPayload, TrustPayload, TunePayload } from './api';
+import type { IntervalCalibration } from './engine/cellIntervals';
 import type { CrossValidationResult } from './engine/crossValidation';
 import type { CellTrust } from './engine/trust';
 import type { TuneResult } from './engine/tuning';
@@ -95,6 +96,30 @@ export function fitResultFromPayload(p: FitResultPayload): FitResult {
 
 const fin = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
+function intervalsToPayload(c: IntervalCalibration): IntervalCalibrationPayload {
+  return {
+    method: c.method,
+    scaleSource: c.scaleSource,
+    coefficients: c.coefficients.slice(),
+    k: c.heldOut.k,
+    fold: Array.from(c.heldOut.fold),
+    estimate: toNullable(c.heldOut.estimate),
+    observed: Array.from(c.heldOut.observed),
+    sigma: toNullable(c.heldOut.sigma),
+    errorScale: toNullable(c.errorScale),
+  };
+}
+
+function intervalsFromPayload(p: IntervalCalibrationPayload): IntervalCalibration {
+  return {
+    method: p.method,
+    scaleSource: p.scaleSource,
+    coefficients: p.coefficients.slice(),
+    heldOut: { k: p.k, fold: Int32Array.from(p.fold), estimate: fromNullable(p.estimate), observed: Float64Array.from(p.observed), sigma: fromNullable(p.sigma) },
+    errorScale: fromNullable(p.errorScale),
+  };
+}
+
 export function trustToPayload(t: CellTrust): TrustPayload {
   return {
     spread: toNullable(t.spread),
@@ -102,6 +127,7 @@ export function trustToPayload(t: CellTrust): TrustPayload {
     colSupport: Array.from(t.colSupport),
     weakRows: t.weakRows.slice(),
     weakCols: t.weakCols.slice(),
+    ...(t.intervals ? { intervals: intervalsToPayload(t.intervals) } : {}),
   };
 }
 
@@ -112,6 +138,7 @@ export function trustFromPayload(p: TrustPayload): CellTrust {
     colSupport: Int32Array.from(p.colSupport),
     weakRows: p.weakRows.slice(),
     weakCols: p.weakCols.slice(),
+    ...(p.intervals ? { intervals: intervalsFromPayload(p.intervals) } : {}),
   };
 }
 

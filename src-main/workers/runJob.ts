@@ -60,7 +60,8 @@ export function runJob(msg: JobMessage, post: (m: WorkerMessage, transfer?: Arra
           matrix,
           request.settings,
           t.method === 'folds' ? { method: 'folds', k: t.k, seed } : { method: 'bootstrap', B: t.B, seed },
-          { shouldStop },
+          // The full fit (before its spread is replaced below) anchors the intervals.
+          { shouldStop, full: { ...result } },
         );
         result.trust = trust;
         result.spread = trust.spread;

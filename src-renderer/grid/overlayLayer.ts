@@ -10,6 +10,10 @@ export interface OverlayLayer {
   spread?: Float64Array;
   /** Largest spread over blank cells, for scaling the tint. */
   maxSpread: number;
+  /** Row-major interval width (upper − lower) per cell, when the run has intervals: the tint follows it. */
+  width?: Float64Array;
+  /** Largest width over blank cells. */
+  maxWidth?: number;
 }
 
 export interface DiffLayer {
@@ -45,10 +49,15 @@ export interface GridLayers {
   weak: WeakMarks | null;
 }
 
-/** Amber tint whose strength grows with the cell's spread: faint = sure, strong = unsure. */
+/**
+ * Amber tint whose strength grows with the cell's interval width (or, for a run without
+ * intervals, its spread): faint = narrow interval, strong = wide.
+ */
 export function estimateTint(layer: OverlayLayer, index: number): string {
-  const s = layer.spread?.[index];
-  const strength = s === undefined || !Number.isFinite(s) || !(layer.maxSpread > 0) ? 0.1 : 0.06 + 0.36 * Math.min(1, s / layer.maxSpread);
+  const byWidth = layer.width !== undefined && (layer.maxWidth ?? 0) > 0;
+  const s = byWidth ? layer.width![index] : layer.spread?.[index];
+  const top = byWidth ? layer.maxWidth! : layer.maxSpread;
+  const strength = s === undefined || !Number.isFinite(s) || !(top > 0) ? 0.1 : 0.06 + 0.36 * Math.min(1, s / top);
   return `rgba(214, 138, 54, ${strength.toFixed(3)})`;
 }
 

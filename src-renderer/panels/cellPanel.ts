@@ -11,7 +11,30 @@ import { formatObserved } from '../grid/cellText';
 import { runFitsDocument } from '../runs/runMatch';
 import { afterPaint } from './afterPaint';
 import { el, fmt } from './dom';
+import type { IntervalsAtLevel } from '../../src-shared/engine/cellIntervals';
+import { ratingsInside } from '../../src-shared/engine/intervals';
+import type { RatingScale } from '../../src-shared/matrix/ratingMatrix';
+import { intervalsOfRun, levelText } from '../runs/runIntervals';
 import type { PanelContext } from './panelContext';
+
+/** "estimate 4.6, 80 % interval 3.4–5.8" and what it means. */
+function intervalBlock(estimate: number, iv: IntervalsAtLevel, idx: number, scale: RatingScale): HTMLElement[] {
+  const lo = iv.lower[idx];
+  const hi = iv.upper[idx];
+  const level = levelText(iv.level);
+  const inside = ratingsInside(lo, hi, scale);
+  const measured = Number.isFinite(iv.heldOut.coverage) ? ` On the held-out folds such intervals held the hidden rating ${(iv.heldOut.coverage * 100).toFixed(1)} % of the time.` : '';
+  return [
+    el('p', { className: 'rf-cell-interval', testid: 'cell-interval' }, [`estimate ${fmt(estimate, 1)}, ${level} interval ${fmt(lo, 1)}–${fmt(hi, 1)}`]),
+    el('p', { className: 'rf-hint', testid: 'cell-interval-meaning' }, [
+      `Among blank cells like this one, the true rating lies inside such an interval about ${level} of the time; ` +
+        'this holds on average over cells like the ones hidden during cross-validation, not as a promise for this cell. ' +
+        'Both ends count as inside; the range is cut to the scale.' +
+        (inside ? ` On this scale it holds the ratings ${inside.first} to ${inside.last}.` : '') +
+        measured,
+    ]),
+  ];
+}
 
 export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(row: number, col: number): void } {
   const body = el('div', { testid: 'cell-details' }, [el('p', { className: 'rf-hint' }, ['Select a cell to see where its value comes from.'])]);
@@ -45,6 +68,8 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
       const r = run.result;
       const d = decomposeCell(m.values, r, m.scale, row, col);
       rows.push(['Filled value (estimate)', fmt(r.predictions[idx], 3)]);
+      const iv = intervalsOfRun(run, m.scale, ctx.view.state.intervalLevel);
+      if (iv && Number.isFinite(iv.lower[idx])) parts.push(...intervalBlock(r.predictions[idx], iv, idx, m.scale));
       if (d) {
         d.terms.forEach((t, n) => rows.push([`${n === 0 ? '=' : '+'} ${t.label}`, fmt(t.value, 3)]));
         termValues = d.terms.map((t) => t.value);
@@ -76,7 +101,7 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
         el('p', { className: 'rf-hint', testid: 'cell-spread-note' }, [
           r.settings.model === 'gaussian'
             ? 'Conditional spread: the Gaussian model’s own standard deviation of this cell given the row’s observed cells. It is not a cross-validated error.'
-            : 'Fold-model spread: how much this estimate moves between 5 refits, each leaving out a fifth of the observed cells. It measures the model’s stability, not its error: it is not an error bar (see the cross-validated RMSE in the Runs tab).',
+            : 'Fold-model spread: how much this estimate moves between 5 refits, each leaving out a fifth of the observed cells. It measures the model’s stability, not its error: it is not an error bar (the interval above is).',
         ]),
         el('p', { className: 'rf-hint' }, ['Terms are shown to 3 decimals; they add up to the value before rounding.']),
       );
@@ -94,6 +119,9 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
   };
 
   ctx.runs.subscribe(() => afterPaint('cell-panel', render));
+  ctx.view.subscribe((changed) => {
+    if (changed.has('intervalLevel')) afterPaint('cell-panel', render);
+  });
   ctx.store.subscribe(() => afterPaint('cell-panel', render));
   return {
     focus(row, col) {

@@ -8,6 +8,7 @@ import {
   ESTIMATE_CAUTION,
   buildExport,
   buildSidecar,
+  sidecarIntervals,
   matrixFingerprintText,
   type ExportKind,
   type ExportOptions,
@@ -15,6 +16,7 @@ import {
 import { observedCount } from '../../src-shared/matrix/ratingMatrix';
 import { confirmDialog } from '../dialogs/modal';
 import { runFitsDocument } from '../runs/runMatch';
+import { intervalsOfRun } from '../runs/runIntervals';
 import { el, field, numberInput } from './dom';
 import type { PanelContext } from './panelContext';
 import { sha256Hex } from './sha256';
@@ -23,7 +25,7 @@ import { sha256Hex } from './sha256';
 const KIND_WORDS: Record<ExportKind, [string, string]> = {
   'filled-wide': ['Filled matrix', 'observed ratings plus estimates in the blank cells, one row per row label'],
   'estimates-wide': ['Estimates only', 'only the filled cells; observed cells left blank'],
-  long: ['Long layout', 'one line per cell: row, column, value, source (observed or filled), baseline, spread'],
+  long: ['Long layout', 'one line per cell: row, column, value, source (observed or filled), baseline, spread, and the interval’s lower and upper bounds at the level set in the Model tab'],
 };
 
 export function createExportDialog(ctx: PanelContext, appVersion: string): { open(): Promise<void> } {
@@ -82,9 +84,10 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
       decimals: decimals.value.trim() === '' ? null : Math.max(0, Math.min(10, Math.round(Number(decimals.value)))),
       delimiter: delimiter.value as Delimiter,
     };
+    const iv = intervalsOfRun(run, m.scale, ctx.view.state.intervalLevel);
     let text: string;
     try {
-      text = buildExport(m, run.result, run.trust?.spread ?? run.result.spread, options);
+      text = buildExport(m, run.result, run.trust?.spread ?? run.result.spread, options, iv);
     } catch (err) {
       status.textContent = err instanceof Error ? err.message : String(err);
       return;
@@ -107,6 +110,7 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
           metrics: run.evaluation
             ? { folds: run.evaluation.k, seed: run.evaluation.seed, meanRmse: run.evaluation.meanRmse, sdRmse: run.evaluation.sdRmse, meanMae: run.evaluation.meanMae, sdMae: run.evaluation.sdMae }
             : null,
+          ...(iv ? { intervals: sidecarIntervals(iv) } : {}),
           inputSha256: await sha256Hex(matrixFingerprintText(m)),
         })
       : undefined;

@@ -103,6 +103,12 @@ export class ModelPanel {
     liveToggle.type = 'checkbox';
     liveToggle.checked = hooks.controller.liveRefit;
     liveToggle.addEventListener('change', () => (hooks.controller.liveRefit = liveToggle.checked));
+    const levelInput = numberInput('interval-level', Math.round(hooks.view.state.intervalLevel * 100), { min: 50, max: 99, step: 1 });
+    levelInput.addEventListener('change', () => {
+      const x = Number(levelInput.value);
+      if (Number.isInteger(x) && x >= 50 && x <= 99) hooks.view.set({ intervalLevel: x / 100 });
+      else levelInput.value = String(Math.round(hooks.view.state.intervalLevel * 100));
+    });
 
     root.append(
       el('h2', {}, ['Model']),
@@ -130,8 +136,13 @@ export class ModelPanel {
         ' observed rating  ',
         el('span', { className: 'rf-legend-estimate rf-legend-sure' }, ['4.6']),
         el('span', { className: 'rf-legend-estimate rf-legend-unsure' }, ['4.6']),
-        ' estimate: pale = small spread (more certain), deep = large spread',
+        ' estimate: pale = narrow interval (the true rating is likely close), deep = wide interval (it could be far off)',
       ]),
+      field(
+        'Interval level (%)',
+        levelInput,
+        'Each estimate gets a range meant to hold the true rating in this share of cells like the ones hidden during cross-validation (50–99 %). It holds on average over cells, not for each cell.',
+      ),
       el('p', { className: 'rf-caution', testid: 'estimate-caution' }, [
         'Filled values are model estimates, not measurements. Where rows or columns are people being judged, an estimate is not that person’s score.',
       ]),

@@ -1,6 +1,6 @@
 /**
  * Keeps the grid's model layers in step with the shown run: estimates in the
- * blank cells (tinted by spread), the baselines column and row, and the marks
+ * blank cells (tinted by interval width, or by spread for a run without intervals), the baselines column and row, and the marks
  * on weakly determined rows and columns. A run is drawn only on the data set
  * and cell layout it was computed on (runs/runMatch.ts); after rows or columns
  * change, its estimates stay hidden until the live refit brings new ones.
@@ -10,7 +10,9 @@ import type { FitResult } from '../../src-shared/engine/types';
 import type { RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
 import type { BaselineLayer, GridLayers, WeakMarks } from '../grid/overlayLayer';
 import type { PanelContext } from '../panels/panelContext';
+import { DEFAULT_INTERVAL_LEVEL } from '../../src-shared/engine/intervals';
 import { runFitsDocument } from './runMatch';
+import { intervalsOfRun } from './runIntervals';
 import type { Run } from './runStore';
 
 export function baselineLayer(result: FitResult): BaselineLayer {
@@ -77,14 +79,25 @@ export function weakMarks(run: Run, m: RatingMatrix): WeakMarks {
 }
 
 /** The layers for a run the caller has checked with runFitsDocument, or empty layers. */
-export function layersForRun(run: Run | undefined, m: RatingMatrix): Partial<GridLayers> {
+export function layersForRun(run: Run | undefined, m: RatingMatrix, level = DEFAULT_INTERVAL_LEVEL): Partial<GridLayers> {
   const values = m.values;
   if (!run) return { overlay: null, baselines: null, weak: null };
   const spread = run.trust?.spread ?? run.result.spread;
   let maxSpread = 0;
   if (spread) for (let c = 0; c < values.length; c++) if (values[c] !== values[c] && spread[c] > maxSpread) maxSpread = spread[c];
+  const iv = intervalsOfRun(run, m.scale, level);
+  let width: Float64Array | undefined;
+  let maxWidth = 0;
+  if (iv) {
+    width = new Float64Array(values.length);
+    for (let c = 0; c < values.length; c++) {
+      const w = iv.upper[c] - iv.lower[c];
+      width[c] = w;
+      if (values[c] !== values[c] && w > maxWidth) maxWidth = w;
+    }
+  }
   return {
-    overlay: { predictions: run.result.predictions, spread, maxSpread },
+    overlay: { predictions: run.result.predictions, spread, maxSpread, ...(width ? { width, maxWidth } : {}) },
     baselines: baselineLayer(run.result),
     weak: weakMarks(run, m),
   };
@@ -101,7 +114,7 @@ export function syncGridWithRuns(ctx: PanelContext): void {
   const apply = () => {
     const run = ctx.runs.shown;
     const fits = runFitsDocument(run, ctx.store);
-    ctx.grid.setLayers(layersForRun(fits ? run : undefined, ctx.store.current));
+    ctx.grid.setLayers(layersForRun(fits ? run : undefined, ctx.store.current, ctx.view.state.intervalLevel));
     if (fits || !run) {
       // Estimates are drawn again (or there is no run): the "hidden" notice no longer holds.
       if (hiddenNotice !== null) ctx.notice.clear(hiddenNotice);
@@ -116,6 +129,9 @@ export function syncGridWithRuns(ctx: PanelContext): void {
         : 'Estimates hidden: rows or columns changed since the last fill. Fill again to see new ones.',
     );
   };
+  ctx.view.subscribe((changed) => {
+    if (changed.has('intervalLevel')) apply();
+  });
   ctx.runs.subscribe((e) => {
     if (e.type === 'shown' || e.type === 'runs' || (e.type === 'updated' && e.id === ctx.runs.shownId)) apply();
   });

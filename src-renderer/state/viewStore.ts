@@ -18,6 +18,8 @@ export interface ViewState {
   shownRunId: number | null;
   compare: { a: number; b: number } | null;
   overlayVisible: boolean;
+  /** Level of the intervals shown and exported (0.5–0.99). */
+  intervalLevel: number;
   layout: ViewLayout;
 }
 
@@ -64,7 +66,7 @@ export class ViewStore {
     } catch {
       stored = null;
     }
-    this.s = { focused: null, shownRunId: null, compare: null, overlayVisible: true, layout: parseLayout(stored) };
+    this.s = { focused: null, shownRunId: null, compare: null, overlayVisible: true, intervalLevel: 0.8, layout: parseLayout(stored) };
   }
 
   get state(): Readonly<ViewState> {

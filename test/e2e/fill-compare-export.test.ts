@@ -134,7 +134,7 @@ describe('fill, compare and export in the browser host', () => {
     await page.click('[data-testid="export-write"]');
     await expect.poll(() => page.textContent('[data-testid="export-status"]')).toContain('Written:');
     const rows = Papa.parse<string[]>(readFileSync(path, 'utf8').trimEnd()).data;
-    expect(rows[0]).toEqual(['row', 'column', 'value', 'source', 'baseline', 'spread']);
+    expect(rows[0]).toEqual(['row', 'column', 'value', 'source', 'baseline', 'spread', 'lower', 'upper']);
     const doc = await page.evaluate(() => {
       const m = (window as unknown as { rankfillApp: { store: { current: { values: Float64Array } } } }).rankfillApp.store.current;
       return Array.from(m.values, (x) => (Number.isNaN(x) ? null : x));
@@ -152,6 +152,9 @@ describe('fill, compare and export in the browser host', () => {
         filled++;
         expect(r[3]).toBe('filled');
         expect(y).toBeNull();
+        // The 80 % interval (default level) holds the estimate.
+        expect(Number(r[6])).toBeLessThanOrEqual(Number(r[2]));
+        expect(Number(r[2])).toBeLessThanOrEqual(Number(r[7]));
       }
     }
     expect(observed + filled).toBe(sample.labels.length * sample.header.length);
@@ -160,6 +163,8 @@ describe('fill, compare and export in the browser host', () => {
     expect(sidecar.caution).toContain('model estimates');
     expect(sidecar.model.settings.centering).toBe('none');
     expect(sidecar.input.sha256).toMatch(/^[0-9a-f]{64}$/);
+    expect(sidecar.intervals).toMatchObject({ level: 0.8, method: 'cross-validated normalized conformal', boundsInclusive: true });
+    expect(sidecar.intervals.folds).toHaveLength(5);
     await page.screenshot({ path: join(repoRoot, 'test-results', 'export-dialog.png') });
     // Writing again to the same file asks first; keeping it leaves the file as it was.
     const firstText = readFileSync(path, 'utf8');
