@@ -8,6 +8,7 @@
  * missing cell travels as `null` (never NaN, never 0).
  */
 import { parseCommand } from './commands';
+import { MAX_CELLS } from './io/importCommon';
 import { z } from 'zod';
 
 /** Bumped when the contract changes incompatibly. */
@@ -25,7 +26,6 @@ export const scaleSchema = z
   })
   .refine((s) => s.max > s.min, { message: 'scale maximum must be greater than its minimum' });
 
-const MAX_CELLS = 20_000_000;
 
 /** A rating matrix on the wire: row-major values, null = missing. */
 export const matrixPayloadSchema = z

@@ -4,6 +4,7 @@
  * Every mistake becomes a UsageError whose message is one line; main.ts prints it with
  * the usage line and exits 2.
  */
+import { DEFAULT_FOLDS } from '../../src-shared/engine/defaults';
 import type { Centering, ModelFamily } from '../../src-shared/engine/types';
 
 export const USAGE = [
@@ -67,7 +68,7 @@ export const OPTIONS: readonly OptionSpec[] = [
   { name: 'iterations', value: 'N', commands: ALL, default: '100 (low-rank), 200 (gaussian)', help: 'iteration limit' },
   { name: 'tolerance', value: 'T', commands: ALL, default: '1e-6', help: 'stop when the objective changes by less than T of itself' },
   { name: 'seed', value: 'S', commands: ALL, default: '1', help: 'seed of every random choice (start, folds)' },
-  { name: 'folds', value: 'K', commands: ['evaluate', 'tune', 'report'], default: '5', help: 'number of cross-validation folds' },
+  { name: 'folds', value: 'K', commands: ['evaluate', 'tune', 'report'], default: String(DEFAULT_FOLDS), help: 'number of cross-validation folds' },
   { name: 'models', value: 'LIST', commands: ['tune'], default: 'lowrank, plus gaussian when the matrix allows it', help: 'families to compare, e.g. lowrank,gaussian' },
   { name: 'ranks', value: 'LIST', commands: ['tune', 'report'], default: '0 and 1, 2, 3, 5, 8, 12, 16, 20 up to what the data support', help: 'ranks to try' },
   { name: 'lambdas', value: 'LIST', commands: ['tune', 'report'], default: 'five values ×2 apart below σ₁ of the residuals, then a refinement pass', help: 'lambda values to try' },
@@ -322,7 +323,7 @@ export function parseArgs(argv: string[]): ParsedArgs {
     input: positional[0],
     long: flags.has('long'),
     json: flags.has('json'),
-    folds: get('folds') !== undefined ? wholeNumber('folds', get('folds')!, 2) : 5,
+    folds: get('folds') !== undefined ? wholeNumber('folds', get('folds')!, 2) : DEFAULT_FOLDS,
     ranks: get('ranks') !== undefined ? list('ranks', get('ranks')!, (n, s) => wholeNumber(n, s, 0)) : undefined,
     lambdas: get('lambdas') !== undefined ? list('lambdas', get('lambdas')!, nonNegative) : undefined,
     model: get('model') !== undefined ? model('model', get('model')!) : 'lowrank',

@@ -1,14 +1,18 @@
 /**
- * Autosave of unsaved changes to a recovery snapshot: after each change, a
- * snapshot is written once edits pause for `delayMs` (default 1.5 s), and at the
- * latest `maxDelayMs` (default 5 s) after the first unsaved change, so continuous
- * typing is still captured. Writes never overlap; a failed write is reported to
- * `onError` and retried on the next change.
+ * Autosave of unsaved changes straight to the recovery folder (main side; used
+ * by the crash-safety test's child process), on the shared schedule in
+ * src-shared/project/autosaveSchedule.ts: a snapshot once edits pause, and at
+ * the latest a few seconds after the first unsaved change. A failed write is
+ * reported to `onError` and retried on the next change.
  */
+import { AutosaveSchedule } from '../../src-shared/project/autosaveSchedule';
 import type { ProjectDocument } from '../../src-shared/project/projectDocument';
 import type { RecoveryStore } from './recovery';
 
+const hostTimers = { set: (fn: () => void, ms: number) => setTimeout(fn, ms), clear: (h: unknown) => clearTimeout(h as ReturnType<typeof setTimeout>) };
+
 export interface AutosaveOptions {
+  /** Override the shared timings (tests only). */
   delayMs?: number;
   maxDelayMs?: number;
   onError?: (err: unknown) => void;
@@ -23,63 +27,48 @@ export interface AutosaveSource {
 }
 
 export class Autosaver {
-  private timer: ReturnType<typeof setTimeout> | undefined;
-  private firstPendingAt = 0;
-  private pending: AutosaveSource | undefined;
-  private writing: Promise<void> = Promise.resolve();
-  private readonly delayMs: number;
-  private readonly maxDelayMs: number;
+  private source: AutosaveSource | undefined;
+  private readonly schedule: AutosaveSchedule;
 
   constructor(
     private readonly store: RecoveryStore,
     readonly id: string,
     private readonly opts: AutosaveOptions = {},
   ) {
-    this.delayMs = opts.delayMs ?? 1500;
-    this.maxDelayMs = opts.maxDelayMs ?? 5000;
+    this.schedule = new AutosaveSchedule(() => this.writeNow(), hostTimers, opts.delayMs, opts.maxDelayMs);
+  }
+
+  private async writeNow(): Promise<void> {
+    const src = this.source;
+    if (!src) return;
+    try {
+      const entry = await this.store.writeSnapshot(this.id, src.doc(), { title: src.title, sourcePath: src.sourcePath });
+      this.opts.onSaved?.(entry.file);
+    } catch (err) {
+      this.opts.onError?.(err);
+    }
   }
 
   /** Call after every edit; `source.doc` is read when the snapshot is written. */
   changed(source: AutosaveSource): void {
-    const now = Date.now();
-    if (!this.pending) this.firstPendingAt = now;
-    this.pending = source;
-    if (this.timer) clearTimeout(this.timer);
-    const wait = Math.max(0, Math.min(this.delayMs, this.firstPendingAt + this.maxDelayMs - now));
-    this.timer = setTimeout(() => void this.flush(), wait);
+    this.source = source;
+    this.schedule.changed();
   }
 
   /** Writes any pending snapshot now. */
   flush(): Promise<void> {
-    if (this.timer) clearTimeout(this.timer);
-    this.timer = undefined;
-    const src = this.pending;
-    this.pending = undefined;
-    if (!src) return this.writing;
-    this.writing = this.writing.then(async () => {
-      try {
-        const entry = await this.store.writeSnapshot(this.id, src.doc(), { title: src.title, sourcePath: src.sourcePath });
-        this.opts.onSaved?.(entry.file);
-      } catch (err) {
-        this.opts.onError?.(err);
-      }
-    });
-    return this.writing;
+    return this.schedule.flush();
   }
 
   /** After a normal save: drop pending work and remove the snapshot. */
   async saved(): Promise<void> {
-    if (this.timer) clearTimeout(this.timer);
-    this.timer = undefined;
-    this.pending = undefined;
-    await this.writing;
+    this.schedule.cancel();
+    await this.schedule.idle();
     await this.store.discard(this.id);
   }
 
   /** Stops the timer without writing (e.g. when the window closes after the user chose to discard). */
   dispose(): void {
-    if (this.timer) clearTimeout(this.timer);
-    this.timer = undefined;
-    this.pending = undefined;
+    this.schedule.cancel();
   }
 }

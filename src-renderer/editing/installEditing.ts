@@ -6,6 +6,7 @@
  */
 import type { DocumentPayload } from '../../src-shared/api';
 import type { CommandId } from '../../src-shared/commands';
+import { DEFAULT_MAX_BYTES, formatBytes } from '../../src-shared/io/parseDelimited';
 import type { HostBridge } from '../bridge/hostBridge';
 import { importPreviewDialog } from '../dialogs/importPreview';
 import type { RatingGrid } from '../grid/ratingGrid';
@@ -17,8 +18,6 @@ import { mountEditBar } from './editBar';
 import { EditCommands } from './editCommands';
 import { ProjectFiles } from './projectFiles';
 
-/** Largest ratings file the page reads for import (the main side checks the same limit): 50 MB. */
-export const IMPORT_LIMIT_BYTES = 50 * 1024 * 1024;
 
 export interface EditingDeps {
   bridge: HostBridge;
@@ -69,8 +68,9 @@ export function installEditing(d: EditingDeps): Editing {
     const file = d.importInput.files?.[0];
     d.importInput.value = '';
     if (!file) return;
-    if (file.size > IMPORT_LIMIT_BYTES) {
-      d.notice.show(`${file.name} is too large to import (${(file.size / 1048576).toFixed(1)} MB; the limit is 50 MB). Nothing was opened.`, 'error', 0);
+    // The same limit the main side checks (src-shared/io/parseDelimited.ts).
+    if (file.size > DEFAULT_MAX_BYTES) {
+      d.notice.show(`${file.name} is too large to import (${formatBytes(file.size)}; the limit is ${formatBytes(DEFAULT_MAX_BYTES)}). Nothing was opened.`, 'error', 0);
       return;
     }
     void file

@@ -5,16 +5,13 @@
  * (atomic write with .bak, validation); this module decides when and asks.
  */
 import { formatProblem } from '../../src-shared/io/problem';
+import { AutosaveSchedule } from '../../src-shared/project/autosaveSchedule';
 import { parseProject, serializeProject } from '../../src-shared/project/projectFile';
 import type { HostBridge } from '../bridge/hostBridge';
 import { pathDialog, restoreDialog, unsavedChangesDialog } from '../dialogs/projectDialogs';
 import type { Notice } from '../panels/notice';
 import type { DocumentStore } from '../state/documentStore';
 
-/** Autosave waits for a pause of this long after a change ... */
-export const AUTOSAVE_PAUSE_MS = 1500;
-/** ... but never longer than this after the first unsaved change. */
-export const AUTOSAVE_MAX_MS = 4000;
 
 const baseName = (p: string) => p.split(/[\\/]/).pop() ?? p;
 const titleOf = (p: string) => baseName(p).replace(/\.rankfill$/i, '') || 'Untitled';
@@ -23,10 +20,12 @@ const describe = (err: unknown) => (err instanceof Error ? err.message : String(
 export class ProjectFiles {
   /** This window's recovery snapshot id. */
   recoveryId = `w${Date.now().toString(36)}${Math.random().toString(36).slice(2, 8)}`;
-  private timer: ReturnType<typeof setTimeout> | undefined;
-  private firstPending = 0;
+  /** The shared autosave schedule (src-shared/project/autosaveSchedule.ts). */
+  private readonly autosave = new AutosaveSchedule(() => this.writeSnapshot(), {
+    set: (fn, ms) => window.setTimeout(fn, ms),
+    clear: (h) => window.clearTimeout(h as number),
+  });
   private snapshotOnDisk = false;
-  private writing: Promise<void> = Promise.resolve();
   /** Paths typed in the browser host's path dialog start here. */
   private folder = '';
 
@@ -57,37 +56,37 @@ export class ProjectFiles {
   // ----- autosave --------------------------------------------------------------------
 
   private scheduleAutosave(): void {
-    const now = Date.now();
-    if (!this.timer) this.firstPending = now;
-    clearTimeout(this.timer);
-    const wait = Math.max(0, Math.min(AUTOSAVE_PAUSE_MS, this.firstPending + AUTOSAVE_MAX_MS - now));
-    this.timer = setTimeout(() => void this.flushAutosave(), wait);
+    this.autosave.changed();
   }
 
   private cancelAutosave(): void {
-    clearTimeout(this.timer);
-    this.timer = undefined;
+    this.autosave.cancel();
   }
 
   /** Write the recovery snapshot now (if there are unsaved changes). */
   flushAutosave(): Promise<void> {
-    this.cancelAutosave();
-    if (!this.store.dirty || this.store.current.rowLabels.length === 0) return this.writing;
+    if (!this.store.dirty || this.store.current.rowLabels.length === 0) {
+      this.autosave.cancel();
+      return this.autosave.idle();
+    }
+    this.autosave.changed();
+    return this.autosave.flush();
+  }
+
+  private async writeSnapshot(): Promise<void> {
+    if (!this.store.dirty || this.store.current.rowLabels.length === 0) return;
     const projectText = serializeProject(this.store.toProject());
     const req = { id: this.recoveryId, title: this.store.title, sourcePath: this.store.filePath, projectText };
-    this.writing = this.writing.then(async () => {
-      try {
-        await this.bridge.call('recovery.write', req);
-        this.snapshotOnDisk = true;
-      } catch (err) {
-        this.notice.show(`Autosave failed: ${describe(err)}. Your changes are still here; keep the project to be safe.`, 'error');
-      }
-    });
-    return this.writing;
+    try {
+      await this.bridge.call('recovery.write', req);
+      this.snapshotOnDisk = true;
+    } catch (err) {
+      this.notice.show(`Autosave failed: ${describe(err)}. Your changes are still here; keep the project to be safe.`, 'error');
+    }
   }
 
   private async discardSnapshot(): Promise<void> {
-    await this.writing;
+    await this.autosave.idle();
     if (!this.snapshotOnDisk) return;
     this.snapshotOnDisk = false;
     await this.bridge.call('recovery.discard', { id: this.recoveryId }).catch(() => undefined);

@@ -3,11 +3,11 @@
  * and how the tuning reply becomes table rows and chart points. No DOM here.
  */
 import type { TunePayload } from '../../src-shared/api';
-import { defaultLowRankSettings } from '../../src-shared/engine/defaults';
+import { DEFAULT_FOLDS, defaultLowRankSettings } from '../../src-shared/engine/defaults';
 import type { Centering, FitSettings, LowRankSettings } from '../../src-shared/engine/types';
 
 export const CENTERING_MODES: readonly Centering[] = ['none', 'row', 'column', 'both'];
-export const COMPARE_FOLDS = 5;
+export const COMPARE_FOLDS = DEFAULT_FOLDS;
 
 export interface CenteringPlan {
   /** One low-rank setting per centering mode, in CENTERING_MODES order. */

@@ -67,7 +67,7 @@ export function mountCenteringPanel(root: HTMLElement, ctx: PanelContext): void 
   root.append(
     el('h2', {}, ['Compare centering']),
     el('p', { className: 'rf-hint' }, [
-      `Holds out a fifth of the observed cells at a time (${COMPARE_FOLDS} folds, the same split for every mode), fits with each centering and measures how far the estimates land from the held-out ratings.`,
+      `Holds out one of ${COMPARE_FOLDS} parts of the observed cells at a time (${COMPARE_FOLDS} folds, the same split for every mode), fits with each centering and measures how far the estimates land from the held-out ratings.`,
     ]),
     familyNote,
     ...runner.controls(),

@@ -4,7 +4,7 @@
  * chart series (mean RMSE against rank, one line per λ and centering). No DOM here.
  */
 import type { TunePayload } from '../../src-shared/api';
-import { defaultLowRankSettings } from '../../src-shared/engine/defaults';
+import { DEFAULT_FOLDS, defaultLowRankSettings } from '../../src-shared/engine/defaults';
 import { expandLowRankGrid } from '../../src-shared/engine/tuning';
 import type { Centering, FitSettings, LowRankSettings } from '../../src-shared/engine/types';
 
@@ -12,7 +12,7 @@ import type { Centering, FitSettings, LowRankSettings } from '../../src-shared/e
 export const MAX_GRID_SETTINGS = 400;
 export const DEFAULT_RANKS = '0, 1, 2, 3, 5, 8';
 export const DEFAULT_LAMBDAS = '0.1, 1, 10, 30';
-export const DEFAULT_TUNE_FOLDS = 5;
+export const DEFAULT_TUNE_FOLDS = DEFAULT_FOLDS;
 
 export type ListResult = { ok: true; values: number[] } | { ok: false; message: string };
 

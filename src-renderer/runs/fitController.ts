@@ -5,6 +5,7 @@
  * centering comparison and the tuning panel. All heavy work happens in the
  * main side's worker; this class only sends snapshots and collects results.
  */
+import { DEFAULT_FOLDS } from '../../src-shared/engine/defaults';
 import type { ApiEventPayload, CrossValidationPayload, TunePayload } from '../../src-shared/api';
 import { fitResultFromPayload, matrixToPayload, trustFromPayload } from '../../src-shared/apiCodec';
 import type { FitSettings } from '../../src-shared/engine/types';
@@ -14,8 +15,8 @@ import type { DocumentStore } from '../state/documentStore';
 import type { Run, RunStore } from './runStore';
 
 /** Ensemble used for the per-cell spread: the k fold models. */
-export const TRUST_FOLDS = 5;
-export const EVALUATION_FOLDS = 5;
+export const TRUST_FOLDS = DEFAULT_FOLDS;
+export const EVALUATION_FOLDS = DEFAULT_FOLDS;
 
 export type FillState =
   | { phase: 'idle' }

@@ -1,3 +1,10 @@
+/**
+ * Cross-validation folds used wherever the user does not choose them: the
+ * per-cell spread of a Fill, Evaluate, Compare centering, the tuning form's
+ * first value, the study report and the command line's --folds.
+ */
+export const DEFAULT_FOLDS = 5;
+
 /** Default settings of the low-rank family. */
 import type { LowRankSettings } from './types';
 

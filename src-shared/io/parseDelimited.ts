@@ -111,7 +111,7 @@ export function utf8ByteLength(s: string): number {
   return n;
 }
 
-function formatBytes(n: number): string {
+export function formatBytes(n: number): string {
   if (n >= 1024 * 1024) return `${(n / (1024 * 1024)).toFixed(1).replace(/\.0$/, '')} MB`;
   if (n >= 1024) return `${(n / 1024).toFixed(1).replace(/\.0$/, '')} KB`;
   return `${n} bytes`;

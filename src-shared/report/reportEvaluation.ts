@@ -4,10 +4,10 @@
  * on the same folds, so the reader sees what the model adds to the baselines.
  */
 import type { TunePayload } from '../api';
-import { defaultLowRankSettings } from '../engine/defaults';
+import { DEFAULT_FOLDS, defaultLowRankSettings } from '../engine/defaults';
 import type { Centering, FitSettings, LowRankSettings } from '../engine/types';
 
-export const REPORT_FOLDS = 5;
+export const REPORT_FOLDS = DEFAULT_FOLDS;
 
 /** The baselines alone, in the order they follow the run's own row. */
 export const BASELINE_MODELS: readonly { centering: Centering; words: string }[] = [
