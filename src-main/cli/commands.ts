@@ -3,7 +3,7 @@
  * crossValidate / tune) and returns an exit code plus what to print; nothing is
  * written before the fit has succeeded.
  */
-import { existsSync, renameSync, writeFileSync, unlinkSync } from 'node:fs';
+import { existsSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { fitModel } from '../../src-shared/engine/fitModel';
 import { FitFailedError } from '../../src-shared/engine/errors';
@@ -21,6 +21,8 @@ import { DEFAULT_INTERVAL_LEVEL, INTERVAL_METHOD } from '../../src-shared/engine
 import { maskPathFor, sidecarPathFor } from '../services/exportPaths';
 import type { CliOptions, FillLayout } from './args';
 import { appVersion } from './version';
+import { atomicWriteSync } from '../services/atomicWrite';
+import { describeFsError } from '../services/readTextFile';
 import { fitSettingsFromOptions, gaussianSettingsFromOptions, settingsFromOptions } from './modelSettings';
 
 export interface CommandOutput {
@@ -39,20 +41,13 @@ function settingsLabel(s: FitSettings): string {
     : `gaussian, shrinkage ${s.shrinkage}${s.transpose ? ', rows are the variables' : ''}`;
 }
 
-/** Write through a temporary file, so a failure never leaves half a file behind. */
+/**
+ * Every file the command line writes goes through the one atomic writer
+ * (src-main/services/atomicWrite.ts): random exclusive temp in the target's folder,
+ * no link followed, fsync, a link at the target updates the file it points to.
+ */
 export function writeAtomically(path: string, text: string): void {
-  const tmp = `${path}.rankfill-${process.pid}.tmp`;
-  try {
-    writeFileSync(tmp, text);
-    renameSync(tmp, path);
-  } catch (err) {
-    try {
-      unlinkSync(tmp);
-    } catch {
-      // nothing to clean up
-    }
-    throw err;
-  }
+  atomicWriteSync(path, text);
 }
 
 const EXPORT_KIND: Record<FillLayout, ExportKind> = { filled: 'filled-wide', estimates: 'estimates-wide', long: 'long' };
@@ -121,8 +116,8 @@ export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, 
       writeAtomically(path, body);
     } catch (err) {
       const e = err as NodeJS.ErrnoException;
-      const hint = e.code === 'ENOENT' ? 'its folder does not exist (create it first)' : (e.code ?? e.message);
-      return { code: 2, stdout: [], stderr: [`rankfill: cannot write ${path}: ${hint}`] };
+      const hint = e.code === 'ENOENT' ? 'its folder does not exist (create it first)' : describeFsError(err);
+      return { code: 2, stdout: [], stderr: [`rankfill: cannot write ${path}: ${hint}; nothing was written`] };
     }
   }
   timings.writeMs = performance.now() - t1;

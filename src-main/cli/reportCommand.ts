@@ -28,7 +28,9 @@ import { buildReport } from '../../src-shared/report/buildReport';
 import type { ReportExport, ReportInput, ReportIntervals } from '../../src-shared/report/reportInput';
 import { reportEvaluationSettings } from '../../src-shared/report/reportEvaluation';
 import { UsageError, type CliOptions } from './args';
-import { writeAtomically, type CommandOutput } from './commands';
+import type { CommandOutput } from './commands';
+import { atomicWriteSync as writeAtomically } from '../services/atomicWrite';
+import { describeFsError } from '../services/readTextFile';
 import { fitSettingsFromOptions, withScale } from './modelSettings';
 import { readMatrix } from './readInput';
 import { sidecarPathFor } from '../services/exportService';
@@ -181,8 +183,7 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
       writeAtomically(o.csv, buildExport(m, fit, fit.spread, options));
       writeAtomically(sidecarPath, sidecar);
     } catch (err) {
-      const e = err as NodeJS.ErrnoException;
-      return { code: 2, stdout: [], stderr: [`rankfill: cannot write ${o.csv}: ${e.code ?? e.message}`] };
+      return { code: 2, stdout: [], stderr: [`rankfill: cannot write ${o.csv}: ${describeFsError(err)}`] };
     }
     exports.push({ path: o.csv, sidecarPath, writtenAt: writtenAt.toISOString() });
   }
@@ -206,8 +207,7 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
   try {
     writeAtomically(o.out!, html);
   } catch (err) {
-    const e = err as NodeJS.ErrnoException;
-    return { code: 2, stdout: [], stderr: [`rankfill: cannot write ${o.out}: ${e.code ?? e.message}`] };
+    return { code: 2, stdout: [], stderr: [`rankfill: cannot write ${o.out}: ${describeFsError(err)}`] };
   }
   const own = evaluation.table[0];
   if (o.json) {

@@ -3,12 +3,13 @@
  * them to the API router. Both hosts call this and differ only in transport.
  */
 import type { ResourceLimits, Worker } from 'node:worker_threads';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { readFileSync } from 'node:fs';
 import { API_VERSION } from '../../src-shared/api';
 import { ApiRouter } from './apiRouter';
 import { findAppRoot } from './appRoot';
-import { suggestExportPath, writeExport } from './exportService';
+import { defaultExportDir, suggestExportPath, writeExport } from './exportService';
+import { removeLeftoverTemps } from './atomicWrite';
 import { FitJobs } from './fitJobs';
 import type { FitService } from './fitService';
 import { SampleService } from './sampleService';
@@ -41,6 +42,21 @@ export interface CreateServicesOptions {
   recentFilesPath?: string;
 }
 
+/**
+ * At start: temporary files of writes interrupted by a crash or a kill are removed from
+ * the folders this host writes to (config, recovery, exports, the folders of recent projects).
+ * Every later write also cleans its own folder (atomicWrite).
+ */
+async function cleanLeftoverTemps(recovery: RecoveryStore, recent: RecentFiles): Promise<void> {
+  const dirs = new Set([recovery.dir, dirname(recent.file), defaultExportDir()]);
+  try {
+    for (const f of await recent.list()) dirs.add(dirname(f.path));
+  } catch {
+    // No recent list: the fixed folders are enough.
+  }
+  for (const d of dirs) await removeLeftoverTemps(d);
+}
+
 export function createServices(opts: CreateServicesOptions): MainServices {
   const root = opts.appRoot ?? findAppRoot();
   const version = (JSON.parse(readFileSync(join(root, 'package.json'), 'utf8')) as { version: string }).version;
@@ -63,9 +79,12 @@ export function createServices(opts: CreateServicesOptions): MainServices {
     }
     return parser;
   };
+  const recovery = new RecoveryStore({ dir: opts.recoveryDir });
+  const recent = new RecentFiles({ file: opts.recentFilesPath });
+  void cleanLeftoverTemps(recovery, recent);
   const documentHandlers = createDocumentHandlers({
-    recovery: new RecoveryStore({ dir: opts.recoveryDir }),
-    recent: new RecentFiles({ file: opts.recentFilesPath }),
+    recovery,
+    recent,
     parser: getParser,
     shell: opts.shell,
     log: opts.log,

@@ -3,13 +3,23 @@
  * writers) goes to disk atomically, with its settings sidecar beside it as
  * NAME.settings.json. An existing file is never replaced unless the user said so.
  */
-import { existsSync } from 'node:fs';
+import { existsSync, statSync } from 'node:fs';
 import { mkdir } from 'node:fs/promises';
 import { homedir } from 'node:os';
 import { basename, dirname, extname, isAbsolute, join } from 'node:path';
 import type { ApiReply, ApiRequest } from '../../src-shared/api';
 import { atomicWrite } from './atomicWrite';
 import { maskPathFor, sidecarPathFor } from './exportPaths';
+import { UserFacingError } from './apiRouter';
+import { describeFsError } from './readTextFile';
+
+function isFolder(p: string): boolean {
+  try {
+    return statSync(p).isDirectory();
+  } catch {
+    return false;
+  }
+}
 
 export { sidecarPathFor, maskPathFor } from './exportPaths';
 
@@ -34,15 +44,29 @@ export async function writeExport(req: ApiRequest<'export.write'>): Promise<ApiR
   if (!isAbsolute(path) || path.endsWith('/') || path.includes('\u0000')) {
     return { ok: false, reason: 'invalid-path', message: `“${path}” is not a full file path` };
   }
+  if (isFolder(path)) return { ok: false, reason: 'invalid-path', message: `${path} is a folder, not a file: add a file name` };
   const sidecarPath = req.sidecar === undefined ? null : sidecarPathFor(path);
   const maskPath = req.mask === undefined ? null : maskPathFor(path);
   if (!req.overwrite) {
     const existing = [path, sidecarPath, maskPath].find((p) => p !== null && existsSync(p));
     if (existing) return { ok: false, reason: 'exists', message: `${existing} already exists` };
   }
-  await mkdir(dirname(path), { recursive: true });
-  await atomicWrite(path, req.text, { backup: false });
-  if (sidecarPath !== null && req.sidecar !== undefined) await atomicWrite(sidecarPath, req.sidecar, { backup: false });
-  if (maskPath !== null && req.mask !== undefined) await atomicWrite(maskPath, req.mask, { backup: false });
+  // Failures come back as one plain sentence naming the file (never a temp file's path or a raw code).
+  let writing = dirname(path);
+  try {
+    await mkdir(writing, { recursive: true });
+    writing = path;
+    await atomicWrite(path, req.text, { backup: false });
+    if (sidecarPath !== null && req.sidecar !== undefined) {
+      writing = sidecarPath;
+      await atomicWrite(sidecarPath, req.sidecar, { backup: false });
+    }
+    if (maskPath !== null && req.mask !== undefined) {
+      writing = maskPath;
+      await atomicWrite(maskPath, req.mask, { backup: false });
+    }
+  } catch (err) {
+    throw new UserFacingError(`Cannot write ${writing}: ${describeFsError(err)}.`);
+  }
   return { ok: true, path, sidecarPath, maskPath, bytes: Buffer.byteLength(req.text) };
 }

@@ -12,7 +12,7 @@ import { DEFAULT_MAX_BYTES, parseDelimited, type ParseOptions, type ParseResult 
 import type { ProjectDocument } from '../../src-shared/project/projectDocument';
 import { parseProject, serializeProject } from '../../src-shared/project/projectFile';
 import { PROJECT_FILE_EXTENSION } from '../../src-shared/project/projectSchema';
-import { atomicWrite, removeStaleTempFiles } from './atomicWrite';
+import { atomicWrite } from './atomicWrite';
 import { describeFsError, readTextFile } from './readTextFile';
 
 /** Largest project file opened: 200 MB. */
@@ -64,7 +64,6 @@ export async function saveProjectFile(filePath: string, doc: ProjectDocument, op
   } catch (err) {
     return { ok: false, problems: [{ file: path.basename(abs), line: 1, column: 1, message: `cannot save: ${describeFsError(err)}; the file on disk is unchanged` }] };
   }
-  void removeStaleTempFiles(abs);
   return { ok: true, path: abs, bytes, backupKept: opts.backup ?? true };
 }
 

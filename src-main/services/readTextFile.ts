@@ -4,7 +4,7 @@
  * report), or UTF-16 LE/BE when the file starts with a UTF-16 BOM.
  * Never throws: file-system errors come back as a Problem with a plain reason.
  */
-import { promises as fs } from 'node:fs';
+import { closeSync, constants, fstatSync, openSync, promises as fs, readSync, statSync, type Stats } from 'node:fs';
 import path from 'node:path';
 import type { Problem } from '../../src-shared/io/problem';
 
@@ -36,6 +36,12 @@ export function describeFsError(err: unknown): string {
       return 'too many open files';
     case 'ENAMETOOLONG':
       return 'the file name is too long';
+    case 'ENOTREG':
+      return 'this is not a regular file (a device, pipe or socket)';
+    case 'EDANGLING':
+      return 'this is a link to a file that does not exist';
+    case 'ENOTDIR':
+      return 'a part of the path is not a folder';
     default:
       return err instanceof Error ? err.message : String(err);
   }
@@ -57,21 +63,109 @@ export function decodeText(buf: Uint8Array): string {
   return new TextDecoder('utf-8', { fatal: false, ignoreBOM: true }).decode(buf);
 }
 
+/** Why a path cannot be read as a file, from its kind (null: a regular file). */
+function refusedKind(st: Stats): string | null {
+  if (st.isFile()) return null;
+  if (st.isDirectory()) return 'this is a folder, not a file';
+  if (st.isFIFO()) return 'this is a pipe (FIFO), not a file; only regular files are opened';
+  if (st.isCharacterDevice() || st.isBlockDevice()) return 'this is a device, not a file; only regular files are opened';
+  return 'this is not a regular file; only regular files are opened';
+}
+
+function tooLarge(n: number, maxBytes: number, atLeast = false): string {
+  return `file is too large to open (${atLeast ? 'more than ' : ''}${formatBytes(n)}; the limit is ${formatBytes(maxBytes)})`;
+}
+
+export type ReadBytesResult = { ok: true; bytes: Buffer } | { ok: false; reason: string };
+
+/**
+ * Reads a whole file with a byte cap. Only regular files: the kind is checked before
+ * opening (so a device is never opened), the file is opened without blocking (a FIFO
+ * cannot hang the caller), checked again with fstat on the opened handle (no swap
+ * between the check and the read), and the cap holds WHILE reading (a file that grows,
+ * or one whose size the system reports as 0, is cut off at the limit and refused).
+ */
+export async function readBoundedFile(filePath: string, maxBytes: number): Promise<ReadBytesResult> {
+  let handle: fs.FileHandle | undefined;
+  try {
+    const before = refusedKind(await fs.stat(filePath));
+    if (before) return { ok: false, reason: before };
+    handle = await fs.open(filePath, constants.O_RDONLY | (constants.O_NONBLOCK ?? 0));
+    const st = await handle.stat();
+    const kind = refusedKind(st);
+    if (kind) return { ok: false, reason: kind };
+    if (st.size > maxBytes) return { ok: false, reason: tooLarge(st.size, maxBytes) };
+    const chunks: Buffer[] = [];
+    let total = 0;
+    for (;;) {
+      const chunk = Buffer.allocUnsafe(Math.min(Math.max(st.size - total, 64 * 1024), 16 * 1024 * 1024, maxBytes - total + 1));
+      const { bytesRead } = await handle.read(chunk, 0, chunk.length, null);
+      if (bytesRead === 0) break;
+      total += bytesRead;
+      if (total > maxBytes) return { ok: false, reason: tooLarge(maxBytes, maxBytes, true) };
+      chunks.push(bytesRead === chunk.length ? chunk : chunk.subarray(0, bytesRead));
+    }
+    return { ok: true, bytes: chunks.length === 1 ? chunks[0] : Buffer.concat(chunks, total) };
+  } catch (err) {
+    return { ok: false, reason: `cannot read the file: ${describeFsError(err)}` };
+  } finally {
+    await handle?.close().catch(() => undefined);
+  }
+}
+
+function readLoopSync(fd: number, maxBytes: number, sizeHint: number): ReadBytesResult {
+  const chunks: Buffer[] = [];
+  let total = 0;
+  for (;;) {
+    const chunk = Buffer.allocUnsafe(Math.min(Math.max(sizeHint - total, 64 * 1024), 16 * 1024 * 1024, maxBytes - total + 1));
+    let bytesRead: number;
+    try {
+      bytesRead = readSync(fd, chunk, 0, chunk.length, null);
+    } catch (err) {
+      // A non-blocking pipe with nothing in it yet: wait a little and read again.
+      if ((err as NodeJS.ErrnoException).code === 'EAGAIN') {
+        Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, 5);
+        continue;
+      }
+      throw err;
+    }
+    if (bytesRead === 0) break;
+    total += bytesRead;
+    if (total > maxBytes) return { ok: false, reason: tooLarge(maxBytes, maxBytes, true) };
+    chunks.push(bytesRead === chunk.length ? chunk : chunk.subarray(0, bytesRead));
+  }
+  return { ok: true, bytes: Buffer.concat(chunks, total) };
+}
+
+/** readBoundedFile, synchronously, for the command line. `-` reads standard input with the same cap. */
+export function readBoundedFileSync(filePath: string, maxBytes: number): ReadBytesResult {
+  if (filePath === '-') {
+    try {
+      return readLoopSync(0, maxBytes, 0);
+    } catch (err) {
+      return { ok: false, reason: `cannot read standard input: ${describeFsError(err)}` };
+    }
+  }
+  let fd: number | undefined;
+  try {
+    const before = refusedKind(statSync(filePath));
+    if (before) return { ok: false, reason: before };
+    fd = openSync(filePath, constants.O_RDONLY | (constants.O_NONBLOCK ?? 0));
+    const st = fstatSync(fd);
+    const kind = refusedKind(st);
+    if (kind) return { ok: false, reason: kind };
+    if (st.size > maxBytes) return { ok: false, reason: tooLarge(st.size, maxBytes) };
+    return readLoopSync(fd, maxBytes, st.size);
+  } catch (err) {
+    return { ok: false, reason: `cannot read the file: ${describeFsError(err)}` };
+  } finally {
+    if (fd !== undefined) closeSync(fd);
+  }
+}
+
 export async function readTextFile(filePath: string, maxBytes: number): Promise<ReadTextResult> {
   const file = path.basename(filePath);
-  const problem = (message: string): ReadTextResult => ({ ok: false, problems: [{ file, line: 1, column: 1, message }] });
-  try {
-    const st = await fs.stat(filePath);
-    if (st.isDirectory()) return problem('this is a folder, not a file');
-    if (st.size > maxBytes) {
-      return problem(`file is too large to open (${formatBytes(st.size)}; the limit is ${formatBytes(maxBytes)})`);
-    }
-    const buf = await fs.readFile(filePath);
-    if (buf.length > maxBytes) {
-      return problem(`file is too large to open (${formatBytes(buf.length)}; the limit is ${formatBytes(maxBytes)})`);
-    }
-    return { ok: true, text: decodeText(buf), bytes: buf.length };
-  } catch (err) {
-    return problem(`cannot read the file: ${describeFsError(err)}`);
-  }
+  const read = await readBoundedFile(filePath, maxBytes);
+  if (!read.ok) return { ok: false, problems: [{ file, line: 1, column: 1, message: read.reason }] };
+  return { ok: true, text: decodeText(read.bytes), bytes: read.bytes.length };
 }

@@ -8,6 +8,7 @@
 import { promises as fs } from 'node:fs';
 import path from 'node:path';
 import { atomicWrite } from './atomicWrite';
+import { readBoundedFile } from './readTextFile';
 import { defaultRecentFilesPath } from './configDir';
 
 export interface RecentFile {
@@ -29,7 +30,9 @@ export class RecentFiles {
 
   async list(): Promise<RecentFile[]> {
     try {
-      const data = JSON.parse(await fs.readFile(this.file, 'utf8')) as { format?: unknown; files?: unknown };
+      const read = await readBoundedFile(this.file, 1024 * 1024);
+      if (!read.ok) return [];
+      const data = JSON.parse(read.bytes.toString('utf8')) as { format?: unknown; files?: unknown };
       if (data.format !== TAG || !Array.isArray(data.files)) return [];
       const out: RecentFile[] = [];
       for (const f of data.files as unknown[]) {

@@ -15,9 +15,18 @@ import path from 'node:path';
 import type { Problem } from '../../src-shared/io/problem';
 import type { ProjectDocument } from '../../src-shared/project/projectDocument';
 import { parseProject, serializeProject } from '../../src-shared/project/projectFile';
-import { atomicWrite } from './atomicWrite';
+import { atomicWrite, removeLeftoverTemps } from './atomicWrite';
 import { defaultRecoveryDir } from './configDir';
-import { describeFsError } from './readTextFile';
+import { describeFsError, readBoundedFile } from './readTextFile';
+
+/** Largest recovery file read: a project at its own limit (200 MB) plus the snapshot's header. */
+const MAX_RECOVERY_BYTES = 201 * 1024 * 1024;
+
+async function readRecoveryText(file: string): Promise<string> {
+  const read = await readBoundedFile(file, MAX_RECOVERY_BYTES);
+  if (!read.ok) throw new Error(read.reason);
+  return read.bytes.toString('utf8');
+}
 
 export const RECOVERY_FORMAT_TAG = 'rankfill-recovery';
 export const RECOVERY_EXTENSION = '.rankfill-recovery';
@@ -76,6 +85,7 @@ export class RecoveryStore {
   async list(): Promise<RecoveryEntry[]> {
     let names: string[];
     try {
+      await removeLeftoverTemps(this.dir);
       names = await fs.readdir(this.dir);
     } catch {
       return [];
@@ -87,7 +97,7 @@ export class RecoveryStore {
       if (!SAFE_ID.test(id)) continue;
       const file = path.join(this.dir, name);
       try {
-        const text = await fs.readFile(file, 'utf8');
+        const text = await readRecoveryText(file);
         const meta = readMeta(text);
         if (meta) out.push({ ...meta, id, file, bytes: Buffer.byteLength(text, 'utf8') });
       } catch {
@@ -109,9 +119,9 @@ export class RecoveryStore {
     const name = path.basename(file);
     let text: string;
     try {
-      text = await fs.readFile(file, 'utf8');
+      text = await readRecoveryText(file);
     } catch (err) {
-      return { ok: false, problems: [{ file: name, line: 1, column: 1, message: `cannot read the recovery file: ${describeFsError(err)}` }] };
+      return { ok: false, problems: [{ file: name, line: 1, column: 1, message: `cannot read the recovery file: ${err instanceof Error ? err.message : String(err)}` }] };
     }
     let data: { format?: unknown; meta?: unknown; project?: unknown };
     try {

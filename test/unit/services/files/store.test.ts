@@ -3,7 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { formatProblem } from '../../../../src-shared/io/problem';
-import { atomicWrite, backupPathFor, removeStaleTempFiles } from '../../../../src-main/services/atomicWrite';
+import { atomicWrite, backupPathFor, removeLeftoverTemps } from '../../../../src-main/services/atomicWrite';
 import { Autosaver } from '../../../../src-main/services/autosave';
 import { defaultConfigDir } from '../../../../src-main/services/configDir';
 import { importDelimitedFile, openProjectFile, saveProjectFile, withProjectExtension } from '../../../../src-main/services/projectStore';
@@ -40,19 +40,20 @@ describe('atomicWrite', () => {
     expect(readdirSync(work).filter((n) => n.endsWith('.tmp'))).toEqual([]);
   });
 
-  it('removes stale temp files left by an interrupted write', async () => {
-    const f = path.join(work, 'c.txt');
-    const stale = path.join(work, '.c.txt.123.abc.tmp');
-    const fresh = path.join(work, '.c.txt.456.def.tmp');
-    writeFileSync(stale, 'partial');
-    writeFileSync(fresh, 'being written');
-    utimesSync(stale, new Date(Date.now() - 3_600_000), new Date(Date.now() - 3_600_000));
-    writeFileSync(path.join(work, '.other.txt.1.x.tmp'), 'not ours');
-    utimesSync(path.join(work, '.other.txt.1.x.tmp'), new Date(0), new Date(0));
-    expect(await removeStaleTempFiles(f, 60_000)).toBe(1);
-    expect(readdirSync(work)).toContain('.c.txt.456.def.tmp');
-    rmSync(fresh);
-    expect(readdirSync(work)).toContain('.other.txt.1.x.tmp');
+  it('removes temp files of interrupted writes: a dead writer\'s at once, a running one\'s only after a day', async () => {
+    const dir = path.join(work, 'leftovers');
+    mkdirSync(dir);
+    // pid 2147483646 does not run on any system we test on; process.ppid (the test runner) does.
+    const dead = path.join(dir, '.c.txt.2147483646.0123456789ab.tmp');
+    const running = path.join(dir, `.c.txt.${process.ppid}.0123456789ab.tmp`);
+    const runningOld = path.join(dir, `.d.txt.${process.ppid}.0123456789ab.tmp`);
+    const notOurs = path.join(dir, '.other.txt.1.x.tmp');
+    for (const f of [dead, running, runningOld, notOurs]) writeFileSync(f, 'partial');
+    const twoDaysAgo = new Date(Date.now() - 2 * 86_400_000);
+    utimesSync(runningOld, twoDaysAgo, twoDaysAgo);
+    utimesSync(notOurs, new Date(0), new Date(0));
+    expect(await removeLeftoverTemps(dir)).toBe(2);
+    expect(readdirSync(dir).sort()).toEqual([path.basename(running), path.basename(notOurs)].sort());
   });
 });
 
