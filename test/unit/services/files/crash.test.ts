@@ -1,9 +1,12 @@
 /**
  * Crash safety of the atomic save and of the recovery snapshots.
  *
- * A child Node process saves two alternating project versions in a loop; we kill
- * it with SIGKILL at random moments, 40 times, and after each kill the file on
- * disk must parse as exactly one of the two versions (corrupt count must be 0).
+ * A child Node process writes two alternating versions in a loop — the window's project
+ * save, the host's export (with its sidecar) and the command line's `fill --out` — and we
+ * kill it with SIGKILL at random moments, 310 times in all; after each kill the file on
+ * disk must be exactly one of the two versions (torn count must be 0), temps left by a
+ * kill must be gone once the writer runs again, and none may remain after the start-up
+ * cleanup.
  * Source for the expectation: POSIX rename(2) replaces the target atomically, so a
  * reader sees the old or the new file, never a mix. (SIGKILL leaves the page cache
  * intact; power loss is what the fsync calls guard, which a test cannot simulate.)
@@ -12,18 +15,22 @@
  * runs through `node --import tsx` instead (slower).
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { formatProblem } from '../../../../src-shared/io/problem';
 import { parseProject } from '../../../../src-shared/project/projectFile';
 import { RecoveryStore } from '../../../../src-main/services/recovery';
-import { crashTestVersion } from './crash.versions';
+import { crashCliInput, crashExportText, crashTestVersion } from './crash.versions';
+import { isTempName, removeLeftoverTemps } from '../../../../src-main/services/atomicWrite';
+import { runCli } from '../../../../src-main/cli/main';
 import { createRng } from '../../../../src-shared/engine/random';
 
 const CHILD_TS = path.resolve(__dirname, 'crash.child.ts');
-const TRIALS = 40;
+const TRIALS = 110;
+const EXPORT_TRIALS = 100;
+const CLI_TRIALS = 100;
 
 let work: string;
 let childArgs: string[];
@@ -102,36 +109,146 @@ function versionOf(file: string): 0 | 1 | string {
   return 'parses, but is neither version';
 }
 
+/** Temporary files of the atomic writer in a folder. */
+const tempsIn = (dir: string) => readdirSync(dir).filter(isTempName);
+
+interface KillLoop {
+  name: string;
+  trials: number;
+  dir: string;
+  child: string[];
+  /** Which version the written file holds, or why it is neither. */
+  check: () => 0 | 1 | string;
+  /** Longest random wait before the kill, ms (default 60). */
+  maxWaitMs?: number;
+  /** Other files the writer replaces (each must be whole, too). */
+  alsoCheck?: () => string | null;
+}
+
+/**
+ * Kills the writer with SIGKILL at a random moment, `trials` times; after each kill the
+ * file must be exactly one of the two versions. The next start of the writer must have
+ * removed the temps the previous kill left (so at most one write's temps are ever left),
+ * and after the host's start-up cleanup none remain.
+ */
+async function killLoop(l: KillLoop, random: () => number): Promise<{ corrupt: number; seen: number[]; maxTemps: number; afterRestart: number }> {
+  let corrupt = 0;
+  let maxTemps = 0;
+  const seen = [0, 0];
+  const t0 = performance.now();
+  for (let trial = 0; trial < l.trials; trial++) {
+    const child = startChild(l.child);
+    await waitForLine(child, (line) => line === 'ready');
+    await sleep(Math.floor(random() * (l.maxWaitMs ?? 60)));
+    await kill(child);
+    const v = l.check();
+    const other = l.alsoCheck?.() ?? null;
+    if (typeof v === 'string' || other !== null) corrupt++;
+    else seen[v]++;
+    maxTemps = Math.max(maxTemps, tempsIn(l.dir).length);
+  }
+  const leftBeforeRestart = tempsIn(l.dir).length;
+  await removeLeftoverTemps(l.dir); // what every host does at start, and every write does first
+  const afterRestart = tempsIn(l.dir).length;
+  console.log(
+    `crash-safety ${l.name}: ${l.trials} SIGKILL trials, torn files: ${corrupt}, old/new seen: ${seen[0]}/${seen[1]}, ` +
+      `most temps left at once: ${maxTemps}, left after the last kill: ${leftBeforeRestart}, after restart: ${afterRestart}, ` +
+      `${Math.round(performance.now() - t0)} ms`,
+  );
+  return { corrupt, seen, maxTemps, afterRestart };
+}
+
+function expectClean(r: { corrupt: number; seen: number[]; maxTemps: number; afterRestart: number }, maxTempsOfOneWrite: number): void {
+  expect(r.corrupt).toBe(0);
+  // Both versions must have been observed, or the kills did not land during the loop.
+  expect(r.seen[0]).toBeGreaterThan(0);
+  expect(r.seen[1]).toBeGreaterThan(0);
+  expect(r.maxTemps).toBeLessThanOrEqual(maxTempsOfOneWrite);
+  expect(r.afterRestart).toBe(0);
+}
+
 describe('crash safety', () => {
-  it(`the saved file is always the old or the new version after ${TRIALS} random SIGKILLs`, async () => {
-    const target = path.join(work, 'panel.rankfill');
-    const random = rng(20260202);
-    let corrupt = 0;
-    let corruptBackups = 0;
-    const seen = [0, 0];
-    const t0 = performance.now();
-    for (let trial = 0; trial < TRIALS; trial++) {
-      const child = startChild(['save', target]);
-      await waitForLine(child, (l) => l === 'ready');
-      await sleep(Math.floor(random() * 60));
-      await kill(child);
-      const v = versionOf(target);
-      if (typeof v === 'string') corrupt++;
-      else seen[v]++;
-      const bak = target + '.bak';
-      if (readdirSync(work).includes('panel.rankfill.bak') && typeof versionOf(bak) === 'string') corruptBackups++;
-    }
-    const leftovers = readdirSync(work).filter((n) => n.endsWith('.tmp')).length;
-    console.log(
-      `crash-safety loop: ${TRIALS} trials, corrupt files: ${corrupt}, corrupt backups: ${corruptBackups}, ` +
-        `old/new seen: ${seen[0]}/${seen[1]}, leftover temp files: ${leftovers}, ${Math.round(performance.now() - t0)} ms`,
+  // 110 + 100 + 100 = 310 kill trials across the window's save, the host's export and the CLI's output.
+  it(`window save: the project file is always the old or the new version after ${TRIALS} random SIGKILLs`, async () => {
+    const dir = path.join(work, 'save');
+    mkdirSync(dir);
+    const target = path.join(dir, 'panel.rankfill');
+    const bak = target + '.bak';
+    const r = await killLoop(
+      {
+        name: 'window save',
+        trials: TRIALS,
+        dir,
+        child: ['save', target],
+        check: () => versionOf(target),
+        alsoCheck: () => (existsSync(bak) && typeof versionOf(bak) === 'string' ? `backup: ${versionOf(bak)}` : null),
+      },
+      rng(20260202),
     );
-    expect(corrupt).toBe(0);
-    expect(corruptBackups).toBe(0);
-    // Both versions must have been observed, or the kills did not land during the loop.
-    expect(seen[0]).toBeGreaterThan(0);
-    expect(seen[1]).toBeGreaterThan(0);
-  });
+    expectClean(r, 2); // the project's temp and the backup's temp
+  }, 240_000);
+
+  it(`host export: the export and its sidecar are always whole after ${EXPORT_TRIALS} random SIGKILLs`, async () => {
+    const dir = path.join(work, 'export');
+    mkdirSync(dir);
+    const target = path.join(dir, 'filled.csv');
+    const sidecar = path.join(dir, 'filled.settings.json');
+    const texts = [crashExportText(0), crashExportText(1)];
+    const r = await killLoop(
+      {
+        name: 'host export',
+        trials: EXPORT_TRIALS,
+        dir,
+        child: ['export', target],
+        check: () => {
+          const t = readFileSync(target, 'utf8');
+          return t === texts[0] ? 0 : t === texts[1] ? 1 : `neither version (${t.length} characters)`;
+        },
+        alsoCheck: () => {
+          const t = readFileSync(sidecar, 'utf8');
+          return /^\{"version":[01]\}\n$/.test(t) ? null : `sidecar torn: ${JSON.stringify(t.slice(0, 40))}`;
+        },
+      },
+      rng(20261202),
+    );
+    expectClean(r, 1);
+  }, 240_000);
+
+  it(`command line: the --out file is always one whole fill after ${CLI_TRIALS} random SIGKILLs`, async () => {
+    const dir = path.join(work, 'cli');
+    mkdirSync(dir);
+    const inputs = [0, 1].map((v) => {
+      const p = path.join(work, `cli-in-${v}.csv`);
+      writeFileSync(p, crashCliInput(v));
+      return p;
+    });
+    // The two expected outputs, from the same command in this process.
+    const expected = await Promise.all(
+      [0, 1].map(async (v) => {
+        const p = path.join(work, `cli-expected-${v}.csv`);
+        const code = await runCli(['fill', inputs[v], '--out', p, '--rank', '1', '--seed', '1'], { stdout: () => {}, stderr: () => {} });
+        expect(code).toBe(0);
+        return readFileSync(p, 'utf8');
+      }),
+    );
+    expect(expected[0]).not.toBe(expected[1]);
+    const out = path.join(dir, 'filled.csv');
+    const r = await killLoop(
+      {
+        name: 'command line',
+        trials: CLI_TRIALS,
+        dir,
+        child: ['cli', inputs[0], inputs[1], out],
+        maxWaitMs: 150,
+        check: () => {
+          const t = readFileSync(out, 'utf8');
+          return t === expected[0] ? 0 : t === expected[1] ? 1 : `neither fill (${t.length} characters)`;
+        },
+      },
+      rng(20261203),
+    );
+    expectClean(r, 1);
+  }, 240_000);
 
   it('the recovery file restores the last edits after a SIGKILL', async () => {
     const dir = path.join(work, 'recovery');

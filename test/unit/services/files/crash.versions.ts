@@ -20,3 +20,18 @@ export function crashTestVersion(which: 0 | 1 | number): ProjectDocument {
     modifiedAt: '2026-01-01T00:00:00.000Z',
   };
 }
+
+/** The two export texts the crash test alternates between (a header line naming the version; different sizes). */
+export function crashExportText(which: 0 | 1 | number): string {
+  const lines = [`row,version ${which}`];
+  for (let i = 0; i < (which === 0 ? 3000 : 9000); i++) lines.push(`r${i},${(i * (which + 3)) % 9}`);
+  return lines.join('\r\n') + '\r\n';
+}
+
+/** The two CLI inputs (wide CSV): their fills differ in every row. */
+export function crashCliInput(which: 0 | 1 | number): string {
+  const rows = which === 0 ? 40 : 120;
+  const lines = ['row,a,b,c,d'];
+  for (let i = 0; i < rows; i++) lines.push(`r${i},${1 + (i % 5)},${1 + ((i + which) % 5)},${i % 3 === 0 ? '' : 2 + which},${1 + ((i * 7) % 5)}`);
+  return lines.join('\n') + '\n';
+}
