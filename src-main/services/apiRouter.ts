@@ -71,8 +71,48 @@ export class ApiRouter {
     this.emitter.emit('event', { event, payload: checked.data } as EventEnvelope);
   }
 
+  /**
+   * Subscribes a host's transport. This is the top-level guard for job results: a
+   * transport that cannot carry an event (V8 refuses strings over ~512 MB, so the JSON
+   * of a very large result throws) never takes the host down; the page instead gets a
+   * `fit.error` for that job saying, in one sentence, that the result is too large to draw.
+   */
   onEvent(listener: (e: EventEnvelope) => void): () => void {
-    this.emitter.on('event', listener);
-    return () => this.emitter.off('event', listener);
+    const guarded = (e: EventEnvelope) => {
+      try {
+        listener(e);
+      } catch (err) {
+        this.log(`event ${e.event} could not be delivered: ${err instanceof Error ? err.message : String(err)}`);
+        const jobId = (e.payload as { jobId?: unknown }).jobId;
+        if (e.event === 'fit.error' || typeof jobId !== 'string') return;
+        try {
+          listener({ event: 'fit.error', payload: { jobId, message: undeliverableMessage(e, err) } });
+        } catch {
+          // Not even the short notice could be sent; the page's own timeout takes over.
+        }
+      }
+    };
+    this.emitter.on('event', guarded);
+    return () => this.emitter.off('event', guarded);
   }
+}
+
+/** Whether an error is the engine's or V8's refusal to build something that large. */
+export function isTooLarge(err: unknown): boolean {
+  const e = err as { name?: string; code?: string; message?: string } | null;
+  return (
+    e?.name === 'RangeError' ||
+    e?.code === 'ERR_STRING_TOO_LONG' ||
+    /Invalid (string|array|typed array) length|Array buffer allocation failed|too large/i.test(e?.message ?? '')
+  );
+}
+
+/** The one sentence the page shows when a job's result cannot reach it. */
+export function undeliverableMessage(e: { event: string; payload: unknown }, err: unknown): string {
+  const r = (e.payload as { result?: { rows?: unknown; cols?: unknown } }).result;
+  const cells = typeof r?.rows === 'number' && typeof r?.cols === 'number' ? r.rows * r.cols : null;
+  const size = cells !== null ? ` (${cells.toLocaleString('en-US')} cells)` : '';
+  return isTooLarge(err)
+    ? `The result is too large to draw in this window${size}; fit fewer rows or columns, or turn off spread.`
+    : `The result could not be sent to this window (${err instanceof Error ? err.message : String(err)}).`;
 }

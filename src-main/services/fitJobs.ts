@@ -14,7 +14,7 @@ import type { CrossValidationResult } from '../../src-shared/engine/crossValidat
 import type { TuneResult } from '../../src-shared/engine/tuning';
 import type { FitSettings } from '../../src-shared/engine/types';
 import type { FitJobResult, ProgressPayload, TrustRequest } from '../workers/fitProtocol';
-import { UserFacingError, type ApiRouter } from './apiRouter';
+import { UserFacingError, undeliverableMessage, type ApiRouter } from './apiRouter';
 import { FitService } from './fitService';
 
 type Lane = 'fit' | 'eval';
@@ -103,11 +103,18 @@ export class FitJobs {
     });
     svc.on('result', (id: string, result: unknown) => {
       const { jobId, kind } = this.finish(lane, id);
-      if (kind === 'evaluate') router.emit('fit.evaluated', { jobId, result: crossValidationToPayload(result as CrossValidationResult) });
-      else if (kind === 'tune') router.emit('fit.tuned', { jobId, result: tuneToPayload(result as TuneResult) });
-      else {
-        const r = result as FitJobResult;
-        router.emit('fit.result', { jobId, result: fitResultToPayload(r), ...(r.trust ? { trust: trustToPayload(r.trust) } : {}) });
+      // Building the wire form of a huge result can itself fail (memory, array limits):
+      // the job then ends with one sentence for the page, and the host keeps running.
+      try {
+        if (kind === 'evaluate') router.emit('fit.evaluated', { jobId, result: crossValidationToPayload(result as CrossValidationResult) });
+        else if (kind === 'tune') router.emit('fit.tuned', { jobId, result: tuneToPayload(result as TuneResult) });
+        else {
+          const r = result as FitJobResult;
+          router.emit('fit.result', { jobId, result: fitResultToPayload(r), ...(r.trust ? { trust: trustToPayload(r.trust) } : {}) });
+        }
+      } catch (err) {
+        const r = result as { rows?: number; cols?: number };
+        router.emit('fit.error', { jobId, message: undeliverableMessage({ event: 'fit.result', payload: { result: { rows: r?.rows, cols: r?.cols } } }, err) });
       }
     });
     svc.on('cancelled', (id: string) => router.emit('fit.cancelled', { jobId: this.finish(lane, id).jobId }));

@@ -51,20 +51,41 @@ function electronTransport(host: PreloadHost): Transport {
   return { call: (m, p) => host.call(m, p), subscribe: (l) => void host.onEvent(l) };
 }
 
-function readToken(): string {
-  const fromHash = new URLSearchParams(location.hash.replace(/^#/, '')).get('token');
+/**
+ * The API token of the browser host: from `#token=…` (the address printed for the user),
+ * or traded once for a `#launch=…` nonce (the address the host hands to the system
+ * browser, so the token itself never appears on a command line), or kept from earlier
+ * in this tab. The fragment is removed from the address bar at once.
+ */
+async function readToken(): Promise<string> {
+  const hash = new URLSearchParams(location.hash.replace(/^#/, ''));
+  const fromHash = hash.get('token');
+  const nonce = hash.get('launch');
+  if (fromHash || nonce) history.replaceState(null, '', location.pathname + location.search);
   if (fromHash) {
     sessionStorage.setItem('rankfill.token', fromHash);
-    history.replaceState(null, '', location.pathname + location.search);
     return fromHash;
+  }
+  if (nonce) {
+    try {
+      const res = await fetch('/api/launch', { method: 'POST', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify({ nonce }) });
+      const reply = (await res.json()) as { ok?: boolean; data?: { token?: unknown } };
+      if (reply.ok && typeof reply.data?.token === 'string') {
+        sessionStorage.setItem('rankfill.token', reply.data.token);
+        return reply.data.token;
+      }
+    } catch {
+      // Fall through: a token kept in this tab, or none (calls then say the token is wrong).
+    }
   }
   return sessionStorage.getItem('rankfill.token') ?? '';
 }
 
 function httpTransport(): Transport {
-  const token = readToken();
+  const tokenReady = readToken();
   return {
     async call(method, payload) {
+      const token = await tokenReady;
       const res = await fetch('/api/call', {
         method: 'POST',
         headers: { 'Content-Type': 'application/json', [TOKEN_HEADER]: token },
@@ -73,14 +94,16 @@ function httpTransport(): Transport {
       return res.json();
     },
     subscribe(listener) {
-      const source = new EventSource(`/api/events?token=${encodeURIComponent(token)}`);
-      source.onmessage = (e) => {
-        try {
-          listener(JSON.parse(e.data as string));
-        } catch {
-          // A malformed event is dropped; the envelope check below would refuse it anyway.
-        }
-      };
+      void tokenReady.then((token) => {
+        const source = new EventSource(`/api/events?token=${encodeURIComponent(token)}`);
+        source.onmessage = (e) => {
+          try {
+            listener(JSON.parse(e.data as string));
+          } catch {
+            // A malformed event is dropped; the envelope check below would refuse it anyway.
+          }
+        };
+      });
     },
   };
 }

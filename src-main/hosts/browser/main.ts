@@ -4,12 +4,12 @@
  * Serves the workbench on 127.0.0.1, prints the address, and opens the system
  * browser when there is a display.
  */
-import { spawn } from 'node:child_process';
 import { join } from 'node:path';
 import { createServices } from '../../services/createServices';
 import { createFitWorker } from '../../workers/createFitWorker';
 import { createParseWorker } from '../../services/createParseWorker';
 import { startHttpHost } from './httpHost';
+import { openBrowser } from './openBrowser';
 
 function parseArgs(argv: string[]): { port: number; open: boolean } {
   let port = 0;
@@ -34,26 +34,14 @@ function parseArgs(argv: string[]): { port: number; open: boolean } {
   return { port, open };
 }
 
-function openBrowser(url: string): void {
-  const hasDisplay = process.platform !== 'linux' || Boolean(process.env.DISPLAY || process.env.WAYLAND_DISPLAY);
-  if (!hasDisplay) return;
-  const cmd = process.platform === 'darwin' ? 'open' : process.platform === 'win32' ? 'explorer' : 'xdg-open';
-  try {
-    const child = spawn(cmd, [url], { stdio: 'ignore', detached: true });
-    child.on('error', () => {});
-    child.unref();
-  } catch {
-    // No system browser: the printed address is enough.
-  }
-}
-
 async function main(): Promise<void> {
   const args = parseArgs(process.argv.slice(2));
   const log = (line: string) => console.error(`[rankfill] ${line}`);
   const services = createServices({ host: 'browser', createWorker: createFitWorker, createParseWorker, log });
   const host = await startHttpHost({ router: services.router, rendererDir: join(__dirname, '../renderer'), port: args.port, log });
   console.log(`Rankfill is ready at ${host.launchUrl}`);
-  if (args.open) openBrowser(host.launchUrl);
+  // The browser gets a one-time launch address, never the token (its command line is visible to `ps`).
+  if (args.open) openBrowser(host.newLaunchUrl());
   const stop = () => {
     void host.close().then(() => services.dispose()).finally(() => process.exit(0));
   };
