@@ -9,7 +9,7 @@
  * succeeded; each file is written atomically.
  */
 import { createHash } from 'node:crypto';
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync } from 'node:fs';
 import { basename } from 'node:path';
 import { tuneToPayload } from '../../src-shared/apiCodec';
 import { autoSettings } from '../../src-shared/engine/autoSettings';
@@ -30,7 +30,8 @@ import { reportEvaluationSettings } from '../../src-shared/report/reportEvaluati
 import { UsageError, type CliOptions } from './args';
 import type { CommandOutput } from './commands';
 import { atomicWriteSync as writeAtomically } from '../services/atomicWrite';
-import { describeFsError } from '../services/readTextFile';
+import { decodeText, describeFsError, readBoundedFileSync } from '../services/readTextFile';
+import { MAX_PROJECT_BYTES } from '../services/projectStore';
 import { fitSettingsFromOptions, withScale } from './modelSettings';
 import { readMatrix } from './readInput';
 import { sidecarPathFor } from '../services/exportService';
@@ -52,13 +53,10 @@ function isProjectPath(path: string): boolean {
 }
 
 function loadProject(o: CliOptions): Loaded | CommandOutput {
-  let text: string;
-  try {
-    text = readFileSync(o.input, 'utf8');
-  } catch (err) {
-    const e = err as NodeJS.ErrnoException;
-    return { code: 2, stdout: [], stderr: [`${o.input}:1:1: ${e.code === 'ENOENT' ? 'no such file' : `cannot read the file (${e.code ?? e.message})`}`] };
-  }
+  // Bounded like the window's open: regular files only, at most the project limit.
+  const read = readBoundedFileSync(o.input, MAX_PROJECT_BYTES);
+  if (!read.ok) return { code: 2, stdout: [], stderr: [`${o.input}:1:1: ${read.reason}`] };
+  const text = decodeText(read.bytes);
   const parsed = parseProject(text, o.input);
   if (!parsed.ok) return { code: 2, stdout: [], stderr: parsed.problems.map(formatProblem) };
   const project = parsed.project;

@@ -204,7 +204,7 @@ describe('exit codes and messages', () => {
   it('a missing input file is reported as FILE:1:1 with exit 2', async () => {
     const r = await run('evaluate', join(dir, 'nope.csv'));
     expect(r.code).toBe(2);
-    expect(r.stderr).toMatch(/nope\.csv:1:1: no such file/);
+    expect(r.stderr).toMatch(/nope\.csv:1:1: cannot read the file: file not found/);
   });
 });
 
