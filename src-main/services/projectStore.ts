@@ -37,7 +37,7 @@ export function withProjectExtension(filePath: string): string {
 
 export async function openProjectFile(filePath: string, maxBytes = MAX_PROJECT_BYTES): Promise<OpenProjectResult> {
   const abs = path.resolve(filePath);
-  const read = await readTextFile(abs, maxBytes);
+  const read = await readTextFile(abs, maxBytes, { strictUtf8: true });
   if (!read.ok) return read;
   const parsed = parseProject(read.text, path.basename(abs));
   if (!parsed.ok) return parsed;

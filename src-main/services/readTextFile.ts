@@ -163,9 +163,73 @@ export function readBoundedFileSync(filePath: string, maxBytes: number): ReadByt
   }
 }
 
-export async function readTextFile(filePath: string, maxBytes: number): Promise<ReadTextResult> {
+/**
+ * Where the first byte that is not valid UTF-8 sits, as line and column (characters of
+ * that line before it, plus one); null when the bytes are valid UTF-8.
+ */
+export function locateInvalidUtf8(buf: Uint8Array): { byte: number; line: number; column: number } | null {
+  try {
+    new TextDecoder('utf-8', { fatal: true }).decode(buf);
+    return null;
+  } catch {
+    // Find it: decode ever longer prefixes would be quadratic, so walk the byte patterns
+    // (Unicode standard, table 3-7: well-formed UTF-8 byte sequences).
+  }
+  let k = 0;
+  const n = buf.length;
+  while (k < n) {
+    const b = buf[k];
+    let len = 0;
+    let lo = 0x80;
+    let hi = 0xbf;
+    if (b < 0x80) len = 1;
+    else if (b >= 0xc2 && b <= 0xdf) len = 2;
+    else if (b === 0xe0) [len, lo] = [3, 0xa0];
+    else if ((b >= 0xe1 && b <= 0xec) || b === 0xee || b === 0xef) len = 3;
+    else if (b === 0xed) [len, hi] = [3, 0x9f];
+    else if (b === 0xf0) [len, lo] = [4, 0x90];
+    else if (b >= 0xf1 && b <= 0xf3) len = 4;
+    else if (b === 0xf4) [len, hi] = [4, 0x8f];
+    let ok = len > 0 && k + len <= n;
+    for (let t = 1; ok && t < len; t++) {
+      const c = buf[k + t];
+      ok = t === 1 ? c >= lo && c <= hi : c >= 0x80 && c <= 0xbf;
+    }
+    if (!ok) break;
+    k += len;
+  }
+  if (k >= n) return null;
+  let lineStart = 0;
+  let line = 1;
+  for (let t = 0; t < k; t++) {
+    if (buf[t] === 0x0a) {
+      line++;
+      lineStart = t + 1;
+    }
+  }
+  const column = new TextDecoder('utf-8').decode(buf.subarray(lineStart, k)).length + 1;
+  return { byte: k, line, column };
+}
+
+export interface ReadTextOptions {
+  /** Refuse bytes that are not valid UTF-8 (with their place) instead of decoding them as U+FFFD. */
+  strictUtf8?: boolean;
+}
+
+export async function readTextFile(filePath: string, maxBytes: number, opts: ReadTextOptions = {}): Promise<ReadTextResult> {
   const file = path.basename(filePath);
   const read = await readBoundedFile(filePath, maxBytes);
   if (!read.ok) return { ok: false, problems: [{ file, line: 1, column: 1, message: read.reason }] };
-  return { ok: true, text: decodeText(read.bytes), bytes: read.bytes.length };
+  const b = read.bytes;
+  const utf16 = b.length >= 2 && ((b[0] === 0xff && b[1] === 0xfe) || (b[0] === 0xfe && b[1] === 0xff));
+  if (opts.strictUtf8 && !utf16) {
+    const bad = locateInvalidUtf8(b);
+    if (bad) {
+      return {
+        ok: false,
+        problems: [{ file, line: bad.line, column: bad.column, message: `byte ${bad.byte + 1} is not valid UTF-8 text; the file may be damaged or saved in another encoding` }],
+      };
+    }
+  }
+  return { ok: true, text: decodeText(b), bytes: b.length };
 }

@@ -11,6 +11,8 @@ import { ProblemCollector } from '../io/problem';
 import type { FitSettings } from '../engine/types';
 import type { ProjectDocument, SavedRun } from './projectDocument';
 import { locateJsonPath, positionOfOffset } from './locateJsonPath';
+import { findJsonSyntaxError, peekMatrixShape } from './jsonSyntax';
+import { MAX_CELLS } from '../io/importCommon';
 import { PROJECT_FORMAT_TAG, PROJECT_FORMAT_VERSION, projectFileSchema, type ProjectFile } from './projectSchema';
 
 export type ParseProjectResult = { ok: true; project: ProjectDocument } | { ok: false; problems: Problem[] };
@@ -108,8 +110,23 @@ export function serializeProject(doc: ProjectDocument): string {
   return lines.join('\n') + '\n';
 }
 
-/** Problem for text JSON.parse refused, with the line/column V8 reports when it does. */
+/**
+ * Problem for text JSON.parse refused: located exactly by our own scanner (jsonSyntax.ts),
+ * quoting at most the offending token; V8's own message only when the scanner disagrees.
+ */
 function jsonProblem(text: string, err: unknown, problems: ProblemCollector): void {
+  const found = findJsonSyntaxError(text);
+  if (found) {
+    const pos = positionOfOffset(text, found.offset);
+    problems.add(
+      pos.line,
+      pos.column,
+      found.endsEarly
+        ? `the project file ends too early (${found.reason}); it may be truncated or damaged`
+        : `the project file is not valid JSON (${found.reason}); it may be damaged`,
+    );
+    return;
+  }
   const raw = err instanceof Error ? err.message : String(err);
   const at = /at position (\d+)/.exec(raw);
   const lc = /\(line (\d+) column (\d+)\)/.exec(raw);
@@ -144,6 +161,29 @@ function pathText(path: readonly PropertyKey[]): string {
   return s || '(top level)';
 }
 
+/**
+ * Keys present in the file but not in the validated object (the schema drops what it does
+ * not know): refused, so a misspelt or foreign key is never silently lost. `__proto__`,
+ * which JSON.parse keeps as an ordinary key, is caught the same way.
+ */
+function unknownKeys(input: unknown, output: unknown, path: (string | number)[] = [], found: (string | number)[][] = []): (string | number)[][] {
+  if (found.length >= 20 || input === null || typeof input !== 'object' || output === null || typeof output !== 'object') return found;
+  if (Array.isArray(input)) {
+    if (!Array.isArray(output)) return found;
+    for (let k = 0; k < input.length && found.length < 20; k++) {
+      const v = input[k];
+      if (v !== null && typeof v === 'object') unknownKeys(v, output[k], [...path, k], found);
+    }
+    return found;
+  }
+  for (const key of Object.keys(input)) {
+    if (!Object.prototype.hasOwnProperty.call(output, key)) found.push([...path, key]);
+    else unknownKeys((input as Record<string, unknown>)[key], (output as Record<string, unknown>)[key], [...path, key], found);
+    if (found.length >= 20) break;
+  }
+  return found;
+}
+
 export function parseProject(input: string, fileName: string): ParseProjectResult {
   const problems = new ProblemCollector(fileName, 50);
   try {
@@ -152,6 +192,17 @@ export function parseProject(input: string, fileName: string): ParseProjectResul
       return { ok: false, problems: problems.list() };
     }
     const text = input.charCodeAt(0) === 0xfeff ? ' ' + input.slice(1) : input; // keep offsets
+    // The cell limit is checked from the label lists alone, before the body is parsed.
+    const shape = peekMatrixShape(text);
+    if (shape && shape.rows * shape.cols > MAX_CELLS) {
+      const p = locateJsonPath(text, ['matrix', 'rowLabels']);
+      problems.add(
+        p.line,
+        p.column,
+        `matrix: ${shape.rows} rows × ${shape.cols} columns = ${shape.rows * shape.cols} cells; the limit is ${MAX_CELLS} cells`,
+      );
+      return { ok: false, problems: problems.list() };
+    }
     let data: unknown;
     try {
       data = JSON.parse(text);
@@ -185,6 +236,14 @@ export function parseProject(input: string, fileName: string): ParseProjectResul
       for (const issue of parsed.error.issues) {
         const p = locateJsonPath(text, issue.path);
         problems.add(p.line, p.column, `${pathText(issue.path)}: ${issue.message}`);
+      }
+      return { ok: false, problems: problems.list() };
+    }
+    const unknown = unknownKeys(data, parsed.data);
+    if (unknown.length > 0) {
+      for (const path of unknown) {
+        const p = locateJsonPath(text, path);
+        problems.add(p.line, p.column, `${pathText(path)}: unknown key ${JSON.stringify(String(path[path.length - 1]))} (not part of the project format)`);
       }
       return { ok: false, problems: problems.list() };
     }

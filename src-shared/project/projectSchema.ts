@@ -26,7 +26,14 @@ export const PROJECT_FORMAT_VERSION = 1;
 export const PROJECT_FILE_EXTENSION = '.rankfill';
 
 const cell = z.number().finite().min(-1e15).max(1e15).nullable();
-const isoTime = z.string().min(1).max(64);
+/** ISO-8601 date and time with a zone, e.g. 2026-01-31T12:00:00.000Z (what toISOString writes). */
+const ISO_TIME = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d{1,9})?)?(Z|[+-]\d{2}:\d{2})$/;
+const isoTime = z
+  .string()
+  .max(64)
+  .refine((s) => ISO_TIME.test(s) && Number.isFinite(Date.parse(s)), {
+    message: 'not a valid time (expected ISO-8601 with a zone, e.g. 2026-01-31T12:00:00.000Z)',
+  });
 
 const labelList = (what: string) =>
   z
@@ -61,6 +68,20 @@ export const projectMatrixSchema = z
         ctx.addIssue({ code: 'custom', path: ['values', i], message: `row ${i + 1} has ${row.length} values but there are ${m.colLabels.length} columns` });
       }
     });
+    // Observed values lie on the project's own scale (as the window enforces on entry).
+    const { min, max } = m.scale;
+    if (!(max > min)) return; // reported by the scale schema
+    let outside = 0;
+    for (let i = 0; i < m.values.length && outside < 10; i++) {
+      const row = m.values[i];
+      for (let j = 0; j < row.length && outside < 10; j++) {
+        const x = row[j];
+        if (x !== null && (x < min || x > max)) {
+          outside++;
+          ctx.addIssue({ code: 'custom', path: ['values', i, j], message: `value ${x} is outside the project's scale ${min} to ${max}` });
+        }
+      }
+    }
   });
 
 export const savedRunSchema = z.object({

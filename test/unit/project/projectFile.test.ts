@@ -58,7 +58,7 @@ describe('project file', () => {
         (rowLabels, colLabels, pool) => {
           const n = rowLabels.length * colLabels.length;
           const values = Float64Array.from(pool.slice(0, n), (x) => (Object.is(x, -0) ? 0 : x));
-          const doc: ProjectDocument = { ...sampleDoc(), runs: [], matrix: { rowLabels, colLabels, values, scale: { min: 0, max: 10, step: 0 } } };
+          const doc: ProjectDocument = { ...sampleDoc(), runs: [], matrix: { rowLabels, colLabels, values, scale: { min: -1e15, max: 1e15, step: 0 } } };
           const r = parseProject(serializeProject(doc), 'rt.rankfill');
           if (!r.ok) throw new Error(r.problems.map(formatProblem).join('\n'));
           expect(plain(r.project)).toEqual(plain(doc));
