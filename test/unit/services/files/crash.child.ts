@@ -29,7 +29,7 @@ async function exportLoop(target: string): Promise<void> {
 async function cliLoop(inputs: [string, string], out: string): Promise<void> {
   const quiet = { stdout: () => {}, stderr: (t: string) => process.stderr.write(t) };
   for (let k = 0; ; k++) {
-    const code = await runCli(['fill', inputs[k % 2], '--out', out, '--rank', '1', '--seed', '1'], quiet);
+    const code = await runCli(['fill', inputs[k % 2], '--out', out, '--rank', '1', '--seed', '1', '--force'], quiet);
     if (code !== 0) process.exit(3);
     if (k === 0) process.stdout.write('ready\n');
   }
