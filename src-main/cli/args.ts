@@ -8,7 +8,7 @@ import { DEFAULT_FOLDS } from '../../src-shared/engine/defaults';
 import type { Centering, ModelFamily } from '../../src-shared/engine/types';
 
 export const USAGE = [
-  'usage: rankfill fill IN.csv --out OUT.csv [--layout filled|estimates|long] [--decimals D] [--level P] [--sidecar] [--mask] [--force]',
+  'usage: rankfill fill IN.csv --out OUT.csv [--layout filled|estimates|long] [--decimals D] [--level P] [--sidecar] [--mask] [--force] [--raw-labels]',
   '                [model options] [--scale MIN:MAX[:STEP]] [--long] [--duplicates last|average|refuse] [--json]',
   '       rankfill evaluate IN.csv [model options] [--folds 5] [--level P] [--json]',
   '       rankfill tune IN.csv [--models lowrank,gaussian] [--ranks R,R,...] [--lambdas L,L,...]',
@@ -58,6 +58,7 @@ export const OPTIONS: readonly OptionSpec[] = [
   },
   { name: 'sidecar', commands: ['fill'], default: 'off', help: 'also write OUT.settings.json: settings, seed, iterations, objective, app version, time, hash of the input' },
   { name: 'mask', commands: ['fill'], default: 'off', help: 'with a wide layout, also write OUT.mask.csv saying "observed" or "filled" for every cell' },
+  { name: 'raw-labels', commands: ['fill', 'report'], default: 'off', help: 'write labels exactly, even ones starting with = + - @ that a spreadsheet would run as a formula (by default those get a leading apostrophe)' },
   { name: 'force', commands: ['fill', 'report'], default: 'off', help: 'replace OUT (and its sidecar, mask or --csv files) when it exists; without it an existing file is left untouched and the exit status is 2' },
   { name: 'model', value: 'lowrank|gaussian', commands: FIT, default: 'lowrank', help: 'model family' },
   { name: 'rank', value: 'K', commands: FIT, default: { fill: 'chosen from the data without model options, else 2', evaluate: '2', report: 'chosen from the data without model options, else 2' }, help: 'low-rank: number of hidden traits (0 = baseline alone)' },
@@ -200,6 +201,8 @@ export interface CliOptions {
   mask: boolean;
   /** fill: replace existing output files. */
   force: boolean;
+  /** fill, report --csv: no formula guard on labels. */
+  rawLabels: boolean;
   /** --long input: what to do with a repeated (row, column) pair. */
   duplicates: DuplicatePolicy;
   /** fill: a model option (--model, --rank, --lambda, --centering, --shrinkage, --transpose) was given. */
@@ -333,6 +336,7 @@ export function parseArgs(argv: string[]): ParsedArgs {
     sidecar: flags.has('sidecar'),
     mask: flags.has('mask'),
     force: flags.has('force'),
+    rawLabels: flags.has('raw-labels'),
     duplicates: get('duplicates') !== undefined ? oneOf('duplicates', get('duplicates')!, DUPLICATES) : 'refuse',
     compareCentering: flags.has('compare-centering'),
     tune: flags.has('tune'),

@@ -87,7 +87,7 @@ export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, 
   const rows = m.rowLabels.length;
   const cols = m.colLabels.length;
   // The window's writers: observed cells are written as read; only estimates are rounded by --decimals.
-  const options: ExportOptions = { kind: EXPORT_KIND[o.layout], roundToStep: false, decimals: o.decimals ?? null, delimiter: ',' };
+  const options: ExportOptions = { kind: EXPORT_KIND[o.layout], roundToStep: false, decimals: o.decimals ?? null, delimiter: ',', formulaGuard: !o.rawLabels };
   const t1 = performance.now();
   const text = buildExport(m, fit, fit.spread, options, intervals);
   const observedCells = observedCount(m);
@@ -110,7 +110,7 @@ export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, 
       }),
     ]);
   }
-  if (o.mask) files.push([maskPathFor(o.out!), buildMask(m, ',')]);
+  if (o.mask) files.push([maskPathFor(o.out!), buildMask(m, ',', '\r\n', !o.rawLabels)]);
   for (const [path, body] of files) {
     try {
       writeAtomically(path, body);

@@ -161,7 +161,7 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
   const finalObjective = fit.objectiveTrace.length ? fit.objectiveTrace[fit.objectiveTrace.length - 1] : null;
   const exports: ReportExport[] = [];
   if (o.csv !== undefined) {
-    const options: ExportOptions = { kind: 'filled-wide', roundToStep: false, decimals: o.decimals ?? null, delimiter: ',' };
+    const options: ExportOptions = { kind: 'filled-wide', roundToStep: false, decimals: o.decimals ?? null, delimiter: ',', formulaGuard: !o.rawLabels };
     const observed = observedCount(m);
     const sidecarPath = sidecarPathFor(o.csv);
     const writtenAt = now();

@@ -45,6 +45,9 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
   const sidecar = el('input', { testid: 'export-sidecar' });
   sidecar.type = 'checkbox';
   sidecar.checked = true;
+  const formulaGuard = el('input', { testid: 'export-formula-guard' });
+  formulaGuard.type = 'checkbox';
+  formulaGuard.checked = true;
   const path = el('input', { testid: 'export-path' });
   path.type = 'text';
   path.spellcheck = false;
@@ -66,6 +69,11 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
     field('Round estimates to the scale step', roundStep),
     field('Decimals for estimates', decimals, 'Blank keeps full precision. Observed ratings are always written as they are.'),
     field('Delimiter', delimiter),
+    field(
+      'Protect labels from spreadsheet formulas',
+      formulaGuard,
+      'A label starting with = + - or @ gets a leading apostrophe, so a spreadsheet shows it as text instead of running it. Numbers are never changed.',
+    ),
     field('Also write a settings file', sidecar, 'NAME.settings.json beside the export: settings, seed, errors, app version, time and a hash of the input.'),
     el('label', { className: 'rf-form-field rf-wide' }, [el('span', { className: 'rf-form-label' }, ['File']), path]),
     status,
@@ -83,6 +91,7 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
       roundToStep: roundStep.checked,
       decimals: decimals.value.trim() === '' ? null : Math.max(0, Math.min(10, Math.round(Number(decimals.value)))),
       delimiter: delimiter.value as Delimiter,
+      formulaGuard: formulaGuard.checked,
     };
     const iv = intervalsOfRun(run, m.scale, ctx.view.state.intervalLevel);
     let text: string;

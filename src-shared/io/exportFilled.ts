@@ -9,7 +9,7 @@ import type { FitResult, FitSettings } from '../engine/types';
 import type { IntervalsAtLevel } from '../engine/cellIntervals';
 import type { RatingMatrix } from '../matrix/ratingMatrix';
 import type { Delimiter } from './detectDelimiter';
-import { quoteField, writeFilledLongCsv, writeWideCsv } from './writeDelimited';
+import { textField, writeFilledLongCsv, writeWideCsv } from './writeDelimited';
 
 export type ExportKind = 'filled-wide' | 'estimates-wide' | 'long';
 
@@ -20,6 +20,11 @@ export interface ExportOptions {
   /** Round filled values to this many decimals (null = full precision). */
   decimals: number | null;
   delimiter: Delimiter;
+  /**
+   * Labels that a spreadsheet would run as a formula (starting with = + - @, tab or CR)
+   * get a leading apostrophe (default true; OWASP, "CSV Injection"; see writeDelimited.ts).
+   */
+  formulaGuard?: boolean;
 }
 
 /** The two halves of the caution, also shown apart (study report); ESTIMATE_CAUTION is both, as exported. */
@@ -84,12 +89,13 @@ export function buildExport(
         spread: rounded(spread),
         ...(intervals ? { lower: rounded(intervals.lower), upper: rounded(intervals.upper) } : {}),
       },
-      { delimiter: opts.delimiter },
+      { delimiter: opts.delimiter, formulaGuard: opts.formulaGuard ?? true },
     );
   }
   const onlyEstimates = opts.kind === 'estimates-wide';
   return writeWideCsv(matrix, {
     delimiter: opts.delimiter,
+    formulaGuard: opts.formulaGuard ?? true,
     cornerLabel: CORNER_LABEL[opts.kind],
     layer: (i, j) => {
       const y = matrix.values[i * cols + j];
@@ -106,12 +112,12 @@ export const MASK_CORNER_LABEL = 'row \\ column (observed = rating as entered, f
  * Companion mask of a wide export: the same rows and columns, each cell `observed` or
  * `filled`, so a reader of the wide file knows per cell which values are estimates.
  */
-export function buildMask(matrix: RatingMatrix, delimiter: Delimiter, lineEnding: '\r\n' | '\n' = '\r\n'): string {
+export function buildMask(matrix: RatingMatrix, delimiter: Delimiter, lineEnding: '\r\n' | '\n' = '\r\n', formulaGuard = true): string {
   const d = delimiter;
   const cols = matrix.colLabels.length;
-  const out = [[MASK_CORNER_LABEL, ...matrix.colLabels].map((s) => quoteField(s, d)).join(d)];
+  const out = [[MASK_CORNER_LABEL, ...matrix.colLabels].map((s) => textField(s, d, formulaGuard)).join(d)];
   for (let i = 0; i < matrix.rowLabels.length; i++) {
-    const parts = [quoteField(matrix.rowLabels[i], d)];
+    const parts = [textField(matrix.rowLabels[i], d, formulaGuard)];
     for (let j = 0; j < cols; j++) {
       const y = matrix.values[i * cols + j];
       parts.push(y === y ? 'observed' : 'filled');

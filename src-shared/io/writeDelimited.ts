@@ -3,6 +3,15 @@
  * a line break, or leading/trailing spaces/tabs are quoted, with quotes doubled.
  * Records end with CRLF. A missing value (NaN or undefined) is written as an empty field.
  * Numbers use the shortest round-trip form (`String(x)`) unless `decimals` is given.
+ *
+ * Formula guard (on by default): a spreadsheet that opens a CSV runs a text cell starting
+ * with `=`, `+`, `-` or `@` as a formula, and tab or CR can smuggle one in (OWASP, "CSV
+ * Injection"). Text cells — row and column labels, headers — that start with one of
+ * these characters are written with a leading apostrophe (`'=SUM(A1)`), which
+ * spreadsheets show as text. A label that is a plain number (`-1`, `+2.5`, `-3e2`) is left
+ * as it is: a spreadsheet reads it as that number, and no formula can run. Value cells
+ * are numbers we format ourselves and are never changed: `-1.5` stays `-1.5`.
+ * `formulaGuard: false` writes labels exactly (for tools that are not spreadsheets).
  */
 import type { RatingMatrix } from '../matrix/ratingMatrix';
 import type { Delimiter } from './detectDelimiter';
@@ -17,6 +26,8 @@ export interface WriteOptions {
   layer?: (i: number, j: number) => number | undefined;
   /** Line ending; default CRLF. */
   lineEnding?: '\r\n' | '\n';
+  /** Guard text cells against spreadsheet formulas (default true; see the top of this file). */
+  formulaGuard?: boolean;
 }
 
 export interface WideWriteOptions extends WriteOptions {
@@ -42,6 +53,19 @@ export function quoteField(s: string, delimiter: string): string {
   return needs ? `"${s.replace(/"/g, '""')}"` : s;
 }
 
+const FORMULA_START = /^[=+\-@\t\r]/;
+const PLAIN_NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/** Whether a spreadsheet could run this text cell as a formula (OWASP, "CSV Injection"). */
+export function startsLikeFormula(s: string): boolean {
+  return FORMULA_START.test(s) && !PLAIN_NUMBER.test(s);
+}
+
+/** A text cell: guarded against formulas unless `guard` is false, then quoted as needed. */
+export function textField(s: string, delimiter: string, guard = true): string {
+  return quoteField(guard && startsLikeFormula(s) ? `'${s}` : s, delimiter);
+}
+
 export function formatNumber(x: number | undefined, opts: WriteOptions = {}): string {
   if (x === undefined || x !== x) return '';
   let s = opts.decimals !== undefined ? x.toFixed(opts.decimals) : String(x);
@@ -58,12 +82,13 @@ export function writeWideCsv(matrix: RatingMatrix, opts: WideWriteOptions = {}):
   const d = opts.delimiter ?? ',';
   const eol = opts.lineEnding ?? '\r\n';
   const out: string[] = [];
-  const head = [quoteField(opts.cornerLabel ?? 'row', d)];
-  for (const c of matrix.colLabels) head.push(quoteField(c, d));
+  const g = opts.formulaGuard ?? true;
+  const head = [textField(opts.cornerLabel ?? 'row', d, g)];
+  for (const c of matrix.colLabels) head.push(textField(c, d, g));
   out.push(head.join(d));
   const nCols = matrix.colLabels.length;
   for (let i = 0; i < matrix.rowLabels.length; i++) {
-    const parts = [quoteField(matrix.rowLabels[i], d)];
+    const parts = [textField(matrix.rowLabels[i], d, g)];
     for (let j = 0; j < nCols; j++) parts.push(formatNumber(valueAt(matrix, opts, i, j), opts));
     out.push(parts.join(d));
   }
@@ -74,14 +99,16 @@ export function writeLongCsv(matrix: RatingMatrix, opts: LongWriteOptions = {}):
   const d = opts.delimiter ?? ',';
   const eol = opts.lineEnding ?? '\r\n';
   const header = opts.header ?? ['row', 'column', 'value'];
-  const out: string[] = [header.map((h) => quoteField(h, d)).join(d)];
+  const g = opts.formulaGuard ?? true;
+  const out: string[] = [header.map((h) => textField(h, d, g)).join(d)];
   const nCols = matrix.colLabels.length;
+  const colText = matrix.colLabels.map((c) => textField(c, d, g));
   for (let i = 0; i < matrix.rowLabels.length; i++) {
-    const r = quoteField(matrix.rowLabels[i], d);
+    const r = textField(matrix.rowLabels[i], d, g);
     for (let j = 0; j < nCols; j++) {
       const v = formatNumber(valueAt(matrix, opts, i, j), opts);
       if (v === '' && !opts.includeMissing) continue;
-      out.push(r + d + quoteField(matrix.colLabels[j], d) + d + v);
+      out.push(r + d + colText[j] + d + v);
     }
   }
   return out.join(eol) + eol;
@@ -107,11 +134,13 @@ export interface FilledLayers {
 export function writeFilledLongCsv(matrix: RatingMatrix, layers: FilledLayers, opts: WriteOptions = {}): string {
   const d = opts.delimiter ?? ',';
   const eol = opts.lineEnding ?? '\r\n';
+  const g = opts.formulaGuard ?? true;
   const bounds = layers.lower && layers.upper ? { lower: layers.lower, upper: layers.upper } : undefined;
   const out: string[] = [['row', 'column', 'value', 'source', 'baseline', 'spread', ...(bounds ? ['lower', 'upper'] : [])].join(d)];
   const nCols = matrix.colLabels.length;
+  const colText = matrix.colLabels.map((c) => textField(c, d, g));
   for (let i = 0; i < matrix.rowLabels.length; i++) {
-    const r = quoteField(matrix.rowLabels[i], d);
+    const r = textField(matrix.rowLabels[i], d, g);
     for (let j = 0; j < nCols; j++) {
       const k = i * nCols + j;
       const obs = matrix.values[k];
@@ -120,7 +149,7 @@ export function writeFilledLongCsv(matrix: RatingMatrix, layers: FilledLayers, o
       out.push(
         [
           r,
-          quoteField(matrix.colLabels[j], d),
+          colText[j],
           formatNumber(v, opts),
           observed ? 'observed' : 'filled',
           formatNumber(layers.baseline ? layers.baseline[k] : undefined, opts),
