@@ -51,6 +51,8 @@ async function saveLoop(target: string): Promise<void> {
 async function recoveryLoop(dir: string): Promise<void> {
   const store = new RecoveryStore({ dir });
   const doc = crashTestVersion(0);
+  // Edit numbers grow without bound: a scale wide enough that every one is a valid rating.
+  doc.matrix.scale = { min: 0, max: 1e12, step: 0 };
   let edit = 0;
   let captured = 0; // the edit number inside the snapshot being written
   const autosaver = new Autosaver(store, 'crash-doc', {
