@@ -4,6 +4,7 @@
  * centering comparison and tuning when they belong to the current data, the exports
  * written from the run, and the input hash. The builder in src-shared/report does the rest.
  */
+import { AUTO_FOLDS } from '../../src-shared/engine/autoSettings';
 import { matrixFingerprintText } from '../../src-shared/io/exportFilled';
 import type { ReportInput } from '../../src-shared/report/reportInput';
 import { REPORT_FOLDS, reportEvaluationSettings } from '../../src-shared/report/reportEvaluation';
@@ -28,6 +29,9 @@ export async function gatherReport(ctx: PanelContext, record: StudyRecord, run: 
     record.setEvaluation(run.id, evaluation, revision);
   }
   const trace = run.result.objectiveTrace;
+  // The first Fill may have chosen its settings from the data (runs/firstFill.ts): say so when this run uses them.
+  const chosen = ctx.settings.origin === 'chosen' && JSON.stringify(ctx.settings.value) === JSON.stringify(run.settings);
+  const candidates = /of (\d+) settings/.exec(ctx.settings.reason)?.[1];
   const source = ctx.store.filePath ?? (ctx.store.source.kind === 'sample' ? `sample “${ctx.store.source.name}”` : ctx.store.source.name || undefined);
   return {
     title: ctx.store.title,
@@ -46,6 +50,7 @@ export async function gatherReport(ctx: PanelContext, record: StudyRecord, run: 
       refitsAfterEdits: run.refits,
     },
     evaluation,
+    choice: chosen ? { reason: ctx.settings.reason, folds: AUTO_FOLDS, candidates: candidates ? Number(candidates) : null, meanRmse: null, baselineMeanRmse: null } : null,
     centering: record.grid('centering'),
     tuning: record.grid('tuning'),
     exports: record.exportsOf(run.id),

@@ -142,9 +142,9 @@ export function methodsText(input: ReportInput): MethodsText {
   if (s.clipToScale || s.snapToStep) {
     parts.push(`Estimates were ${listWords([s.clipToScale ? 'clipped to the rating scale' : '', s.snapToStep ? 'rounded to its steps' : ''].filter(Boolean))}.`);
   }
-  if (input.choice && input.choice.candidates > 0) {
+  if (input.choice && input.choice.candidates !== 0) {
     parts.push(
-      `The settings were chosen automatically: ${input.choice.candidates} candidate settings (the baselines alone under each centering, then a few ranks and λ values under the best of them) were scored by a quick ${input.choice.folds}-fold cross-validation, and the one with the lowest error was kept.`,
+      `The settings were chosen automatically: ${input.choice.candidates ?? 'a few'} candidate settings (the baselines alone under each centering, then a few ranks and λ values under the best of them) were scored by a quick ${input.choice.folds}-fold cross-validation, and the one with the lowest error was kept.`,
     );
   }
   if (input.tuning) parts.push(tuningSentence(s, input.tuning, cite));

@@ -72,7 +72,7 @@ export interface ReportInput {
   tuning: TunePayload | null;
   intervals?: ReportIntervals | null;
   /** Set when the settings were chosen automatically (no model options given), as `fill` does. */
-  choice?: { reason: string; folds: number; candidates: number; meanRmse: number; baselineMeanRmse: number } | null;
+  choice?: { reason: string; folds: number; candidates: number | null; meanRmse: number | null; baselineMeanRmse: number | null } | null;
   /** Exports written from this run, oldest first. */
   exports: ReportExport[];
   /** Where the report itself is written (optional). */

@@ -164,6 +164,25 @@ describe('study report', () => {
     }
   });
 
+  it('says so in the methods when the first Fill chose the settings from the data', async () => {
+    const fresh = await browser.newPage({ viewport: { width: 1500, height: 950 } });
+    try {
+      await fresh.goto(host.launchUrl);
+      await fresh.waitForSelector('body[data-ready="true"]', { timeout: 30_000 });
+      await fresh.click('[data-testid="fill-button"]');
+      await fresh.waitForSelector('.ag-row .ag-cell.rf-filled', { timeout: 60_000 });
+      await fresh.click('[data-testid="report-button"]');
+      await fresh.waitForSelector('[data-testid="report-dialog"][open]');
+      await fresh.fill('[data-testid="report-path"]', join(exportDir, 'chosen report.html'));
+      await fresh.click('[data-testid="report-write"]');
+      await expect.poll(() => fresh.textContent('[data-testid="report-status"]'), { timeout: 30_000 }).toContain('Written:');
+      const html = readFileSync(join(exportDir, 'chosen report.html'), 'utf8');
+      expect(html).toMatch(/The settings were chosen automatically: \d+ candidate settings .* were scored by a quick 3-fold cross-validation/);
+    } finally {
+      await fresh.close();
+    }
+  });
+
   it('is written from the command line with the same model options as fill', async () => {
     const out = join(exportDir, 'cli report.html');
     const csv = join(exportDir, 'cli filled.csv');
