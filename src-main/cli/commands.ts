@@ -10,6 +10,7 @@ import { FitFailedError } from '../../src-shared/engine/errors';
 import { crossValidate, makeFolds } from '../../src-shared/engine/crossValidation';
 import { expandLowRankGrid, tune, type TuneResult } from '../../src-shared/engine/tuning';
 import { tuneDefault } from '../../src-shared/engine/defaultTune';
+import { describeSeedStability, seedStability } from '../../src-shared/engine/seedStability';
 import { autoSettings, type AutoChoice } from '../../src-shared/engine/autoSettings';
 import type { FitSettings, ModelFamily } from '../../src-shared/engine/types';
 import { gaussianRefusal } from '../../src-shared/engine/gaussian/fitGaussian';
@@ -184,6 +185,10 @@ export function runEvaluate(o: CliOptions, m: RatingMatrix, timings: Record<stri
   const cv = crossValidate(m, settings, folds, { intervalLevels: [level] });
   timings.evaluateMs = performance.now() - t0;
   const iv = cv.intervals?.[0];
+  // Two fits on all the data, seeds s and s + 1 (engine/seedStability.ts).
+  const ts = performance.now();
+  const stability = seedStability(m, settings);
+  timings.seedStabilityMs = performance.now() - ts;
   const table = cv.folds.map((f, t) => ({
     fold: t + 1,
     rmse: f.rmse,
@@ -206,7 +211,7 @@ export function runEvaluate(o: CliOptions, m: RatingMatrix, timings: Record<stri
     return {
       code: 0,
       stderr: [],
-      stdout: [JSON.stringify({ command: 'evaluate', input: o.input, scale: m.scale, settings, folds: o.folds, seed: settings.seed, table, meanRmse: cv.meanRmse, sdRmse: cv.sdRmse, meanMae: cv.meanMae, sdMae: cv.sdMae, intervals: intervalSummary, timings })],
+      stdout: [JSON.stringify({ command: 'evaluate', input: o.input, scale: m.scale, settings, folds: o.folds, seed: settings.seed, table, meanRmse: cv.meanRmse, sdRmse: cv.sdRmse, meanMae: cv.meanMae, sdMae: cv.sdMae, intervals: intervalSummary, seedStability: stability, timings })],
     };
   }
   const lines = [
@@ -221,6 +226,8 @@ export function runEvaluate(o: CliOptions, m: RatingMatrix, timings: Record<stri
         `constant-width ones: ${pct(iv.constantWidth.coverage)}, ${fmt(iv.constantWidth.meanWidth, 3)}`,
     );
   }
+  const unstable = describeSeedStability(stability);
+  if (unstable) lines.push(`caution: ${unstable}`);
   return { code: 0, stderr: [], stdout: lines };
 }
 

@@ -5,6 +5,7 @@
  * diverging colours and counts the cells that move by more than one step.
  */
 import { runDifference } from '../../src-shared/engine/runDifference';
+import { describeSeedStability } from '../../src-shared/engine/seedStability';
 import { describeSettings } from '../runs/describeSettings';
 import { runFitsDocument } from '../runs/runMatch';
 import type { Run } from '../runs/runStore';
@@ -20,6 +21,20 @@ function cvText(run: Run | undefined): string {
   const e = run?.evaluation;
   if (!e) return 'not evaluated';
   return `RMSE ${fmt(e.meanRmse)} ± ${fmt(e.sdRmse)} · MAE ${fmt(e.meanMae)} (${e.k}-fold)`;
+}
+
+/** After Evaluate: whether the filled values rest on the start (engine/seedStability.ts). */
+function seedLine(run: Run): HTMLElement[] {
+  const s = run.seedStability;
+  if (!s) return [];
+  const unstable = describeSeedStability(s);
+  return [
+    unstable
+      ? el('div', { className: 'rf-warn-text', testid: `run-seeds-${run.id}` }, [`Caution: ${unstable}.`])
+      : el('div', { className: 'rf-hint', testid: `run-seeds-${run.id}` }, [
+          `Seed check: with seed ${s.seeds[1]}, ${s.moved} of ${s.cells} filled cells move by more than ${s.threshold} (largest move ${s.maxMove.toFixed(2)}); the result does not rest on the start.`,
+        ]),
+  ];
 }
 
 export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
@@ -68,6 +83,7 @@ export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
                 (r.refits ? ` · refitted after ${r.refits} edit${r.refits === 1 ? '' : 's'}` : ''),
             ]),
             el('div', { className: 'rf-hint', testid: `run-cv-${r.id}` }, [cvText(r)]),
+            ...seedLine(r),
             el('div', { className: 'rf-row' }, [show, evaluate]),
           ]);
         }),

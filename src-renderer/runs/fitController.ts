@@ -13,6 +13,8 @@ import type { HostBridge } from '../bridge/hostBridge';
 import { JobEndedError, JobTracker } from '../bridge/jobTracker';
 import type { DocumentStore } from '../state/documentStore';
 import type { Run, RunStore } from './runStore';
+import { runIsCurrent } from './runMatch';
+import { compareSeedFits } from '../../src-shared/engine/seedStability';
 
 /** Ensemble used for the per-cell spread: the k fold models. */
 export const TRUST_FOLDS = DEFAULT_FOLDS;
@@ -221,7 +223,24 @@ export class FitController {
     const outcome = await this.jobs.follow(jobId, { onStep: (p) => onStep?.(p.done, p.total) });
     if (outcome.kind !== 'evaluated') throw new Error('unexpected reply to an evaluation');
     this.runs.setEvaluation(run.id, { ...outcome.result, k: EVALUATION_FOLDS, seed });
+    await this.checkSeeds(run);
     return outcome.result;
+  }
+
+  /** Refit the run's settings with seed + 1 and record how far its filled values move (engine/seedStability.ts). */
+  private async checkSeeds(run: Run): Promise<void> {
+    if (!runIsCurrent(run, this.doc)) return;
+    const matrix = this.doc.current;
+    const revision = this.doc.revision;
+    try {
+      const { jobId } = await this.bridge.call('fit.start', { matrix: matrixToPayload(matrix), settings: { ...run.settings, seed: run.settings.seed + 1 } });
+      const outcome = await this.jobs.follow(jobId);
+      if (outcome.kind !== 'fit' || this.doc.revision !== revision || !runIsCurrent(run, this.doc)) return;
+      const other = fitResultFromPayload(outcome.result).predictions;
+      this.runs.setSeedStability(run.id, compareSeedFits(matrix, run.result.predictions, other, [run.settings.seed, run.settings.seed + 1]));
+    } catch {
+      // The check is an addition to the evaluation; its failure leaves the errors shown.
+    }
   }
 
   /** Evaluate several settings on the same folds (centering comparison, tuning). */

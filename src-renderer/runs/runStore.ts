@@ -4,6 +4,7 @@
  * observed data stay in the DocumentStore.
  */
 import type { CrossValidationPayload } from '../../src-shared/api';
+import type { SeedStability } from '../../src-shared/engine/seedStability';
 import type { CellTrust } from '../../src-shared/engine/trust';
 import type { FitResult, FitSettings } from '../../src-shared/engine/types';
 import type { ViewStore } from '../state/viewStore';
@@ -30,6 +31,8 @@ export interface Run {
   /** Live refits since the Fill (after edits). */
   refits: number;
   evaluation?: RunEvaluation;
+  /** How far the filled values move with seed + 1 (set by Evaluate; engine/seedStability.ts). */
+  seedStability?: SeedStability;
 }
 
 export type RunEvent = { type: 'runs' } | { type: 'shown' } | { type: 'compare' } | { type: 'updated'; id: number };
@@ -97,6 +100,7 @@ export class RunStore {
     r.refits++;
     // Cross-validated errors describe the data the run was evaluated on; after edits they are stale.
     r.evaluation = undefined;
+    r.seedStability = undefined;
     this.emit({ type: 'updated', id });
   }
 
@@ -112,6 +116,13 @@ export class RunStore {
     const r = this.get(id);
     if (!r) return;
     r.evaluation = evaluation;
+    this.emit({ type: 'updated', id });
+  }
+
+  setSeedStability(id: number, s: SeedStability): void {
+    const r = this.get(id);
+    if (!r) return;
+    r.seedStability = s;
     this.emit({ type: 'updated', id });
   }
 

@@ -67,4 +67,16 @@ describe('a first Fill chooses its settings from the data', () => {
     expect((await runs())[0].settings.rank).toBe(1);
     expect(await page.locator(tid('model-choice')).isHidden()).toBe(true);
   });
+
+  it('Evaluate in the Runs tab also says whether the estimates rest on the start', async () => {
+    await page.click(tid('tab-runs'));
+    await page.click(tid('run-evaluate-1'));
+    const line = page.locator(tid('run-seeds-1'));
+    await line.waitFor({ timeout: 30_000 });
+    const blanks = await page.evaluate(() =>
+      Array.from((window as unknown as { rankfillApp: { store: { current: { values: Float64Array } } } }).rankfillApp.store.current.values).filter((x) => Number.isNaN(x)).length,
+    );
+    expect(await line.textContent()).toMatch(new RegExp(`^(Seed check: with seed 2, \\d+ of ${blanks} filled cells move|Caution: the estimates depend on the start: with seed 2 instead of 1, \\d+ of ${blanks} filled cells)`));
+    await page.screenshot({ path: join(repoRoot, 'test-results', 'runs-seed-check.png') });
+  });
 });

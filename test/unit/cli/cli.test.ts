@@ -112,6 +112,16 @@ describe('rankfill fill without model options', () => {
     expect(own.settings).toMatchObject({ rank: 1, lambda: defaultLowRankSettings().lambda });
   });
 
+  it('evaluate --json reports how much the estimates move between seeds s and s + 1', async () => {
+    const { text, values } = wideCsv();
+    const input = file('seeds.csv', text);
+    const j = JSON.parse((await run('evaluate', input, '--folds', '3', '--rank', '1', '--seed', '4', '--json')).stdout);
+    expect(j.seedStability.seeds).toEqual([4, 5]);
+    expect(j.seedStability.cells).toBe(values.flat().filter((x) => Number.isNaN(x)).length);
+    expect(typeof j.seedStability.flagged).toBe('boolean');
+    expect(j.seedStability.flagged).toBe(j.seedStability.movedFraction > 0.01);
+  });
+
   it('tune without --ranks/--lambdas uses the data-derived grid and a refinement pass', async () => {
     const input = file('grid.csv', wideCsv().text);
     const j = JSON.parse((await run('tune', input, '--folds', '3', '--models', 'lowrank', '--json')).stdout);

@@ -1,0 +1,74 @@
+/**
+ * Seed stability: how much the filled values move when only the seed changes.
+ *
+ * The same settings are fitted twice on the same data, with seed s and seed s + 1 (the seed
+ * drives the spectral start's power iteration and the random start). Over the filled cells
+ * (missing in the data), with a = the first fit's estimate and b = the second's:
+ *   move_c = |a_c − b_c|,   threshold τ = step / 2 (half a scale step; for a continuous
+ *   scale, 1/20 of its range),
+ *   moved = #{c : move_c > τ},   fraction = moved / #filled,   max = max_c move_c,
+ *   mean = Σ move_c / #filled.
+ * The result rests on the start — and is flagged — when fraction > 1 %: then more than one
+ * filled cell in a hundred changes by more than rounding to the scale would hide.
+ */
+import type { RatingMatrix } from '../matrix/ratingMatrix';
+import type { FitSettings } from './types';
+import { fitModel } from './fitModel';
+
+export const SEED_MOVE_SHARE = 0.01;
+
+export interface SeedStability {
+  seeds: [number, number];
+  /** Filled cells compared. */
+  cells: number;
+  /** τ: half a scale step (continuous scale: 1/20 of the range). */
+  threshold: number;
+  moved: number;
+  movedFraction: number;
+  maxMove: number;
+  meanMove: number;
+  /** movedFraction > 1 %: the estimates depend on the start. */
+  flagged: boolean;
+}
+
+export function moveThreshold(scale: RatingMatrix['scale']): number {
+  return scale.step > 0 ? scale.step / 2 : (scale.max - scale.min) / 20;
+}
+
+/** Compare two fits' predictions over the matrix's missing cells. */
+export function compareSeedFits(matrix: RatingMatrix, a: Float64Array, b: Float64Array, seeds: [number, number]): SeedStability {
+  const threshold = moveThreshold(matrix.scale);
+  const v = matrix.values;
+  let cells = 0;
+  let moved = 0;
+  let maxMove = 0;
+  let sum = 0;
+  for (let c = 0; c < v.length; c++) {
+    if (v[c] === v[c]) continue;
+    const d = Math.abs(a[c] - b[c]);
+    if (!Number.isFinite(d)) continue;
+    cells++;
+    sum += d;
+    if (d > maxMove) maxMove = d;
+    if (d > threshold) moved++;
+  }
+  const movedFraction = cells > 0 ? moved / cells : 0;
+  return { seeds, cells, threshold, moved, movedFraction, maxMove, meanMove: cells > 0 ? sum / cells : 0, flagged: movedFraction > SEED_MOVE_SHARE };
+}
+
+/** Fit with seed s and s + 1 and compare (`first` may pass an existing seed-s fit's predictions). */
+export function seedStability(matrix: RatingMatrix, settings: FitSettings, first?: Float64Array): SeedStability {
+  const s = settings.seed;
+  const a = first ?? fitModel(matrix, settings).predictions;
+  const b = fitModel(matrix, { ...settings, seed: s + 1 }).predictions;
+  return compareSeedFits(matrix, a, b, [s, s + 1]);
+}
+
+/** One line for people, or '' when the result does not rest on the start. */
+export function describeSeedStability(r: SeedStability): string {
+  if (!r.flagged) return '';
+  return (
+    `the estimates depend on the start: with seed ${r.seeds[1]} instead of ${r.seeds[0]}, ${r.moved} of ${r.cells} filled cells ` +
+    `(${(100 * r.movedFraction).toFixed(1)} %) move by more than ${r.threshold} (half a scale step); largest move ${r.maxMove.toFixed(2)}, mean ${r.meanMove.toFixed(3)}`
+  );
+}
