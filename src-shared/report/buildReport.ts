@@ -18,7 +18,7 @@ import { errorBarSvg } from './errorBarSvg';
 import { articleFor, count, esc, fmt, nameList, percent, tag } from './html';
 import { methodsText, scaleWords } from './methodsText';
 import { missingPattern, type MissingPattern } from './missingPattern';
-import { patternMapSvg } from './patternMapSvg';
+import { patternMapSvg, patternMapWords } from './patternMapSvg';
 import { rankChartSvg } from './rankChartSvg';
 import type { ReportInput } from './reportInput';
 import { evaluationRows } from './reportEvaluation';
@@ -77,9 +77,9 @@ function dataSection(input: ReportInput, p: MissingPattern, n: number): string {
       ['Observed values', p.observed ? esc(`from ${lo} to ${hi}, mean ${fmt(sum / p.observed, 2)}`) : 'none'],
     ]),
     tag('h3', {}, 'Where the blanks are'),
-    figure(patternMapSvg(p.map, p.rows, p.cols, 'report-map'), 'Each observed cell is teal; a blank cell is left as paper.'),
-    figure(countChartSvg(p.rowCounts, m.rowLabels, 'row', p.cols, p.thinBelow, 'report-row-counts'), `Observed cells in each row (out of ${count(p.cols)} columns). Thin rows are drawn in red.`),
-    figure(countChartSvg(p.colCounts, m.colLabels, 'column', p.rows, p.thinBelow, 'report-col-counts'), `Observed cells in each column (out of ${count(p.rows)} rows). Thin columns are drawn in red.`),
+    figure(patternMapSvg(p.map, p.rows, p.cols, 'report-map'), patternMapWords(p.map)),
+    figure(countChartSvg(p.rowCounts, m.rowLabels, 'row', p.cols, p.thinBelow, 'report-row-counts'), `Observed cells in each row (out of ${count(p.cols)} columns)${p.rows > 80 ? ': how many rows have how many' : ''}. Thin rows are drawn in red.`),
+    figure(countChartSvg(p.colCounts, m.colLabels, 'column', p.rows, p.thinBelow, 'report-col-counts'), `Observed cells in each column (out of ${count(p.rows)} rows)${p.cols > 80 ? ': how many columns have how many' : ''}. Thin columns are drawn in red.`),
     tag('h3', {}, 'Rows and columns too thin to fill reliably'),
     thinList('row', p.thinRows, m.rowLabels),
     thinList('column', p.thinCols, m.colLabels),

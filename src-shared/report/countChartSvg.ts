@@ -17,7 +17,7 @@ export function shortLabel(label: string): string {
 }
 
 export function countChartSvg(counts: Int32Array, labels: string[], what: 'row' | 'column', total: number, thinBelow: number, testid: string): string {
-  return counts.length <= MAX_BARS ? barsSvg(counts, labels, what, total, thinBelow, testid) : histogramSvg(counts, what, total, testid);
+  return counts.length <= MAX_BARS ? barsSvg(counts, labels, what, total, thinBelow, testid) : histogramSvg(counts, what, total, thinBelow, testid);
 }
 
 function barsSvg(counts: Int32Array, labels: string[], what: string, total: number, thinBelow: number, testid: string): string {
@@ -49,7 +49,7 @@ function barsSvg(counts: Int32Array, labels: string[], what: string, total: numb
   return svg(f, `Observed cells per ${what}, out of ${total}`, body, testid);
 }
 
-function histogramSvg(counts: Int32Array, what: string, total: number, testid: string): string {
+function histogramSvg(counts: Int32Array, what: string, total: number, thinBelow: number, testid: string): string {
   let maxCount = 0;
   for (const c of counts) maxCount = Math.max(maxCount, c);
   const width = Math.max(1, Math.ceil((maxCount + 1) / MAX_BINS));
@@ -67,8 +67,8 @@ function histogramSvg(counts: Int32Array, what: string, total: number, testid: s
     const top = y(bins[b]);
     body += tag(
       'rect',
-      { x: f.left + b * slot + 0.5, y: top, width: Math.max(1, slot - 1), height: f.top + plotHeight(f) - top, fill: chartColours.accent },
-      tag('title', {}, esc(`${count(bins[b])} ${what}s with ${lo === hi ? lo : `${lo}–${hi}`} observed cells`)),
+      { x: f.left + b * slot + 0.5, y: top, width: Math.max(1, slot - 1), height: f.top + plotHeight(f) - top, fill: hi < thinBelow ? pageColours.warn : chartColours.accent },
+      tag('title', {}, esc(`${count(bins[b])} ${what}s with ${lo === hi ? lo : `${lo}–${hi}`} observed cells${hi < thinBelow ? ' (thin)' : ''}`)),
     );
   }
   const ticks = [0, Math.floor(bins.length / 2), bins.length - 1];

@@ -25,6 +25,13 @@ export function patternShade(level: number): string {
   return `#${a.map((c, k) => Math.round(p[k] + (c - p[k]) * t).toString(16).padStart(2, '0')).join('')}`;
 }
 
+/** How the map reads, for its caption. */
+export function patternMapWords(map: PatternMap): string {
+  return map.rowsPerBlock === 1 && map.colsPerBlock === 1
+    ? 'Rows top to bottom, columns left to right, one square per cell: teal = observed, paper = blank.'
+    : `Rows top to bottom, columns left to right, one square per block of ${map.rowsPerBlock} × ${map.colsPerBlock} cells: the darker the teal, the more of the block is observed; paper = nothing observed.`;
+}
+
 /** 0 only for a block with nothing observed; any observed cell shows. */
 export function levelOf(share: number): number {
   return share <= 0 ? 0 : Math.max(1, Math.round(share * LEVELS));
@@ -36,7 +43,7 @@ export function patternMapSvg(map: PatternMap, rows: number, cols: number, testi
   const cell = Math.max(2, Math.min(18, Math.floor(Math.min(maxW / map.blockCols, maxH / map.blockRows))));
   const w = cell * map.blockCols;
   const h = cell * map.blockRows;
-  const f: Frame = { width: Math.max(w + 12, 320), height: h + 44, left: 6, right: 6, top: 6, bottom: 38 };
+  const f: Frame = { width: Math.max(w + 12, 200), height: h + 30, left: 6, right: 6, top: 6, bottom: 24 };
   let body = tag('rect', { x: f.left - 0.5, y: f.top - 0.5, width: w + 1, height: h + 1, fill: pageColours.paper, stroke: pageColours.rule });
   for (let bi = 0; bi < map.blockRows; bi++) {
     let bj = 0;
@@ -48,14 +55,10 @@ export function patternMapSvg(map: PatternMap, rows: number, cols: number, testi
       bj = end;
     }
   }
-  const blockWords =
-    map.rowsPerBlock === 1 && map.colsPerBlock === 1
-      ? 'one square per cell'
-      : `one square per block of ${map.rowsPerBlock} × ${map.colsPerBlock} cells, darker = more of it observed`;
-  body += text(f.left, f.top + h + 16, `Rows top to bottom, columns left to right; ${blockWords}.`);
+  const blockWords = patternMapWords(map);
   // Legend: blank … observed.
   const lx = f.left;
-  const ly = f.top + h + 24;
+  const ly = f.top + h + 8;
   body += text(lx, ly + 9, 'blank');
   for (let l = 0; l <= LEVELS; l++) body += tag('rect', { x: lx + 34 + l * 12, y: ly, width: 12, height: 10, fill: patternShade(l), stroke: pageColours.rule, 'stroke-width': 0.5 });
   body += text(lx + 34 + (LEVELS + 1) * 12 + 5, ly + 9, 'observed');
