@@ -25,7 +25,7 @@ import {
 import { scaleDecimals } from '../../src-shared/matrix/ratingMatrix';
 import type { DocumentStore } from '../state/documentStore';
 import { formatObserved, formatRating, parseEntry } from './cellText';
-import { rankfillGridTheme } from './gridTheme';
+import { gridLocaleText, rankfillGridTheme } from './gridTheme';
 import { diffColour, estimateTint, type GridLayers } from './overlayLayer';
 
 ModuleRegistry.registerModules([AllCommunityModule]);
@@ -67,6 +67,7 @@ export class RatingGrid {
   ) {
     this.api = createGrid<RowRecord>(host, {
       theme: rankfillGridTheme,
+      localeText: gridLocaleText,
       styleNonce: opts.styleNonce,
       columnDefs: [],
       rowData: [],
