@@ -60,7 +60,8 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
     onRefused: (message) => notice.show(message, 'error'),
     onCellFocused: (row, col) => cellPanel?.focus(row, col),
   });
-  const view = new ViewStore(window.localStorage);
+  // Unless a width is remembered, the side panel takes about a quarter of the window (between 280 and 360 px).
+  const view = new ViewStore(window.localStorage, Math.min(360, Math.max(280, Math.round(window.innerWidth * 0.27))));
   const settings = new SettingsStore();
   const runs = new RunStore(view);
   const controller = new FitController(bridge, store, runs);
@@ -79,7 +80,7 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   runs.subscribe(refreshStatus);
 
   // Side panel: model, runs, cell details, centering comparison, tuning.
-  side = new SidePanel(byTestId('side-panel'));
+  side = new SidePanel(byTestId('side-panel'), view);
   const modelRoot = side.add('model', 'Model');
   const runsRoot = side.add('runs', 'Runs');
   const cellRoot = side.add('cell', 'Cell');
@@ -216,6 +217,7 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
     (id, err) => notice.show(`${id}: ${messageOf(err)}`, 'error'),
   );
   bridge.on('menu.command', ({ command }) => void commands.runWire(command));
+  byTestId('import-button').addEventListener('click', () => commands.run('file.import'));
   installShortcuts(commands, () => ed.isEditing());
 
   // First start: open the first sample.

@@ -50,6 +50,11 @@ export const colIdFor = (j: number) => `c${j}`;
 export const colIndexOf = (colId: string | undefined): number => (colId && /^c\d+$/.test(colId) ? Number(colId.slice(1)) : -1);
 const BASELINE_ROW = -1;
 const NO_TINT = { backgroundColor: '' };
+/** Narrow enough that 8 data columns fit beside the side panel at 1024 px. */
+const LABEL_WIDTH = 136;
+const VALUE_WIDTH = 68;
+/** Below this grid width the baseline and count columns scroll with the data instead of being pinned. */
+const COMPACT_BELOW_PX = 900;
 
 function weakKey(m: Map<number, string> | undefined): string {
   return m ? [...m.keys()].join(',') : '';
@@ -60,6 +65,8 @@ export class RatingGrid {
   private layers: GridLayers = { overlay: null, overlayVisible: true, diff: null, baselines: null, weak: null };
   /** The editing selection (editing/cellSelection.ts) marks its cells with rf-selected. */
   private selectionTest: ((row: number, col: number) => boolean) | null = null;
+  /** A narrow grid: nothing pinned on the right (see COMPACT_BELOW_PX). */
+  private compact = false;
 
   constructor(
     private readonly host: HTMLElement,
@@ -80,6 +87,9 @@ export class RatingGrid {
       undoRedoCellEditing: false,
       animateRows: false,
       tooltipShowDelay: 300,
+      // Tab and Shift+Tab leave the grid (arrow keys move inside it), so the page's other controls stay one key away.
+      tabToNextCell: () => false,
+      tabToNextHeader: () => false,
       defaultColDef: { sortable: false, resizable: true, suppressMovable: true },
       onCellKeyDown: (e) => {
         if ('column' in e) this.onKeyDown(e);
@@ -94,6 +104,13 @@ export class RatingGrid {
       else if (e.type === 'cells') this.refreshCells(e.indices);
     });
     this.rebuild();
+    // Pin the side columns only when there is room for them beside the data.
+    new ResizeObserver(() => {
+      const compact = host.clientWidth > 0 && host.clientWidth < COMPACT_BELOW_PX;
+      if (compact === this.compact) return;
+      this.compact = compact;
+      if (this.layers.baselines) this.rebuild();
+    }).observe(host);
   }
 
   private get doc() {
@@ -109,7 +126,7 @@ export class RatingGrid {
       headerName: '',
       pinned: 'left',
       lockPinned: true,
-      width: 170,
+      width: LABEL_WIDTH,
       editable: false,
       valueGetter: (p: ValueGetterParams<RowRecord>) => {
         if (!p.data) return '';
@@ -130,7 +147,7 @@ export class RatingGrid {
       headerTooltip: label,
       headerClass: () => (this.layers.weak?.cols.has(j) ? 'ag-right-aligned-header rf-weak-col' : 'ag-right-aligned-header'),
       headerTooltipValueGetter: () => this.layers.weak?.cols.get(j) ?? label,
-      width: 92,
+      width: VALUE_WIDTH,
       editable: (p) => p.data?.i !== BASELINE_ROW,
       type: 'rightAligned',
       cellDataType: false,
@@ -177,8 +194,8 @@ export class RatingGrid {
             hide: !showRowBaseline,
             headerName: this.layers.baselines.rowLabel ?? 'Baseline',
             headerTooltip: this.layers.baselines.rowTooltip ?? 'The row’s part of the baseline under the run’s centering',
-            pinned: 'right',
-            width: 92,
+            pinned: this.compact ? null : 'right',
+            width: 84,
             editable: false,
             type: 'rightAligned',
             cellClass: 'ag-right-aligned-cell rf-baseline-cell',
@@ -189,8 +206,8 @@ export class RatingGrid {
             colId: COUNT_COL_ID,
             headerName: 'Observed',
             headerTooltip: 'How many cells of the row are observed',
-            pinned: 'right',
-            width: 86,
+            pinned: this.compact ? null : 'right',
+            width: 80,
             editable: false,
             type: 'rightAligned',
             cellClass: 'ag-right-aligned-cell rf-baseline-cell',

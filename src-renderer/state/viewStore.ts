@@ -35,8 +35,8 @@ export function clampSideWidth(w: number): number {
 }
 
 /** A stored layout read back defensively (anything unreadable falls back to the default). */
-export function parseLayout(text: string | null): ViewLayout {
-  const d: ViewLayout = { sideTab: 'model', sideCollapsed: false, sideWidth: SIDE_DEFAULT_WIDTH };
+export function parseLayout(text: string | null, defaultWidth = SIDE_DEFAULT_WIDTH): ViewLayout {
+  const d: ViewLayout = { sideTab: 'model', sideCollapsed: false, sideWidth: clampSideWidth(defaultWidth) };
   if (!text) return d;
   try {
     const o = JSON.parse(text) as Partial<ViewLayout>;
@@ -59,14 +59,18 @@ export class ViewStore {
   private s: ViewState;
   private readonly listeners = new Set<(changed: ReadonlySet<ViewKey>) => void>();
 
-  constructor(private readonly storage: LayoutStorage | null = null) {
+  /** `defaultWidth`: the side panel's width when none is remembered (the page picks one for the window). */
+  constructor(
+    private readonly storage: LayoutStorage | null = null,
+    defaultWidth = SIDE_DEFAULT_WIDTH,
+  ) {
     let stored: string | null = null;
     try {
       stored = storage?.getItem(LAYOUT_KEY) ?? null;
     } catch {
       stored = null;
     }
-    this.s = { focused: null, shownRunId: null, compare: null, overlayVisible: true, intervalLevel: 0.8, layout: parseLayout(stored) };
+    this.s = { focused: null, shownRunId: null, compare: null, overlayVisible: true, intervalLevel: 0.8, layout: parseLayout(stored, defaultWidth) };
   }
 
   get state(): Readonly<ViewState> {
