@@ -54,9 +54,9 @@ describe('workbench in the browser host', () => {
   });
 
   it('the grid is styled (the nonce admitted its injected styles) with no CSP errors', async () => {
-    // Odd rows carry our paper tint (#f4f1e8); an unstyled grid would leave them transparent.
+    // Odd rows carry our cool band (palette.band #f1f3f4 in grid/gridTheme.ts); an unstyled grid would leave them transparent.
     const bg = await page.$eval('.ag-row-odd', (el) => getComputedStyle(el).backgroundColor);
-    expect(bg).toBe('rgb(244, 241, 232)');
+    expect(bg).toBe('rgb(241, 243, 244)');
     expect(consoleErrors.filter((e) => /Content Security Policy|Refused to/i.test(e))).toEqual([]);
   });
 
