@@ -81,7 +81,7 @@ function loadProject(o: CliOptions): Loaded | CommandOutput {
     if (index < 0) throw new UsageError(`--run ${o.run} is not in ${o.input} (saved runs: ${runs.map((r, i) => `${i + 1} = ${r.id}`).join(', ')})`);
   }
   const run = runs[index];
-  return { matrix, settings: run.settings, runLabel: `Saved run ${run.id} (“${run.name}”)`, warnings: [] };
+  return { matrix, settings: run.settings, runLabel: `Saved run ${run.id}${run.name ? ` (“${run.name}”)` : ` (Run ${run.number})`}`, warnings: [] };
 }
 
 function loadRatings(o: CliOptions): Loaded | CommandOutput {

@@ -3,6 +3,7 @@
  * delimiter, the settings sidecar, and where the file goes. The text is built
  * here with the shared writers; the main side writes it atomically.
  */
+import { runTitle } from './runsPanel';
 import type { Delimiter } from '../../src-shared/io/detectDelimiter';
 import {
   ESTIMATE_CAUTION,
@@ -149,7 +150,7 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
         ctx.notice.show('Nothing to export yet: fill the blank cells first (Model tab).', 'error');
         return;
       }
-      runLine.textContent = `Run ${run.id}: estimates from the run shown in the grid.`;
+      runLine.textContent = `${runTitle(run)}: estimates from the run shown in the grid.`;
       status.textContent = '';
       const safeTitle = ctx.store.title.replace(/[^\p{L}\p{N} _.-]+/gu, '_').trim() || 'ratings';
       try {

@@ -9,12 +9,21 @@ import { describeSeedStability } from '../../src-shared/engine/seedStability';
 import { describeSettings } from '../runs/describeSettings';
 import { runFitsDocument } from '../runs/runMatch';
 import type { Run } from '../runs/runStore';
+import { promptDialog } from '../dialogs/modal';
 import { afterPaint } from './afterPaint';
 import { el, fmt } from './dom';
 import type { PanelContext } from './panelContext';
 
 function timeOf(ms: number): string {
-  return new Date(ms).toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit', second: '2-digit' });
+  const d = new Date(ms);
+  const time = d.toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit', second: '2-digit' });
+  // A run kept in a project may come from another day: then the date is said too.
+  return d.toDateString() === new Date().toDateString() ? time : `${d.toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric' })} ${time}`;
+}
+
+/** "Run 11" or "Run 11 “tasting pick”". */
+export function runTitle(r: Run): string {
+  return r.name ? `Run ${r.id} “${r.name}”` : `Run ${r.id}`;
 }
 
 function cvText(run: Run | undefined): string {
@@ -74,9 +83,22 @@ export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
               .catch((err: unknown) => ctx.notice.show(`Evaluation stopped: ${err instanceof Error ? err.message : String(err)}`, 'error'))
               .finally(() => renderList());
           });
+          const rename = el('button', { className: 'rf-button', testid: `run-rename-${r.id}` }, [r.name ? 'Rename…' : 'Name…']);
+          rename.addEventListener('click', () => {
+            void promptDialog({
+              title: `Name run ${r.id}`,
+              label: 'Name (kept in the project; leave empty for none)',
+              initial: r.name ?? '',
+              confirmLabel: 'Use this name',
+              testId: 'run-name-dialog',
+              check: (v) => (v.trim().length > 200 ? 'at most 200 characters' : undefined),
+            }).then((name) => {
+              if (name !== null) ctx.runs.rename(r.id, name);
+            });
+          });
           const last = r.result.objectiveTrace[r.result.objectiveTrace.length - 1];
           return el('div', { className: `rf-run${shown ? ' rf-run-shown' : ''}`, testid: `run-${r.id}` }, [
-            el('div', { className: 'rf-run-head' }, [el('strong', {}, [`Run ${r.id}`]), ` · ${timeOf(r.createdAt)}`]),
+            el('div', { className: 'rf-run-head', testid: `run-head-${r.id}` }, [el('strong', {}, [runTitle(r)]), ` · ${timeOf(r.createdAt)}`]),
             el('div', {}, [describeSettings(r.settings)]),
             el('div', { className: 'rf-hint' }, [
               `${r.result.iterations} iterations${r.result.converged ? '' : ' (not settled)'} · ${r.settings.model === 'gaussian' ? 'log-likelihood' : 'objective'} ${fmt(last, 4)}` +
@@ -84,7 +106,7 @@ export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
             ]),
             el('div', { className: 'rf-hint', testid: `run-cv-${r.id}` }, [cvText(r)]),
             ...seedLine(r),
-            el('div', { className: 'rf-row' }, [show, evaluate]),
+            el('div', { className: 'rf-row' }, [show, evaluate, rename]),
           ]);
         }),
       );
@@ -94,7 +116,7 @@ export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
       [selB, (p: { a: number; b: number } | null) => p?.b],
     ] as const) {
       const current = sel.value;
-      sel.replaceChildren(...ctx.runs.runs.map((r) => new Option(`Run ${r.id}: ${describeSettings(r.settings)}`, String(r.id))));
+      sel.replaceChildren(...ctx.runs.runs.map((r) => new Option(`${runTitle(r)}: ${describeSettings(r.settings)}`, String(r.id))));
       const want = pick(ctx.runs.compare) ?? (current ? Number(current) : undefined);
       if (want !== undefined && ctx.runs.get(want)) sel.value = String(want);
     }

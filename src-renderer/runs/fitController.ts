@@ -26,6 +26,13 @@ export type FillState =
   | { phase: 'failed'; message: string }
   | { phase: 'cancelled' };
 
+/** Who a run brought back from a project was. */
+export interface RunIdentity {
+  number: number;
+  name?: string;
+  createdAt: number;
+}
+
 export class FitController {
   private readonly jobs: JobTracker;
   private fillJob: string | null = null;
@@ -65,8 +72,12 @@ export class FitController {
     return this.fillJob !== null;
   }
 
-  /** Fill the blank cells with a new run. Resolves with the run, or undefined when cancelled or failed. */
-  async fill(settings: FitSettings): Promise<Run | undefined> {
+  /**
+   * Fill the blank cells with a new run. `identity` brings back a saved run as it was:
+   * its number, name and the time of its Fill. Resolves with the run, or undefined when
+   * cancelled or failed.
+   */
+  async fill(settings: FitSettings, identity?: RunIdentity): Promise<Run | undefined> {
     if (this.fillJob) await this.cancelFill();
     await this.cancelLive();
     const revision = this.doc.revision;
@@ -105,14 +116,15 @@ export class FitController {
         settings,
         result,
         trust: outcome.trust ? trustFromPayload(outcome.trust) : undefined,
-        createdAt: Date.now(),
+        createdAt: identity?.createdAt ?? Date.now(),
         docRevision: revision,
         dataSet,
         layout,
         rows: result.rows,
         cols: result.cols,
         refits: 0,
-      });
+        ...(identity?.name ? { name: identity.name } : {}),
+      }, identity?.number);
       this.setFill({ phase: 'idle' });
       // Edits made while the fit ran are caught up by a live refit.
       if (this.doc.revision !== revision) this.scheduleLiveRefit();

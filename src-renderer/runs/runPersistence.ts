@@ -1,7 +1,8 @@
 /**
  * Puts the model settings and the run history into every saved project (and
  * recovery snapshot), and brings them back on open. A saved run keeps its
- * settings, its figures and — for matrices up to 250,000 cells — its
+ * number, its name, the time of its Fill, its settings, its figures (iterations, final
+ * objective, cross-validated errors) and — for matrices up to 250,000 cells — its
  * predictions. Since a fit is deterministic for given data, settings and seed,
  * opening a project refits each saved run to restore its full result
  * (baselines, factors, spread), then reattaches the saved cross-validated errors.
@@ -19,8 +20,10 @@ export function toSavedRun(run: Run, cells: number): SavedRun {
   const trace = run.result.objectiveTrace;
   return {
     id: `run-${run.id}`,
-    name: `Run ${run.id}: ${describeSettings(run.settings)}`,
-    savedAt: new Date(run.createdAt).toISOString(),
+    number: run.id,
+    name: run.name ?? '',
+    fittedAt: new Date(run.createdAt).toISOString(),
+    savedAt: new Date().toISOString(),
     settings: run.settings,
     metrics: {
       iterations: run.result.iterations,
@@ -57,9 +60,10 @@ export function installRunPersistence(ctx: PanelContext): void {
   async function restore(saved: SavedRun[], token: number): Promise<void> {
     for (const s of saved) {
       if (token !== restoring) return;
-      const run = await ctx.controller.fill(s.settings);
+      const fitted = Date.parse(s.fittedAt);
+      const run = await ctx.controller.fill(s.settings, { number: s.number, name: s.name, createdAt: Number.isFinite(fitted) ? fitted : Date.now() });
       if (!run) {
-        ctx.notice.show(`A saved run (${s.name}) could not be restored; its settings are in the file.`, 'error');
+        ctx.notice.show(`A saved run (Run ${s.number}${s.name ? ` “${s.name}”` : ''}: ${describeSettings(s.settings)}) could not be restored; its settings are in the file.`, 'error');
         continue;
       }
       const m = s.metrics;

@@ -15,7 +15,10 @@ export interface RunEvaluation extends CrossValidationPayload {
 }
 
 export interface Run {
+  /** The run's number ("Run 11"); kept across save and reopen. */
   id: number;
+  /** The name the user gave it, if any. */
+  name?: string;
   settings: FitSettings;
   result: FitResult;
   trust?: CellTrust;
@@ -78,8 +81,11 @@ export class RunStore {
     return this.get(this.shownId);
   }
 
-  add(run: Omit<Run, 'id'>): Run {
-    const r = { ...run, id: this.nextId++ };
+  /** Add a run; `id` asks for a number (a run brought back from a project keeps its own) when it is free. */
+  add(run: Omit<Run, 'id'>, id?: number): Run {
+    const wanted = id !== undefined && Number.isInteger(id) && id >= 1 && !this.get(id) ? id : this.nextId;
+    this.nextId = Math.max(this.nextId, wanted + 1);
+    const r = { ...run, id: wanted };
     this.list.push(r);
     this.emit({ type: 'runs' });
     this.show(r.id);
@@ -101,6 +107,16 @@ export class RunStore {
     // Cross-validated errors describe the data the run was evaluated on; after edits they are stale.
     r.evaluation = undefined;
     r.seedStability = undefined;
+    this.emit({ type: 'updated', id });
+  }
+
+  /** Name a run (an empty name takes the name away). */
+  rename(id: number, name: string): void {
+    const r = this.get(id);
+    if (!r) return;
+    const n = name.trim().slice(0, 200);
+    if (n) r.name = n;
+    else delete r.name;
     this.emit({ type: 'updated', id });
   }
 

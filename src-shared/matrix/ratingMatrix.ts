@@ -21,6 +21,8 @@ export interface RatingMatrix {
   /** Row-major, length rowLabels.length * colLabels.length; NaN = missing. */
   values: Float64Array;
   scale: RatingScale;
+  /** Title of the row-label column (e.g. "Wine"), as the imported file gave it; absent when none. */
+  rowHeader?: string;
 }
 
 export function rowCount(m: RatingMatrix): number {
@@ -105,5 +107,6 @@ export function cloneMatrix(m: RatingMatrix): RatingMatrix {
     colLabels: m.colLabels.slice(),
     values: new Float64Array(m.values),
     scale: { ...m.scale },
+    ...(m.rowHeader !== undefined ? { rowHeader: m.rowHeader } : {}),
   };
 }

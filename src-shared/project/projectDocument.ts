@@ -7,7 +7,12 @@ import type { RatingMatrix } from '../matrix/ratingMatrix';
 
 export interface SavedRun {
   id: string;
+  /** The run's number in the Runs tab ("Run 11"). */
+  number: number;
+  /** The name the user gave the run; "" when none. */
   name: string;
+  /** ISO-8601 time the run's Fill finished. */
+  fittedAt: string;
   /** ISO-8601 time the run was saved. */
   savedAt: string;
   settings: FitSettings;

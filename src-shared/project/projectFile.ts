@@ -13,6 +13,7 @@ import type { ProjectDocument, SavedRun } from './projectDocument';
 import { locateJsonPath, positionOfOffset } from './locateJsonPath';
 import { findJsonSyntaxError, peekMatrixShape } from './jsonSyntax';
 import { MAX_CELLS } from '../io/importCommon';
+import { migrateProject } from './projectMigration';
 import { PROJECT_FORMAT_TAG, PROJECT_FORMAT_VERSION, projectFileSchema, type ProjectFile } from './projectSchema';
 
 export type ParseProjectResult = { ok: true; project: ProjectDocument } | { ok: false; problems: Problem[] };
@@ -58,11 +59,14 @@ export function projectToFile(doc: ProjectDocument): ProjectFile {
       colLabels: m.colLabels.slice(),
       values: toGrid(m.values, rows, cols),
       scale: { ...m.scale },
+      ...(m.rowHeader !== undefined ? { rowHeader: m.rowHeader } : {}),
     },
     settings: doc.settings ? { ...doc.settings } : null,
     runs: doc.runs.map((r) => ({
       id: r.id,
+      number: r.number,
       name: r.name,
+      fittedAt: r.fittedAt,
       savedAt: r.savedAt,
       settings: { ...r.settings },
       metrics: Object.fromEntries(Object.entries(r.metrics).map(([k, v]) => [k, v === null ? null : num(v)])),
@@ -100,6 +104,7 @@ export function serializeProject(doc: ProjectDocument): string {
     `    "rowLabels": ${JSON.stringify(m.rowLabels)},`,
     `    "colLabels": ${JSON.stringify(m.colLabels)},`,
     `    "scale": ${JSON.stringify(m.scale)},`,
+    ...(m.rowHeader !== undefined ? [`    "rowHeader": ${JSON.stringify(m.rowHeader)},`] : []),
     `    "values": ${gridText(m.values, '    ')}`,
     '  },',
     `  "settings": ${JSON.stringify(f.settings)},`,
@@ -230,8 +235,8 @@ export function parseProject(input: string, fileName: string): ParseProjectResul
       problems.add(vp.line, vp.column, `unknown project format version ${JSON.stringify(v)}; expected a whole number from 1 to ${PROJECT_FORMAT_VERSION}`);
       return { ok: false, problems: problems.list() };
     }
-    // (Older versions would be migrated here; v1 is the first.)
-    const parsed = projectFileSchema.safeParse(data);
+    // Older versions are brought up to the current one first (projectMigration.ts).
+    const parsed = projectFileSchema.safeParse(migrateProject(rec));
     if (!parsed.success) {
       for (const issue of parsed.error.issues) {
         const p = locateJsonPath(text, issue.path);
@@ -260,7 +265,9 @@ export function fileToProject(f: ProjectFile): ProjectDocument {
   const cols = f.matrix.colLabels.length;
   const runs: SavedRun[] = f.runs.map((r) => ({
     id: r.id,
+    number: r.number,
     name: r.name,
+    fittedAt: r.fittedAt,
     savedAt: r.savedAt,
     settings: r.settings as FitSettings,
     metrics: { ...r.metrics },
@@ -272,6 +279,7 @@ export function fileToProject(f: ProjectFile): ProjectDocument {
       colLabels: f.matrix.colLabels.slice(),
       values: fromGrid(f.matrix.values, rows, cols),
       scale: { ...f.matrix.scale },
+      ...(f.matrix.rowHeader !== undefined ? { rowHeader: f.matrix.rowHeader } : {}),
     },
     settings: (f.settings as FitSettings | null) ?? null,
     runs,

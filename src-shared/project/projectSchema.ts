@@ -1,18 +1,22 @@
 /**
- * The Rankfill project file, format version 1 (extension `.rankfill`, UTF-8 JSON).
+ * The Rankfill project file, format version 2 (extension `.rankfill`, UTF-8 JSON).
  *
  * {
  *   "format": "rankfill-project",      // tag: anything else is not our file
- *   "version": 1,                      // integer; files from a newer version are refused
+ *   "version": 2,                      // integer; files from a newer version are refused,
+ *                                      // version 1 files are migrated (projectMigration.ts)
  *   "createdAt": ISO-8601 time, "modifiedAt": ISO-8601 time,
  *   "matrix": {
  *     "rowLabels": [string...], "colLabels": [string...],   // unique, non-empty
  *     "values": [[number|null per column] per row],          // null = missing
- *     "scale": { "min": number, "max": number, "step": number }  // max > min, step ≥ 0 (0 = continuous)
+ *     "scale": { "min": number, "max": number, "step": number }, // max > min, step ≥ 0 (0 = continuous)
+ *     "rowHeader"?: string                                   // title of the row-label column (v2)
  *   },
  *   "settings": model settings (same shape as the API's fit settings) or null,
- *   "runs": [ { "id", "name", "savedAt", "settings", "metrics": {name: number|null},
+ *   "runs": [ { "id", "number", "name", "fittedAt", "savedAt", "settings", "metrics": {name: number|null},
  *              "predictions"?: [[number|null per column] per row] } ],
+ *            // number: the run's number in the Runs tab ("Run 11"); name: the name the user gave
+ *            // it ("" when none); fittedAt: when its Fill finished (v2); savedAt: when it was kept
  *   "notes": string
  * }
  *
@@ -22,7 +26,7 @@ import { z } from 'zod';
 import { fitSettingsSchema, scaleSchema } from '../api';
 
 export const PROJECT_FORMAT_TAG = 'rankfill-project';
-export const PROJECT_FORMAT_VERSION = 1;
+export const PROJECT_FORMAT_VERSION = 2;
 export const PROJECT_FILE_EXTENSION = '.rankfill';
 
 const cell = z.number().finite().min(-1e15).max(1e15).nullable();
@@ -57,6 +61,7 @@ export const projectMatrixSchema = z
     colLabels: labelList('column'),
     values: gridOf('values'),
     scale: scaleSchema,
+    rowHeader: z.string().max(500).optional(),
   })
   .superRefine((m, ctx) => {
     if (m.values.length !== m.rowLabels.length) {
@@ -86,7 +91,9 @@ export const projectMatrixSchema = z
 
 export const savedRunSchema = z.object({
   id: z.string().min(1).max(200),
+  number: z.number().int().min(1).max(1_000_000),
   name: z.string().max(500),
+  fittedAt: isoTime,
   savedAt: isoTime,
   settings: fitSettingsSchema,
   metrics: z.record(z.string(), z.number().nullable()),

@@ -9,6 +9,7 @@ import { join } from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchBrowser } from './support/browser';
+import { openProjectInFreshPage } from './support/projectPage';
 import { repoRoot, startHost, type RunningHost } from './support/hostProcess';
 
 const csv = readFileSync(join(repoRoot, 'samples', 'coffee-cupping-panel.csv'), 'utf8').trimEnd().split('\n');
@@ -182,6 +183,53 @@ describe('issue 12 in the browser host', () => {
       expect(await page.textContent('[data-testid=cell-facts]')).toContain('Fold-model spread');
       expect(await page.textContent('[data-testid=cell-spread-note]')).toContain('it is not an error bar');
       await page.screenshot({ path: '/tmp/i12-cell-lowrank.png' });
+    });
+  });
+
+  describe('named runs across keep and reopen', () => {
+    it('a run keeps its number, its name, its time and its cross-validated errors', async () => {
+      const count = () => page.evaluate(() => (window as unknown as { rankfillApp: { runs: { runs: { id: number }[] } } }).rankfillApp.runs.runs.map((r) => r.id));
+      // Two transpositions give the same matrix in a new cell layout: the earlier runs no
+      // longer belong to it, so the next Fill is numbered past them and is the only one kept.
+      await page.click('[data-testid=transpose-button]');
+      await page.click('[data-testid=transpose-button]');
+      const before = await count();
+      await page.click('[data-testid=tab-model]');
+      await page.click('[data-testid=fill-button]');
+      await expect.poll(async () => (await count()).length, { timeout: 30_000 }).toBe(before.length + 1);
+      const id = Math.max(...(await count()));
+      expect(id).toBeGreaterThan(2);
+      await page.click('[data-testid=tab-runs]');
+      await page.click(`[data-testid=run-rename-${id}]`);
+      await page.waitForSelector('[data-testid=run-name-dialog]');
+      await page.fill('[data-testid=prompt-input]', 'tasting pick');
+      await page.click('[data-testid=run-name-dialog] [data-testid=dialog-confirm]');
+      await expect.poll(() => page.textContent(`[data-testid=run-head-${id}]`)).toContain(`Run ${id} “tasting pick”`);
+      await page.click(`[data-testid=run-evaluate-${id}]`);
+      await expect.poll(() => page.textContent(`[data-testid=run-cv-${id}]`), { timeout: 30_000 }).toMatch(/^RMSE \d/);
+      const head = await page.textContent(`[data-testid=run-head-${id}]`);
+      const cv = await page.textContent(`[data-testid=run-cv-${id}]`);
+      const createdAt = await page.evaluate((n) => (window as unknown as { rankfillApp: { runs: { get(n: number): { createdAt: number } } } }).rankfillApp.runs.get(n).createdAt, id);
+
+      const projectPath = join(dir, 'named-runs.rankfill');
+      await page.click('[data-testid=save-as-button]');
+      await page.waitForSelector('[data-testid=path-dialog]');
+      await page.fill('[data-testid=prompt-input]', projectPath);
+      await page.click('[data-testid=dialog-confirm]');
+      await expect.poll(() => page.textContent('[data-testid=notice]')).toContain(`Kept in ${projectPath}`);
+      const file = JSON.parse(readFileSync(projectPath, 'utf8'));
+      expect(file.version).toBe(2);
+      expect(file.runs).toHaveLength(1);
+      expect(file.runs[0]).toMatchObject({ number: id, name: 'tasting pick', fittedAt: new Date(createdAt).toISOString() });
+
+      const fresh = await openProjectInFreshPage(browser, host.launchUrl, projectPath);
+      await expect.poll(() => fresh.evaluate(() => (window as unknown as { rankfillApp: { runs: { runs: { id: number }[] } } }).rankfillApp.runs.runs.map((r) => r.id)), { timeout: 30_000 }).toEqual([id]);
+      await fresh.click('[data-testid=tab-runs]');
+      expect(await fresh.textContent(`[data-testid=run-head-${id}]`)).toBe(head);
+      expect(await fresh.textContent(`[data-testid=run-cv-${id}]`)).toBe(cv);
+      expect(await fresh.evaluate((n) => (window as unknown as { rankfillApp: { runs: { get(n: number): { createdAt: number } } } }).rankfillApp.runs.get(n).createdAt, id)).toBe(createdAt);
+      await fresh.screenshot({ path: '/tmp/i12-runs-reopened.png' });
+      await fresh.close();
     });
   });
 });

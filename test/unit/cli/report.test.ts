@@ -125,14 +125,14 @@ describe('rankfill report', () => {
     const doc = newProjectDocument(parsed.matrix);
     const s = defaultLowRankSettings();
     doc.runs = [
-      { id: 'run-1', name: 'Run 1: rank 2', savedAt: '2026-01-01T00:00:00.000Z', settings: s, metrics: {} },
-      { id: 'run-2', name: 'Run 2: rank 3 by row', savedAt: '2026-01-01T00:01:00.000Z', settings: { ...s, rank: 3, centering: 'row' }, metrics: {} },
+      { id: 'run-1', number: 1, name: '', fittedAt: '2026-01-01T00:00:00.000Z', savedAt: '2026-01-01T00:00:00.000Z', settings: s, metrics: {} },
+      { id: 'run-2', number: 2, name: 'rank 3 by row', fittedAt: '2026-01-01T00:01:00.000Z', savedAt: '2026-01-01T00:01:00.000Z', settings: { ...s, rank: 3, centering: 'row' }, metrics: {} },
     ];
     const project = join(dir, 'study.rankfill');
     writeFileSync(project, serializeProject(doc));
     const last = join(dir, 'last.html');
     expect((await run('report', project, '--out', last)).code).toBe(0);
-    expect(data(readFileSync(last, 'utf8')).run).toMatchObject({ label: 'Saved run run-2 (“Run 2: rank 3 by row”)', settings: { rank: 3, centering: 'row' } });
+    expect(data(readFileSync(last, 'utf8')).run).toMatchObject({ label: 'Saved run run-2 (“rank 3 by row”)', settings: { rank: 3, centering: 'row' } });
     const first = join(dir, 'first.html');
     expect((await run('report', project, '--out', first, '--run', '1')).code).toBe(0);
     expect(data(readFileSync(first, 'utf8')).run.settings).toMatchObject({ rank: 2, centering: 'both' });

@@ -78,7 +78,7 @@ describe('document handlers', () => {
     const r1 = await h['project.open']({ path: t });
     expect(r1.ok).toBe(false);
     const f = join(dir, 'future.rankfill');
-    writeFileSync(f, project(4).replace('"version": 1,', '"version": 99,'));
+    writeFileSync(f, project(4).replace('"version": 2,', '"version": 99,'));
     expect(readFileSync(f, 'utf8')).toContain('"version": 99,');
     const r2 = await h['project.open']({ path: f });
     expect(r2.ok).toBe(false);

@@ -30,7 +30,7 @@ const EXPECTED: [string, string][] = [
   ["empty-row-label.csv", "empty-row-label.csv:3:1: empty row label"],
   ["empty.csv", "empty.csv:1:1: file is empty: expected a header row and data rows"],
   ["empty.rankfill", "empty.rankfill:1:1: the project file is empty"],
-  ["future-version.rankfill", "future-version.rankfill:3:14: made by a newer Rankfill (format v7); this version reads up to v1"],
+  ["future-version.rankfill", "future-version.rankfill:3:14: made by a newer Rankfill (format v7); this version reads up to v2"],
   ["header-only.csv", "header-only.csv:1:1: the file has a header row but no data rows"],
   ["implausible-1e16.tsv", "implausible-1e16.tsv:3:2: \"1e16\" is implausible as a rating (allowed magnitude up to 1e15)"],
   ["invalid-json.rankfill", "invalid-json.rankfill:9:5: the project file is not valid JSON (expected , or } after a value, found \"scale\"); it may be damaged"],

@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { formatProblem } from '../../../src-shared/io/problem';
@@ -19,8 +20,8 @@ function sampleDoc(): ProjectDocument {
     },
     settings,
     runs: [
-      { id: 'r1', name: 'first', savedAt: '2026-01-02T10:00:00.000Z', settings, metrics: { rmse: 0.5, mae: null }, predictions: new Float64Array([4, 3.5, 5, 2, 1, 2.25]) },
-      { id: 'r2', name: 'second', savedAt: '2026-01-02T11:00:00.000Z', settings: { ...settings, rank: 1 }, metrics: {} },
+      { id: 'r1', number: 1, name: 'first', fittedAt: '2026-01-02T09:59:00.000Z', savedAt: '2026-01-02T10:00:00.000Z', settings, metrics: { rmse: 0.5, mae: null }, predictions: new Float64Array([4, 3.5, 5, 2, 1, 2.25]) },
+      { id: 'r2', number: 11, name: '', fittedAt: '2026-01-02T10:59:00.000Z', savedAt: '2026-01-02T11:00:00.000Z', settings: { ...settings, rank: 1 }, metrics: {} },
     ],
     notes: 'line one\nline "two"',
     createdAt: '2026-01-01T09:00:00.000Z',
@@ -69,11 +70,11 @@ describe('project file', () => {
   });
 
   it('refuses a newer format version with the agreed wording and no project', () => {
-    const text = serializeProject(sampleDoc()).replace('"version": 1', '"version": 2');
+    const text = serializeProject(sampleDoc()).replace('"version": 2', '"version": 3');
     const r = parseProject(text, 'new.rankfill');
     expect(r).toEqual({
       ok: false,
-      problems: [{ file: 'new.rankfill', line: 3, column: 14, message: 'made by a newer Rankfill (format v2); this version reads up to v1' }],
+      problems: [{ file: 'new.rankfill', line: 3, column: 14, message: 'made by a newer Rankfill (format v3); this version reads up to v2' }],
     });
   });
 
@@ -106,5 +107,41 @@ describe('project file', () => {
       }),
       { numRuns: 300, seed: 99 },
     );
+  });
+});
+
+describe('format v1 → v2 migration', () => {
+  // The fixture is a real version-1 file as this app wrote it before v2 (test/fixtures/good/panel.rankfill).
+  it('opens a version-1 file: runs get their number, a user name stays, the fit time is the v1 savedAt', () => {
+    const text = readFileSync(new URL('../../fixtures/good/panel.rankfill', import.meta.url), 'utf8');
+    expect(text).toContain('"version": 1,');
+    const r = parseProject(text, 'panel.rankfill');
+    if (!r.ok) throw new Error(r.problems.map(formatProblem).join('\n'));
+    expect(r.project.runs).toHaveLength(1);
+    expect(r.project.runs[0]).toMatchObject({ id: 'run-1', number: 1, name: 'rank 2', fittedAt: '2026-01-02T10:00:00.000Z', metrics: { heldOutRmse: 0.82 } });
+    // Saved again, it is a version-2 file that reads back the same.
+    const again = serializeProject(r.project);
+    expect(again).toContain('"version": 2,');
+    const r2 = parseProject(again, 'panel.rankfill');
+    expect(r2.ok && r2.project.runs[0]).toMatchObject({ number: 1, name: 'rank 2' });
+  });
+
+  it('v1 names the app made ("Run 11: …") become no name; numbers come from the id, then the name, then the position', () => {
+    const v1 = JSON.parse(readFileSync(new URL('../../fixtures/good/panel.rankfill', import.meta.url), 'utf8'));
+    const run = v1.runs[0];
+    v1.runs = [
+      { ...run, id: 'run-11', name: 'Run 11: rank 2, λ 1, both' },
+      { ...run, id: 'x', name: 'Run 4: rank 1' },
+      { ...run, id: 'y', name: 'my favourite' },
+      { ...run, id: 'run-11', name: 'copy' },
+    ];
+    const r = parseProject(JSON.stringify(v1), 'v1.rankfill');
+    if (!r.ok) throw new Error(r.problems.map(formatProblem).join('\n'));
+    expect(r.project.runs.map((x) => [x.number, x.name])).toEqual([
+      [11, ''],
+      [4, ''],
+      [3, 'my favourite'],
+      [12, 'copy'],
+    ]);
   });
 });

@@ -148,7 +148,7 @@ describe('recovery and autosave', () => {
     writeFileSync(path.join(dir, 'doc-3.rankfill-recovery'), '{"format":"rankfill-recovery","version":1,"meta":{"id":"doc-3","savedAt":"x"},"project":{"format":"rankfill-project","version":9}}');
     const r = await store.restore('doc-3');
     expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.problems[0].message).toBe('made by a newer Rankfill (format v9); this version reads up to v1');
+    if (!r.ok) expect(r.problems[0].message).toBe('made by a newer Rankfill (format v9); this version reads up to v2');
     writeFileSync(path.join(dir, 'doc-4.rankfill-recovery'), '{"format":"rankfill-recov');
     expect((await store.list()).map((e) => e.id).sort()).toEqual(['doc-2', 'doc-3']);
     const damaged = await store.restore('doc-4');
