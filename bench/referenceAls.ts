@@ -5,7 +5,7 @@
  * the per-iteration time ratio measures the hand-written kernel, not a different method.
  */
 import { Matrix, solve } from 'ml-matrix';
-import type { ObservedIndex } from '../src-shared/engine/observed';
+import type { SparseRatings } from '../src-shared/matrix/sparseRatings';
 
 export function referenceHalfStep(
   out: Float64Array,
@@ -38,7 +38,7 @@ export function referenceHalfStep(
 }
 
 /** One full reference sweep (rows then columns). */
-export function referenceSweep(idx: ObservedIndex, resRow: Float64Array, resCol: Float64Array, u: Float64Array, v: Float64Array, k: number, lambda: number): void {
+export function referenceSweep(idx: SparseRatings, resRow: Float64Array, resCol: Float64Array, u: Float64Array, v: Float64Array, k: number, lambda: number): void {
   referenceHalfStep(u, v, idx.rowPtr, idx.rowCol, resRow, k, lambda);
   referenceHalfStep(v, u, idx.colPtr, idx.colRow, resCol, k, lambda);
 }

@@ -9,33 +9,35 @@
  *           by alternating exact updates (block coordinate descent, each step lowers the loss):
  *             a_i ← Σ_{j∈obs(i)} (y_ij − μ − c_j) / (n_i + γ),
  *             c_j ← Σ_{i∈obs(j)} (y_ij − μ − a_i) / (m_j + γ),
- *           starting from c = 0, until the largest change is below 1e-10 or 100 sweeps.
- *           An empty row/column gets offset 0 (so the global mean).
+ *           starting from c = 0 (or from a given warm start, e.g. the full data's offsets when
+ *           fitting a fold), until the largest change of a sweep is below
+ *           1e-10 · max(1, |μ|) or 200 sweeps. An empty row/column gets offset 0 (so the global mean).
+ *
+ * Every pass reads the observed cells only (compressed by row, then by column: sparseRatings.ts),
+ * so a sweep costs O(observed), with each row's and each column's values contiguous.
  *
  * The result is expressed as b_ij = rowBaseline[i] + colBaseline[j] in every case
  * (row: colBaseline = 0; column: rowBaseline = 0; both: rowBaseline = μ + a_i, colBaseline = c_j).
  */
 import type { Centering } from './types';
-import type { ObservedIndex } from './observed';
+import type { SparseRatings } from '../matrix/sparseRatings';
 
 export interface Baseline {
   rowBaseline: Float64Array;
   colBaseline: Float64Array;
   globalMean: number;
+  /** Sweeps used by two-way centering (0 otherwise). */
+  sweeps?: number;
 }
 
-export function fitBaseline(
-  values: Float64Array,
-  idx: ObservedIndex,
-  centering: Centering,
-  offsetLambda: number,
-): Baseline {
-  const { rows, cols, rowPtr, rowCol, rowCell, colPtr, colRow, colCell } = idx;
+export function fitBaseline(data: SparseRatings, centering: Centering, offsetLambda: number, warm?: Baseline): Baseline {
+  const { rows, cols, rowPtr, rowCol, rowVal, colPtr, colRow, colVal } = data;
   const rowBaseline = new Float64Array(rows);
   const colBaseline = new Float64Array(cols);
   let total = 0;
-  for (let p = 0; p < idx.n; p++) total += values[rowCell[p]];
-  const mu = idx.n > 0 ? total / idx.n : 0;
+  for (let p = 0; p < data.n; p++) total += rowVal[p];
+  const mu = data.n > 0 ? total / data.n : 0;
+  let sweeps = 0;
 
   if (centering === 'row') {
     for (let i = 0; i < rows; i++) {
@@ -46,7 +48,7 @@ export function fitBaseline(
         continue;
       }
       let s = 0;
-      for (let p = a; p < b; p++) s += values[rowCell[p]];
+      for (let p = a; p < b; p++) s += rowVal[p];
       rowBaseline[i] = s / (b - a);
     }
   } else if (centering === 'column') {
@@ -58,14 +60,19 @@ export function fitBaseline(
         continue;
       }
       let s = 0;
-      for (let q = a; q < b; q++) s += values[colCell[q]];
+      for (let q = a; q < b; q++) s += colVal[q];
       colBaseline[j] = s / (b - a);
     }
   } else if (centering === 'both') {
     const gamma = offsetLambda;
     const rowOff = new Float64Array(rows);
-    const colOff = colBaseline; // c_j, starts at 0
-    for (let sweep = 0; sweep < 100; sweep++) {
+    const colOff = colBaseline; // c_j, starts at 0 or at the warm start
+    if (warm && warm.colBaseline.length === cols && warm.rowBaseline.length === rows) {
+      colOff.set(warm.colBaseline);
+      for (let i = 0; i < rows; i++) rowOff[i] = warm.rowBaseline[i] - warm.globalMean;
+    }
+    const stopAt = 1e-10 * Math.max(1, Math.abs(mu));
+    for (let sweep = 0; sweep < 200; sweep++) {
       let change = 0;
       for (let i = 0; i < rows; i++) {
         const a = rowPtr[i];
@@ -73,8 +80,8 @@ export function fitBaseline(
         const den = b - a + gamma;
         if (!(den > 0)) continue;
         let s = 0;
-        for (let p = a; p < b; p++) s += values[rowCell[p]] - mu - colOff[rowCol[p]];
-        const v = s / den;
+        for (let p = a; p < b; p++) s += rowVal[p] - colOff[rowCol[p]];
+        const v = (s - (b - a) * mu) / den;
         const d = Math.abs(v - rowOff[i]);
         if (d > change) change = d;
         rowOff[i] = v;
@@ -85,15 +92,16 @@ export function fitBaseline(
         const den = b - a + gamma;
         if (!(den > 0)) continue;
         let s = 0;
-        for (let q = a; q < b; q++) s += values[colCell[q]] - mu - rowOff[colRow[q]];
-        const v = s / den;
+        for (let q = a; q < b; q++) s += colVal[q] - rowOff[colRow[q]];
+        const v = (s - (b - a) * mu) / den;
         const d = Math.abs(v - colOff[j]);
         if (d > change) change = d;
         colOff[j] = v;
       }
-      if (change < 1e-10) break;
+      sweeps = sweep + 1;
+      if (change < stopAt) break;
     }
     for (let i = 0; i < rows; i++) rowBaseline[i] = mu + rowOff[i];
   }
-  return { rowBaseline, colBaseline, globalMean: mu };
+  return { rowBaseline, colBaseline, globalMean: mu, sweeps };
 }

@@ -9,8 +9,11 @@
  * columns), repeated until nothing changes (at most 20 passes). A row or column with a
  * single observed cell cannot keep one when that cell is tested ("where possible").
  *
- * For fold f the model is fitted (through fitModel) on the observed cells not in f, and
- * scored on the cells in f:
+ * Everything runs on the sparse storage of the observed cells (sparseRatings.ts): a fold is
+ * a label per observed entry, the training set of fold f is the compact storage of the
+ * other entries (built by index, never a dense copy), and only fold f's cells are predicted.
+ * For fold f the model is fitted (through fitModelSparse, see foldTask.ts) on the observed
+ * cells not in f, and scored on the cells in f:
  *   RMSE_f = √(Σ_{c∈f} (ŷ_c − y_c)² / n_f),   MAE_f = Σ_{c∈f} |ŷ_c − y_c| / n_f.
  * Summary: mean over folds and sample standard deviation (divisor k − 1).
  * Asked for interval levels, the same fold fits also calibrate the intervals of
@@ -18,16 +21,19 @@
  * quantile from the other folds' held-out cells).
  */
 import type { RatingMatrix } from '../matrix/ratingMatrix';
+import { toSparseMatrix, type SparseMatrix } from '../matrix/sparseRatings';
 import type { FitProgress, FitSettings } from './types';
-import { fitModel } from './fitModel';
 import { createRng, shuffleInPlace } from './random';
 import { calibrateIntervals, EnsembleSpread, HeldOutCollector } from './cellIntervals';
 import { summarizeLevel, type LevelSummary } from './intervals';
+import { runFoldTask, type FoldOutcome } from './foldTask';
+import { denseValues } from '../matrix/sparseRatings';
+import { predictRow } from './predictions';
 
 export interface Folds {
   k: number;
   seed: number;
-  /** Per dense cell: its fold (0..k−1), or −1 for a missing cell. */
+  /** Per observed entry in row order (the order of SparseRatings.rowVal): its fold 0..k−1. */
   foldOf: Int32Array;
   /** Number of test cells in each fold. */
   sizes: number[];
@@ -47,6 +53,11 @@ export interface CrossValidationResult {
   sdMae: number;
   /** Per asked level: coverage and width of the intervals on each fold, and of constant-width ones. */
   intervals?: { level: number; normalized: LevelSummary; constantWidth: LevelSummary }[];
+  /**
+   * When asked for (keepHeldOut): per observed entry in row order, the prediction made for
+   * it by the fit that did not see it (each cell is held out exactly once).
+   */
+  heldOut?: Float64Array;
 }
 
 export interface CrossValidateOptions {
@@ -55,6 +66,7 @@ export interface CrossValidateOptions {
   shouldStop?: () => boolean;
   /** Interval levels (0.5–0.99) to measure on the folds. */
   intervalLevels?: number[];
+  keepHeldOut?: boolean;
 }
 
 function spanCount(foldsSeen: Int32Array, k: number): number {
@@ -63,95 +75,91 @@ function spanCount(foldsSeen: Int32Array, k: number): number {
   return s;
 }
 
-export function makeFolds(matrix: RatingMatrix, k: number, seed: number): Folds {
+export function makeFolds(matrix: RatingMatrix | SparseMatrix, k: number, seed: number): Folds {
   if (!Number.isInteger(k) || k < 2) throw new Error(`folds must be a whole number ≥ 2 (got ${k})`);
-  const rows = matrix.rowLabels.length;
-  const cols = matrix.colLabels.length;
-  const values = matrix.values;
-  const foldOf = new Int32Array(values.length).fill(-1);
-  let n = 0;
-  for (let c = 0; c < values.length; c++) if (values[c] === values[c]) n++;
+  const data = toSparseMatrix(matrix).data;
+  const { rows, cols, n, rowPtr, rowCol, colPtr, colEntry } = data;
   if (n < k) throw new Error(`${k} folds need at least ${k} observed values (found ${n})`);
-  const cells = new Int32Array(n);
-  n = 0;
-  for (let c = 0; c < values.length; c++) if (values[c] === values[c]) cells[n++] = c;
-  shuffleInPlace(cells, createRng(seed));
-  for (let t = 0; t < n; t++) foldOf[cells[t]] = t % k;
+  const foldOf = new Int32Array(n);
+  const entries = new Int32Array(n);
+  for (let p = 0; p < n; p++) entries[p] = p;
+  shuffleInPlace(entries, createRng(seed));
+  for (let t = 0; t < n; t++) foldOf[entries[t]] = t % k;
+  const rowOf = new Int32Array(n);
+  for (let i = 0; i < rows; i++) rowOf.fill(i, rowPtr[i], rowPtr[i + 1]);
 
   // Per-row and per-column counts of cells in each fold.
   const rowFold = new Int32Array(rows * k);
   const colFold = new Int32Array(cols * k);
-  for (let t = 0; t < n; t++) {
-    const c = cells[t];
-    const f = foldOf[c];
-    rowFold[((c / cols) | 0) * k + f]++;
-    colFold[(c % cols) * k + f]++;
+  for (let p = 0; p < n; p++) {
+    const f = foldOf[p];
+    rowFold[rowOf[p] * k + f]++;
+    colFold[rowCol[p] * k + f]++;
   }
-  const move = (c: number, to: number): void => {
-    const f = foldOf[c];
-    const i = (c / cols) | 0;
-    const j = c % cols;
+  const move = (p: number, to: number): void => {
+    const f = foldOf[p];
+    const i = rowOf[p];
+    const j = rowCol[p];
     rowFold[i * k + f]--;
     colFold[j * k + f]--;
     rowFold[i * k + to]++;
     colFold[j * k + to]++;
-    foldOf[c] = to;
+    foldOf[p] = to;
   };
   const spans = (arr: Int32Array, e: number): number => spanCount(arr.subarray(e * k, e * k + k), k);
+  const total = (arr: Int32Array, e: number): number => {
+    let s = 0;
+    for (let f = 0; f < k; f++) s += arr[e * k + f];
+    return s;
+  };
   for (let pass = 0; pass < 20; pass++) {
     let changed = false;
     for (let i = 0; i < rows; i++) {
-      const base = i * cols;
-      let count = 0;
-      for (let f = 0; f < k; f++) count += rowFold[i * k + f];
-      if (count < 2 || spans(rowFold, i) >= 2) continue;
+      if (total(rowFold, i) < 2 || spans(rowFold, i) >= 2) continue;
       // All of row i's cells are in one fold: move one whose column survives the move.
       let chosen = -1;
-      for (let j = 0; j < cols && chosen < 0; j++) {
-        const c = base + j;
-        if (foldOf[c] < 0) continue;
-        const f = foldOf[c];
+      for (let p = rowPtr[i]; p < rowPtr[i + 1] && chosen < 0; p++) {
+        const j = rowCol[p];
+        const f = foldOf[p];
         const to = (f + 1) % k;
-        const colTotal = colFold.subarray(j * k, j * k + k).reduce((a, b) => a + b, 0);
         // After the move the column must still span two folds (or had a single cell anyway).
         const afterSpan = spans(colFold, j) - (colFold[j * k + f] === 1 ? 1 : 0) + (colFold[j * k + to] === 0 ? 1 : 0);
-        if (colTotal < 2 || afterSpan >= 2) chosen = c;
+        if (total(colFold, j) < 2 || afterSpan >= 2) chosen = p;
       }
-      if (chosen < 0) for (let j = 0; j < cols && chosen < 0; j++) if (foldOf[base + j] >= 0) chosen = base + j;
+      if (chosen < 0) chosen = rowPtr[i];
       move(chosen, (foldOf[chosen] + 1) % k);
       changed = true;
     }
     for (let j = 0; j < cols; j++) {
-      let count = 0;
-      for (let f = 0; f < k; f++) count += colFold[j * k + f];
-      if (count < 2 || spans(colFold, j) >= 2) continue;
+      if (total(colFold, j) < 2 || spans(colFold, j) >= 2) continue;
       let chosen = -1;
-      for (let i = 0; i < rows && chosen < 0; i++) {
-        const c = i * cols + j;
-        if (foldOf[c] < 0) continue;
-        const f = foldOf[c];
+      for (let q = colPtr[j]; q < colPtr[j + 1] && chosen < 0; q++) {
+        const p = colEntry[q];
+        const i = rowOf[p];
+        const f = foldOf[p];
         const to = (f + 1) % k;
-        const rowTotal = rowFold.subarray(i * k, i * k + k).reduce((a, b) => a + b, 0);
         const afterSpan = spans(rowFold, i) - (rowFold[i * k + f] === 1 ? 1 : 0) + (rowFold[i * k + to] === 0 ? 1 : 0);
-        if (rowTotal < 2 || afterSpan >= 2) chosen = c;
+        if (total(rowFold, i) < 2 || afterSpan >= 2) chosen = p;
       }
-      if (chosen < 0) for (let i = 0; i < rows && chosen < 0; i++) if (foldOf[i * cols + j] >= 0) chosen = i * cols + j;
+      if (chosen < 0) chosen = colEntry[colPtr[j]];
       move(chosen, (foldOf[chosen] + 1) % k);
       changed = true;
     }
     if (!changed) break;
   }
   const sizes = new Array<number>(k).fill(0);
-  for (let c = 0; c < foldOf.length; c++) if (foldOf[c] >= 0) sizes[foldOf[c]]++;
+  for (let p = 0; p < n; p++) sizes[foldOf[p]]++;
   return { k, seed, foldOf, sizes };
 }
 
-/** The matrix with fold f's cells hidden (set to NaN). */
-export function trainingMatrix(matrix: RatingMatrix, folds: Folds, f: number): RatingMatrix {
-  const values = new Float64Array(matrix.values);
-  const foldOf = folds.foldOf;
-  for (let c = 0; c < values.length; c++) if (foldOf[c] === f) values[c] = NaN;
-  return { rowLabels: matrix.rowLabels, colLabels: matrix.colLabels, values, scale: matrix.scale };
+/** Per dense cell (row-major): its fold, or −1 for a missing cell (for display and checks). */
+export function cellFolds(matrix: RatingMatrix | SparseMatrix, folds: Folds): Int32Array {
+  const data = toSparseMatrix(matrix).data;
+  const out = new Int32Array(data.rows * data.cols).fill(-1);
+  for (let i = 0; i < data.rows; i++) {
+    for (let p = data.rowPtr[i]; p < data.rowPtr[i + 1]; p++) out[i * data.cols + data.rowCol[p]] = folds.foldOf[p];
+  }
+  return out;
 }
 
 export function meanSd(xs: number[]): { mean: number; sd: number } {
@@ -166,51 +174,76 @@ export function meanSd(xs: number[]): { mean: number; sd: number } {
   return { mean, sd: Math.sqrt(ss / (n - 1)) };
 }
 
+/** Mean and standard deviation over the folds' scores. */
+export function summarizeFolds(scores: FoldScore[]): CrossValidationResult {
+  const r = meanSd(scores.map((s) => s.rmse));
+  const a = meanSd(scores.map((s) => s.mae));
+  return { folds: scores, meanRmse: r.mean, sdRmse: r.sd, meanMae: a.mean, sdMae: a.sd };
+}
+
+/** Held-out predictions of every fold put back in row order (see CrossValidationResult.heldOut). */
+export function gatherHeldOut(folds: Folds, perFold: (Float64Array | undefined)[]): Float64Array {
+  const out = new Float64Array(folds.foldOf.length).fill(NaN);
+  const next = new Int32Array(folds.k);
+  for (let p = 0; p < folds.foldOf.length; p++) {
+    const f = folds.foldOf[p];
+    const pred = perFold[f];
+    if (pred) out[p] = pred[next[f]];
+    next[f]++;
+  }
+  return out;
+}
+
+/** The fold outcome of one setting, or its error thrown. */
+export function scoreOrThrow(o: FoldOutcome): FoldScore {
+  if ('error' in o) throw o.error;
+  return o.score;
+}
+
 export function crossValidate(
-  matrix: RatingMatrix,
+  matrix: RatingMatrix | SparseMatrix,
   settings: FitSettings,
   folds: Folds,
   opts: CrossValidateOptions = {},
 ): CrossValidationResult {
+  const m = toSparseMatrix(matrix);
+  const { rows, cols } = m.data;
   const scores: FoldScore[] = [];
-  const values = matrix.values;
+  const held: (Float64Array | undefined)[] = [];
+  // Intervals need every fold model's estimate of every cell (the ensemble spread), so only
+  // then is a dense buffer made, filled row by row from each fold's model.
   const levels = opts.intervalLevels ?? [];
-  const heldOut = levels.length ? new HeldOutCollector(values, folds.foldOf, folds.k) : undefined;
-  const ensemble = levels.length && settings.model === 'lowrank' ? new EnsembleSpread(values.length) : undefined;
+  const values = levels.length ? ('values' in matrix ? matrix.values : denseValues(m.data)) : undefined;
+  const heldOut = values ? new HeldOutCollector(values, cellFolds(m, folds), folds.k) : undefined;
+  const ensemble = values && settings.model === 'lowrank' ? new EnsembleSpread(values.length) : undefined;
+  const dense = values ? new Float64Array(rows * cols) : undefined;
   for (let f = 0; f < folds.k; f++) {
-    const train = trainingMatrix(matrix, folds, f);
-    const fit = fitModel(train, settings, {
+    const [outcome] = runFoldTask(m, folds, f, [settings], {
       shouldStop: opts.shouldStop,
-      onProgress: opts.onProgress ? (p) => opts.onProgress!({ done: f, total: folds.k, fit: p }) : undefined,
+      keepHeldOut: opts.keepHeldOut,
+      onFitProgress: opts.onProgress ? (p) => opts.onProgress!({ done: f, total: folds.k, fit: p }) : undefined,
+      onFitted: dense
+        ? (model) => {
+            if ('predictions' in model) dense.set(model.predictions);
+            else for (let i = 0; i < rows; i++) predictRow(model, m.scale, i, dense.subarray(i * cols, (i + 1) * cols));
+            heldOut?.add(f, dense, 'spread' in model ? model.spread : undefined);
+            ensemble?.add(dense);
+          }
+        : undefined,
     });
-    let se = 0;
-    let ae = 0;
-    let n = 0;
-    const pred = fit.predictions;
-    heldOut?.add(f, pred, fit.spread);
-    ensemble?.add(pred);
-    for (let c = 0; c < values.length; c++) {
-      if (folds.foldOf[c] !== f) continue;
-      const e = pred[c] - values[c];
-      se += e * e;
-      ae += Math.abs(e);
-      n++;
-    }
-    scores.push({ rmse: n > 0 ? Math.sqrt(se / n) : NaN, mae: n > 0 ? ae / n : NaN, n });
+    scores.push(scoreOrThrow(outcome));
+    if ('heldOut' in outcome) held.push(outcome.heldOut);
     opts.onProgress?.({ done: f + 1, total: folds.k });
   }
-  const r = meanSd(scores.map((s) => s.rmse));
-  const a = meanSd(scores.map((s) => s.mae));
-  const out: CrossValidationResult = { folds: scores, meanRmse: r.mean, sdRmse: r.sd, meanMae: a.mean, sdMae: a.sd };
-  if (heldOut && heldOut.complete) {
-    const rows = matrix.rowLabels.length;
-    const cols = matrix.colLabels.length;
+  const result = summarizeFolds(scores);
+  if (opts.keepHeldOut) result.heldOut = gatherHeldOut(folds, held);
+  if (heldOut && values && heldOut.complete) {
     const cal = calibrateIntervals(heldOut, { rows, cols, values, family: settings.model, ensembleSpread: ensemble?.spread() });
-    out.intervals = levels.map((level) => ({
+    result.intervals = levels.map((level) => ({
       level,
-      normalized: summarizeLevel(cal.heldOut, level, matrix.scale, true),
-      constantWidth: summarizeLevel(cal.heldOut, level, matrix.scale, false),
+      normalized: summarizeLevel(cal.heldOut, level, m.scale, true),
+      constantWidth: summarizeLevel(cal.heldOut, level, m.scale, false),
     }));
   }
-  return out;
+  return result;
 }

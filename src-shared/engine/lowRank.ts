@@ -35,10 +35,11 @@
  * Failure: a non-finite F, or F growing above 1e6 · max(F₀, 1) or increasing (relative
  * > 1e-6 and by more than φ) for 5 sweeps in a row, ends the fit with FitFailedError.
  */
-import type { FitProgress, FitResult, LowRankSettings } from './types';
+import type { FitProgress, FitResult, LowRankSettings, SparseFit } from './types';
 import type { RatingMatrix } from '../matrix/ratingMatrix';
-import { buildObservedIndex, findNonFinite, type ObservedIndex } from './observed';
-import { fitBaseline } from './baseline';
+import { findNonFiniteEntry, sparseFromDense, type SparseRatings } from '../matrix/sparseRatings';
+import { findNonFinite } from './observed';
+import { fitBaseline, type Baseline } from './baseline';
 import { choleskyInPlace, choleskySolveInPlace } from './cholesky';
 import { randomStart, spectralStart } from './spectral';
 import { makePredictions } from './predictions';
@@ -49,6 +50,10 @@ export interface FitOptions {
   onProgress?: (p: FitProgress) => void;
   shouldStop?: () => boolean;
   warmStart?: { rowFactors: Float64Array; colFactors: Float64Array };
+  /** The baseline of this data and centering when already fitted (reused across settings). */
+  baseline?: Baseline;
+  /** Warm start for the two-way baseline's sweeps (e.g. the full data's offsets for a fold). */
+  baselineStart?: Baseline;
 }
 
 /**
@@ -377,7 +382,7 @@ function penalty(f: Float64Array, ptr: Int32Array, k: number, scaleByCount: bool
 
 /** F(U, V) as in the header. */
 export function lowRankObjective(
-  idx: ObservedIndex,
+  idx: SparseRatings,
   resRow: Float64Array,
   u: Float64Array,
   v: Float64Array,
@@ -425,35 +430,33 @@ function validate(s: LowRankSettings): void {
   if (!(s.tolerance >= 0)) throw new FitFailedError(`tolerance must be ≥ 0 (got ${s.tolerance})`);
 }
 
-export function fitLowRank(matrix: RatingMatrix, settings: LowRankSettings, opts: FitOptions = {}): FitResult {
+/**
+ * The low-rank fit on sparse storage: baselines, factors and trace, no per-cell layer
+ * (predictions are made where they are needed: predictCells, makePredictions).
+ */
+export function fitLowRankSparse(data: SparseRatings, settings: LowRankSettings, opts: FitOptions = {}): SparseFit {
   const t0 = nowMs();
   validate(settings);
-  const rows = matrix.rowLabels.length;
-  const cols = matrix.colLabels.length;
-  const values = matrix.values;
-  if (values.length !== rows * cols) throw new FitFailedError(`matrix has ${values.length} values for ${rows} × ${cols} cells`);
-  const bad = findNonFinite(values, cols);
+  const { rows, cols } = data;
+  const bad = findNonFiniteEntry(data);
   if (bad) throw new FitFailedError(`non-finite value at row ${bad.row + 1}, column ${bad.col + 1}`);
-  const idx = buildObservedIndex(values, rows, cols);
+  const idx = data;
   if (idx.n === 0) throw new FitFailedError('the matrix has no observed values');
   const k = settings.rank;
   const lambda = settings.lambda;
   const scaleByCount = settings.scaleLambdaByCount;
 
-  const base = fitBaseline(values, idx, settings.centering, settings.offsetLambda);
+  const base = opts.baseline ?? fitBaseline(data, settings.centering, settings.offsetLambda, opts.baselineStart);
   const resRow = new Float64Array(idx.n);
-  for (let p = 0; p < idx.n; p++) {
-    const cell = idx.rowCell[p];
-    const i = (cell / cols) | 0;
-    resRow[p] = values[cell] - base.rowBaseline[i] - base.colBaseline[idx.rowCol[p]];
+  for (let i = 0; i < rows; i++) {
+    const rb = base.rowBaseline[i];
+    for (let p = idx.rowPtr[i]; p < idx.rowPtr[i + 1]; p++) resRow[p] = idx.rowVal[p] - rb - base.colBaseline[idx.rowCol[p]];
   }
   const resCol = new Float64Array(idx.n);
-  for (let q = 0; q < idx.n; q++) {
-    const cell = idx.colCell[q];
-    const j = cell % cols;
-    resCol[q] = values[cell] - base.rowBaseline[idx.colRow[q]] - base.colBaseline[j];
+  for (let j = 0; j < cols; j++) {
+    const cb = base.colBaseline[j];
+    for (let q = idx.colPtr[j]; q < idx.colPtr[j + 1]; q++) resCol[q] = idx.colVal[q] - base.rowBaseline[idx.colRow[q]] - cb;
   }
-
   const trace: number[] = [];
   let iterations = 0;
   let converged = false;
@@ -508,18 +511,12 @@ export function fitLowRank(matrix: RatingMatrix, settings: LowRankSettings, opts
       }
     }
   }
-  const pred = makePredictions(rows, cols, base.rowBaseline, base.colBaseline, u, v, k, matrix.scale, settings.clipToScale, settings.snapToStep);
-  for (let c = 0; c < pred.predictions.length; c++) {
-    if (!Number.isFinite(pred.predictions[c])) {
-      throw new FitFailedError(`the fit produced a non-finite prediction at row ${Math.floor(c / cols) + 1}, column ${(c % cols) + 1}`);
-    }
-  }
+  for (let t = 0; t < u.length; t++) if (!Number.isFinite(u[t])) throw new FitFailedError(`the fit produced a non-finite factor for row ${Math.floor(t / k) + 1}`);
+  for (let t = 0; t < v.length; t++) if (!Number.isFinite(v[t])) throw new FitFailedError(`the fit produced a non-finite factor for column ${Math.floor(t / k) + 1}`);
   return {
     settings: { ...settings },
     rows,
     cols,
-    predictions: pred.predictions,
-    baseline: pred.baseline,
     rowBaseline: base.rowBaseline,
     colBaseline: base.colBaseline,
     globalMean: base.globalMean,
@@ -531,4 +528,24 @@ export function fitLowRank(matrix: RatingMatrix, settings: LowRankSettings, opts
     converged,
     elapsedMs: nowMs() - t0,
   };
+}
+
+/** The low-rank fit of a dense matrix, with the per-cell layers the window draws. */
+export function fitLowRank(matrix: RatingMatrix, settings: LowRankSettings, opts: FitOptions = {}): FitResult {
+  const t0 = nowMs();
+  validate(settings);
+  const rows = matrix.rowLabels.length;
+  const cols = matrix.colLabels.length;
+  const values = matrix.values;
+  if (values.length !== rows * cols) throw new FitFailedError(`matrix has ${values.length} values for ${rows} × ${cols} cells`);
+  const bad = findNonFinite(values, cols);
+  if (bad) throw new FitFailedError(`non-finite value at row ${bad.row + 1}, column ${bad.col + 1}`);
+  const fit = fitLowRankSparse(sparseFromDense(values, rows, cols), settings, opts);
+  const pred = makePredictions(rows, cols, fit.rowBaseline, fit.colBaseline, fit.rowFactors, fit.colFactors, fit.rank, matrix.scale, settings.clipToScale, settings.snapToStep);
+  for (let c = 0; c < pred.predictions.length; c++) {
+    if (!Number.isFinite(pred.predictions[c])) {
+      throw new FitFailedError(`the fit produced a non-finite prediction at row ${Math.floor(c / cols) + 1}, column ${(c % cols) + 1}`);
+    }
+  }
+  return { ...fit, predictions: pred.predictions, baseline: pred.baseline, elapsedMs: nowMs() - t0 };
 }

@@ -6,9 +6,53 @@
  *     snapped:  min + round((x − min)/step)·step   (only when step > 0)
  *     clipped:  min(max(x, scale.min), scale.max)
  * The filled matrix keeps observed values and takes the prediction elsewhere.
+ * A job on sparse storage predicts only the cells it needs (predictCells: the held-out
+ * cells of a fold; predictRow: one row at a time into a reused buffer).
  */
 import type { RatingMatrix, RatingScale } from '../matrix/ratingMatrix';
-import type { FitResult } from './types';
+import type { FitResult, SparseFit } from './types';
+
+/** Whether the settings ask for clipping / snapping (the Gaussian family has the same two flags). */
+function clipSnapFlags(fit: SparseFit): { clip: boolean; snap: boolean } {
+  return { clip: fit.settings.clipToScale, snap: fit.settings.snapToStep };
+}
+
+/** p_c for the cells (rowIdx[t], colIdx[t]), t < count, into out[t]. */
+export function predictCells(
+  fit: SparseFit,
+  scale: RatingScale,
+  rowIdx: Int32Array,
+  colIdx: Int32Array,
+  out: Float64Array,
+  count = rowIdx.length,
+): Float64Array {
+  const { rowBaseline, colBaseline, rowFactors: u, colFactors: v, rank: k } = fit;
+  const { clip, snap } = clipSnapFlags(fit);
+  for (let t = 0; t < count; t++) {
+    const i = rowIdx[t];
+    const j = colIdx[t];
+    const ui = i * k;
+    const vj = j * k;
+    let dot = 0;
+    for (let c = 0; c < k; c++) dot += u[ui + c] * v[vj + c];
+    out[t] = clipSnap(rowBaseline[i] + colBaseline[j] + dot, scale, clip, snap);
+  }
+  return out;
+}
+
+/** Row i's predictions for every column into out (length cols). */
+export function predictRow(fit: SparseFit, scale: RatingScale, i: number, out: Float64Array): void {
+  const { rowBaseline, colBaseline, rowFactors: u, colFactors: v, rank: k, cols } = fit;
+  const { clip, snap } = clipSnapFlags(fit);
+  const rb = rowBaseline[i];
+  const ui = i * k;
+  for (let j = 0; j < cols; j++) {
+    const vj = j * k;
+    let dot = 0;
+    for (let c = 0; c < k; c++) dot += u[ui + c] * v[vj + c];
+    out[j] = clipSnap(rb + colBaseline[j] + dot, scale, clip, snap);
+  }
+}
 
 export function clipSnap(x: number, scale: RatingScale, clip: boolean, snap: boolean): number {
   let y = x;

@@ -19,7 +19,7 @@
  * u·v starts on the scale of the residuals.
  */
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
-import type { ObservedIndex } from './observed';
+import type { SparseRatings } from '../matrix/sparseRatings';
 import { createRng, type Rng } from './random';
 
 /** Modified Gram–Schmidt on the k columns of a row-major n × k matrix, in place. */
@@ -48,7 +48,7 @@ function orthonormalizeColumns(x: Float64Array, n: number, k: number, rng: Rng):
 }
 
 /** out (rows × k) = A X, A = residuals/p in row-compressed form, X cols × k. */
-function multiplyA(idx: ObservedIndex, resRow: Float64Array, invP: number, x: Float64Array, k: number, out: Float64Array): void {
+function multiplyA(idx: SparseRatings, resRow: Float64Array, invP: number, x: Float64Array, k: number, out: Float64Array): void {
   out.fill(0);
   const { rows, rowPtr, rowCol } = idx;
   for (let i = 0; i < rows; i++) {
@@ -62,7 +62,7 @@ function multiplyA(idx: ObservedIndex, resRow: Float64Array, invP: number, x: Fl
 }
 
 /** out (cols × k) = Aᵀ Y, using the row-compressed form. */
-function multiplyAt(idx: ObservedIndex, resRow: Float64Array, invP: number, y: Float64Array, k: number, out: Float64Array): void {
+function multiplyAt(idx: SparseRatings, resRow: Float64Array, invP: number, y: Float64Array, k: number, out: Float64Array): void {
   out.fill(0);
   const { rows, rowPtr, rowCol } = idx;
   for (let i = 0; i < rows; i++) {
@@ -81,7 +81,7 @@ export interface Factors {
 }
 
 export function spectralStart(
-  idx: ObservedIndex,
+  idx: SparseRatings,
   resRow: Float64Array,
   k: number,
   seed: number,
@@ -143,7 +143,7 @@ export function spectralStart(
   return { rowFactors, colFactors };
 }
 
-export function randomStart(idx: ObservedIndex, resRow: Float64Array, k: number, seed: number): Factors {
+export function randomStart(idx: SparseRatings, resRow: Float64Array, k: number, seed: number): Factors {
   const rng = createRng(seed);
   let meanAbs = 0;
   for (let p = 0; p < idx.n; p++) meanAbs += Math.abs(resRow[p]);

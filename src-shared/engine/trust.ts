@@ -2,7 +2,9 @@
  * Per-cell trust: how much a cell's prediction moves when the data it was fitted on
  * changes, plus how much data supports it.
  *
- * Ensemble of M fits (all through fitModel, same settings):
+ * Ensemble of M fits (all through fitModelSparse on the sparse storage of the observed
+ * cells, same settings; training sets are built by index, and each fit's predictions are
+ * made one row at a time into one reused buffer):
  *   folds:     the k cross-validation training sets (each hides one fold), M = k;
  *   bootstrap: B refits, each on the observed cells drawn n times with replacement
  *              (seeded); a matrix holds one value per cell, so a cell drawn several
@@ -17,9 +19,11 @@
  * difficulty scale σ̂ per blank cell (the math is in intervals.ts). No extra fits.
  */
 import type { RatingMatrix } from '../matrix/ratingMatrix';
+import { denseValues, isSparseMatrix, sparseSubset, toSparseMatrix, type SparseMatrix } from '../matrix/sparseRatings';
 import type { FitResult, FitSettings } from './types';
-import { fitModel } from './fitModel';
-import { makeFolds, trainingMatrix } from './crossValidation';
+import { fitModelSparse } from './fitModel';
+import { cellFolds, makeFolds } from './crossValidation';
+import { predictRow } from './predictions';
 import { createRng } from './random';
 import { calibrateIntervals, EnsembleSpread, HeldOutCollector, type IntervalCalibration } from './cellIntervals';
 
@@ -42,16 +46,6 @@ export interface TrustProgressOptions {
   shouldStop?: () => boolean;
   /** The fit on all observed cells: when given (folds method), intervals are calibrated too. */
   full?: FitResult;
-}
-
-function bootstrapMatrix(matrix: RatingMatrix, cells: Int32Array, rng: ReturnType<typeof createRng>): RatingMatrix {
-  const values = new Float64Array(matrix.values.length).fill(NaN);
-  const n = cells.length;
-  for (let t = 0; t < n; t++) {
-    const c = cells[rng.int(n)];
-    values[c] = matrix.values[c];
-  }
-  return { rowLabels: matrix.rowLabels, colLabels: matrix.colLabels, values, scale: matrix.scale };
 }
 
 /** Observed cells per row and per column, and the rows/columns whose support is below `threshold`. */
@@ -86,38 +80,52 @@ export function weakThreshold(settings: FitSettings): number {
 }
 
 export function cellTrust(
-  matrix: RatingMatrix,
+  matrix: RatingMatrix | SparseMatrix,
   settings: FitSettings,
   options: TrustOptions,
   progress: TrustProgressOptions = {},
 ): CellTrust {
-  const rows = matrix.rowLabels.length;
-  const cols = matrix.colLabels.length;
-  const values = matrix.values;
-  const { rowSupport, colSupport, weakRows, weakCols, observed: n } = supportOf(values, rows, cols, weakThreshold(settings));
+  const sm = toSparseMatrix(matrix);
+  const data = sm.data;
+  const { rows, cols, n } = data;
+  const rowSupport = new Int32Array(rows);
+  const colSupport = new Int32Array(cols);
+  for (let i = 0; i < rows; i++) rowSupport[i] = data.rowPtr[i + 1] - data.rowPtr[i];
+  for (let j = 0; j < cols; j++) colSupport[j] = data.colPtr[j + 1] - data.colPtr[j];
+  const threshold = weakThreshold(settings);
+  const weakRows: number[] = [];
+  const weakCols: number[] = [];
+  for (let i = 0; i < rows; i++) if (rowSupport[i] < threshold) weakRows.push(i);
+  for (let j = 0; j < cols; j++) if (colSupport[j] < threshold) weakCols.push(j);
   const m = options.method === 'folds' ? options.k : options.B;
   if (!Number.isInteger(m) || m < 2) throw new Error(`trust needs an ensemble of at least 2 fits (got ${m})`);
   const ensemble = new EnsembleSpread(rows * cols);
-  const foldsOrCells =
-    options.method === 'folds' ? makeFolds(matrix, options.k, options.seed) : undefined;
-  const cells = new Int32Array(n);
-  if (options.method === 'bootstrap') {
-    let t = 0;
-    for (let c = 0; c < values.length; c++) if (values[c] === values[c]) cells[t++] = c;
-  }
+  const folds = options.method === 'folds' ? makeFolds(sm, options.k, options.seed) : undefined;
   const rng = createRng(options.seed);
-  const heldOut = foldsOrCells && progress.full ? new HeldOutCollector(values, foldsOrCells.foldOf, foldsOrCells.k) : undefined;
+  const drawn = new Int32Array(n);
+  const values = folds && progress.full ? (isSparseMatrix(matrix) ? denseValues(data) : matrix.values) : undefined;
+  const heldOut = folds && values ? new HeldOutCollector(values, cellFolds(sm, folds), folds.k) : undefined;
+  // One dense buffer for a member's predictions, filled row by row (the spread is per cell anyway).
+  const p = new Float64Array(rows * cols);
   for (let e = 0; e < m; e++) {
-    const train = foldsOrCells ? trainingMatrix(matrix, foldsOrCells, e) : bootstrapMatrix(matrix, cells, rng);
-    const fit = fitModel(train, settings, { shouldStop: progress.shouldStop });
-    const p = fit.predictions;
-    heldOut?.add(e, p, fit.spread);
+    let train: SparseMatrix;
+    if (folds) train = { ...sm, data: sparseSubset(data, folds.foldOf, e) };
+    else {
+      // A matrix holds one value per cell: a cell drawn several times counts once.
+      drawn.fill(0);
+      for (let t = 0; t < n; t++) drawn[rng.int(n)] = 1;
+      train = { ...sm, data: sparseSubset(data, drawn, 0) };
+    }
+    const fit = fitModelSparse(train, settings, { shouldStop: progress.shouldStop });
+    if ('predictions' in fit) p.set(fit.predictions);
+    else for (let i = 0; i < rows; i++) predictRow(fit, sm.scale, i, p.subarray(i * cols, (i + 1) * cols));
+    heldOut?.add(e, p, 'spread' in fit ? fit.spread : undefined);
     ensemble.add(p);
     progress.onProgress?.({ done: e + 1, total: m });
   }
   const spread = ensemble.spread();
   const intervals =
-    heldOut && progress.full
+    heldOut && values && progress.full
       ? calibrateIntervals(heldOut, { rows, cols, values, family: settings.model, ensembleSpread: spread, ownSpread: progress.full.spread })
       : undefined;
   return { spread, rowSupport, colSupport, weakRows, weakCols, ...(intervals ? { intervals } : {}) };

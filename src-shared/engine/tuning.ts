@@ -13,12 +13,16 @@
  *           Friedman, The Elements of Statistical Learning, §7.10). The family itself is the
  *           one with the lowest mean RMSE: cross-validation chooses between families.
  * A setting whose fit fails is kept in the table with its error and NaN metrics.
+ * The work is one task per fold (foldTask.ts), each fitting every setting with reuse of
+ * baselines, spectral starts and warm starts along λ; tasks may run in parallel (the hosts'
+ * worker pool) and the table is assembled in fold order, so it does not depend on that.
  */
 import type { RatingMatrix } from '../matrix/ratingMatrix';
+import { toSparseMatrix, type SparseMatrix } from '../matrix/sparseRatings';
 import type { Centering, FitSettings, GaussianSettings, LowRankSettings } from './types';
-import { crossValidate, makeFolds, type FoldScore } from './crossValidation';
+import { makeFolds, summarizeFolds, type FoldScore } from './crossValidation';
+import { runFoldTask, type FoldOutcome } from './foldTask';
 import { defaultLowRankSettings } from './defaults';
-import { FitCancelledError } from './errors';
 import { simplerLowRank } from './tuningGrid';
 
 export interface LowRankGridSpec {
@@ -107,32 +111,51 @@ export function chooseFromTable(table: TuneRow[], k: number): Omit<TuneResult, '
   return { bestIndex, best, threshold, oneStandardErrorIndex: pick, oneStandardError: table[pick] };
 }
 
+/** The table from per-fold outcomes (outcomes[f][s]: fold f, setting s). */
+export function tableFromOutcomes(list: FitSettings[], outcomes: FoldOutcome[][]): TuneRow[] {
+  return list.map((settings, s) => {
+    const scores: FoldScore[] = [];
+    for (const perFold of outcomes) {
+      const o = perFold[s];
+      if ('error' in o) {
+        return { settings, meanRmse: NaN, sdRmse: NaN, meanMae: NaN, sdMae: NaN, folds: [], error: o.error.message };
+      }
+      scores.push(o.score);
+    }
+    return { settings, ...summarizeFolds(scores) };
+  });
+}
+
+export interface TuneOptions {
+  /** Share starts across ranks and λ (default true); false fits every setting cold. */
+  reuse?: boolean;
+}
+
 export function tune(
-  matrix: RatingMatrix,
+  matrix: RatingMatrix | SparseMatrix,
   grid: TuneGrid,
   k: number,
   seed: number,
   onProgress?: (p: TuneProgress) => void,
   shouldStop?: () => boolean,
+  opts: TuneOptions = {},
 ): TuneResult {
   const list = gridSettings(grid);
   if (list.length === 0) throw new Error('the tuning grid is empty');
-  const folds = makeFolds(matrix, k, seed);
-  const table: TuneRow[] = [];
+  const m = toSparseMatrix(matrix);
+  const folds = makeFolds(m, k, seed);
   const total = list.length * k;
-  for (let s = 0; s < list.length; s++) {
-    const settings = list[s];
-    try {
-      const cv = crossValidate(matrix, settings, folds, {
+  let done = 0;
+  const outcomes: FoldOutcome[][] = [];
+  for (let f = 0; f < k; f++) {
+    outcomes.push(
+      runFoldTask(m, folds, f, list, {
         shouldStop,
-        onProgress: onProgress ? (p) => { if (p.fit === undefined) onProgress({ done: s * k + p.done, total }); } : undefined,
-      });
-      table.push({ settings, ...cv });
-    } catch (err) {
-      if (err instanceof FitCancelledError) throw err;
-      table.push({ settings, meanRmse: NaN, sdRmse: NaN, meanMae: NaN, sdMae: NaN, folds: [], error: (err as Error).message });
-      onProgress?.({ done: (s + 1) * k, total });
-    }
+        reuse: opts.reuse ?? true,
+        onSettingDone: onProgress ? () => onProgress({ done: ++done, total }) : undefined,
+      }),
+    );
   }
+  const table = tableFromOutcomes(list, outcomes);
   return { k, seed, table, ...chooseFromTable(table, k) };
 }

@@ -31,7 +31,7 @@
  */
 import type { Centering, LowRankSettings } from './types';
 import type { RatingMatrix } from '../matrix/ratingMatrix';
-import { buildObservedIndex } from './observed';
+import { toSparseMatrix, type SparseMatrix } from '../matrix/sparseRatings';
 import { fitBaseline } from './baseline';
 
 export interface GridDataSummary {
@@ -77,19 +77,19 @@ export function topSingularValue(rows: number, cols: number, rowPtr: Int32Array,
 
 export const RANK_LADDER: readonly number[] = [1, 2, 3, 5, 8, 12, 16, 20];
 
-export function summarizeForGrid(matrix: RatingMatrix): GridDataSummary {
-  const rows = matrix.rowLabels.length;
-  const cols = matrix.colLabels.length;
-  const idx = buildObservedIndex(matrix.values, rows, cols);
+export function summarizeForGrid(matrix: RatingMatrix | SparseMatrix): GridDataSummary {
+  const idx = toSparseMatrix(matrix).data;
+  const { rows, cols } = idx;
   if (idx.n === 0) return { rows, cols, observed: 0, residualRms: 0 };
-  const base = fitBaseline(matrix.values, idx, 'both', 5);
+  const base = fitBaseline(idx, 'both', 5);
   let ss = 0;
   const res = new Float64Array(idx.n);
-  for (let p = 0; p < idx.n; p++) {
-    const cell = idx.rowCell[p];
-    const r = matrix.values[cell] - base.rowBaseline[(cell / cols) | 0] - base.colBaseline[idx.rowCol[p]];
-    res[p] = r;
-    ss += r * r;
+  for (let i = 0; i < rows; i++) {
+    for (let p = idx.rowPtr[i]; p < idx.rowPtr[i + 1]; p++) {
+      const r = idx.rowVal[p] - base.rowBaseline[i] - base.colBaseline[idx.rowCol[p]];
+      res[p] = r;
+      ss += r * r;
+    }
   }
   return { rows, cols, observed: idx.n, residualRms: Math.sqrt(ss / idx.n), topSingular: topSingularValue(rows, cols, idx.rowPtr, idx.rowCol, res) };
 }

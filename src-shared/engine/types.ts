@@ -46,15 +46,14 @@ export interface FitProgress {
   elapsedMs: number;
 }
 
-/** The model's output: a separate layer, never mixed into the observed values. */
-export interface FitResult {
+/**
+ * A fitted model without per-cell layers (what jobs on sparse storage produce): the
+ * prediction of any cell follows from the baselines and factors (predictions.ts).
+ */
+export interface SparseFit {
   settings: FitSettings;
   rows: number;
   cols: number;
-  /** Row-major predictions for every cell (clipped/snapped per settings). */
-  predictions: Float64Array;
-  /** Row-major baseline b_ij for every cell (0 under centering none). */
-  baseline: Float64Array;
   /** Per-row baseline (row mean or global + row offset); length rows. */
   rowBaseline: Float64Array;
   /** Per-column baseline (column mean or column offset); length cols; zeros when unused. */
@@ -69,6 +68,14 @@ export interface FitResult {
   iterations: number;
   converged: boolean;
   elapsedMs: number;
+}
+
+/** The model's output: a separate layer, never mixed into the observed values. */
+export interface FitResult extends SparseFit {
+  /** Row-major predictions for every cell (clipped/snapped per settings). */
+  predictions: Float64Array;
+  /** Row-major baseline b_ij for every cell (0 under centering none). */
+  baseline: Float64Array;
   /** Row-major per-cell spread (std. dev.) when computed; NaN where unknown. */
   spread?: Float64Array;
   /** Gaussian family: the fitted covariance Σ of the variables (p × p, row-major), as used for the conditional means. */

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { crossValidate, makeFolds } from '../../../src-shared/engine/crossValidation';
+import { cellFolds, crossValidate, makeFolds } from '../../../src-shared/engine/crossValidation';
 import { defaultLowRankSettings } from '../../../src-shared/engine/defaults';
 import { lowRankCase, matrixOf } from './helpers';
 
@@ -7,6 +7,7 @@ describe('makeFolds', () => {
   const { matrix } = lowRankCase(40, 25, 2, 0.3, 0.15, 31);
   const k = 5;
   const folds = makeFolds(matrix, k, 7);
+  const foldOf = cellFolds(matrix, folds);
 
   it('puts every observed cell in exactly one fold and no missing cell in any', () => {
     // Source: definition of k-fold cross-validation (a partition of the observed cells).
@@ -14,8 +15,8 @@ describe('makeFolds', () => {
     for (let c = 0; c < matrix.values.length; c++) {
       const obs = matrix.values[c] === matrix.values[c];
       if (obs) n++;
-      expect(folds.foldOf[c] >= 0).toBe(obs);
-      expect(folds.foldOf[c]).toBeLessThan(k);
+      expect(foldOf[c] >= 0).toBe(obs);
+      expect(foldOf[c]).toBeLessThan(k);
     }
     expect(folds.sizes.reduce((a, b) => a + b, 0)).toBe(n);
     // Balanced: round-robin sizes are within one, the repair moves only a few cells.
@@ -31,7 +32,7 @@ describe('makeFolds', () => {
         let obs = 0;
         let train = 0;
         for (let j = 0; j < cols; j++) {
-          const fo = folds.foldOf[i * cols + j];
+          const fo = foldOf[i * cols + j];
           if (fo >= 0) obs++;
           if (fo >= 0 && fo !== f) train++;
         }
@@ -41,7 +42,7 @@ describe('makeFolds', () => {
         let obs = 0;
         let train = 0;
         for (let i = 0; i < rows; i++) {
-          const fo = folds.foldOf[i * cols + j];
+          const fo = foldOf[i * cols + j];
           if (fo >= 0) obs++;
           if (fo >= 0 && fo !== f) train++;
         }
@@ -64,6 +65,7 @@ describe('crossValidate', () => {
     const rows = 30;
     const cols = 8;
     const folds = makeFolds(matrix, 4, 3);
+    const foldOf = cellFolds(matrix, folds);
     const cv = crossValidate(matrix, { ...defaultLowRankSettings(), rank: 0, centering: 'column', clipToScale: false }, folds);
     const rmses: number[] = [];
     for (let f = 0; f < 4; f++) {
@@ -75,14 +77,14 @@ describe('crossValidate', () => {
         let m = 0;
         for (let i = 0; i < rows; i++) {
           const c = i * cols + j;
-          if (folds.foldOf[c] >= 0 && folds.foldOf[c] !== f) {
+          if (foldOf[c] >= 0 && foldOf[c] !== f) {
             s += matrix.values[c];
             m++;
           }
         }
         for (let i = 0; i < rows; i++) {
           const c = i * cols + j;
-          if (folds.foldOf[c] === f) {
+          if (foldOf[c] === f) {
             const e = s / m - matrix.values[c];
             se += e * e;
             ae += Math.abs(e);

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { cellTrust } from '../../../src-shared/engine/trust';
-import { makeFolds } from '../../../src-shared/engine/crossValidation';
+import { cellFolds, makeFolds } from '../../../src-shared/engine/crossValidation';
 import { defaultLowRankSettings } from '../../../src-shared/engine/defaults';
 import { lowRankCase } from './helpers';
 
@@ -13,7 +13,7 @@ describe('cellTrust', () => {
     const cols = 6;
     const settings = { ...defaultLowRankSettings(), rank: 0, centering: 'column' as const, clipToScale: false };
     const trust = cellTrust(matrix, settings, { method: 'folds', k: 5, seed: 4 });
-    const folds = makeFolds(matrix, 5, 4);
+    const foldOf = cellFolds(matrix, makeFolds(matrix, 5, 4));
     for (let j = 0; j < cols; j++) {
       const means: number[] = [];
       for (let f = 0; f < 5; f++) {
@@ -21,7 +21,7 @@ describe('cellTrust', () => {
         let m = 0;
         for (let i = 0; i < rows; i++) {
           const c = i * cols + j;
-          if (folds.foldOf[c] >= 0 && folds.foldOf[c] !== f) {
+          if (foldOf[c] >= 0 && foldOf[c] !== f) {
             s += matrix.values[c];
             m++;
           }
