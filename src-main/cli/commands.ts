@@ -19,6 +19,8 @@ import { buildExport, buildMask, buildSidecar, matrixFingerprintText, sidecarInt
 import { cellTrust } from '../../src-shared/engine/trust';
 import { intervalsAtLevel, type IntervalsAtLevel } from '../../src-shared/engine/cellIntervals';
 import { DEFAULT_INTERVAL_LEVEL, INTERVAL_METHOD } from '../../src-shared/engine/intervals';
+import { isSparseMatrix, toDenseMatrix, toSparseMatrix, type SparseMatrix } from '../../src-shared/matrix/sparseRatings';
+import { GAUSSIAN_MAX_VARIABLES } from '../../src-shared/engine/gaussian/limits';
 import { maskPathFor, sidecarPathFor } from '../services/exportPaths';
 import type { CliOptions, FillLayout } from './args';
 import { appVersion } from './version';
@@ -59,7 +61,8 @@ export function fillOutputs(o: CliOptions): string[] {
   return [out, ...(o.sidecar ? [sidecarPathFor(out)] : []), ...(o.mask ? [maskPathFor(out)] : [])];
 }
 
-export function runFill(o: CliOptions, m: RatingMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
+export function runFill(o: CliOptions, input: RatingMatrix | SparseMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
+  const m = isSparseMatrix(input) ? toDenseMatrix(input) : input;
   const outputs = fillOutputs(o);
   const existing = o.force ? undefined : outputs.find((p) => existsSync(p));
   if (existing !== undefined) {
@@ -177,9 +180,10 @@ function intervalLines(iv: IntervalsAtLevel, long: boolean): string[] {
   ];
 }
 
-export function runEvaluate(o: CliOptions, m: RatingMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
+export function runEvaluate(o: CliOptions, input: RatingMatrix | SparseMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
   const settings = fitSettingsFromOptions(o);
   const t0 = performance.now();
+  const m = toSparseMatrix(input);
   const folds = makeFolds(m, o.folds, settings.seed);
   const level = o.level ?? DEFAULT_INTERVAL_LEVEL;
   const cv = crossValidate(m, settings, folds, { intervalLevels: [level] });
@@ -243,7 +247,18 @@ function fillArguments(s: FitSettings): string[] {
  * when it accepts the matrix and the panel is tall (at least 2 rows per variable: below that
  * its p(p+3)/2 means and covariances are poorly determined).
  */
-function tuneFamilies(o: CliOptions, m: RatingMatrix): { families: ModelFamily[]; skipped: { model: ModelFamily; reason: string }[] } {
+/**
+ * What gaussianRefusal reads: too many variables is decided on the shape alone (no values
+ * needed); otherwise the Gaussian block is small enough to make dense.
+ */
+function denseForGaussian(m: RatingMatrix | SparseMatrix, transpose: boolean): RatingMatrix {
+  if (!isSparseMatrix(m)) return m;
+  const p = transpose ? m.rowLabels.length : m.colLabels.length;
+  if (p > GAUSSIAN_MAX_VARIABLES) return { rowLabels: m.rowLabels, colLabels: m.colLabels, scale: m.scale, values: new Float64Array(0) };
+  return toDenseMatrix(m);
+}
+
+function tuneFamilies(o: CliOptions, m: RatingMatrix | SparseMatrix): { families: ModelFamily[]; skipped: { model: ModelFamily; reason: string }[] } {
   const asked = o.models ?? ['lowrank', 'gaussian'];
   const families: ModelFamily[] = [];
   const skipped: { model: ModelFamily; reason: string }[] = [];
@@ -252,7 +267,7 @@ function tuneFamilies(o: CliOptions, m: RatingMatrix): { families: ModelFamily[]
       families.push(f);
       continue;
     }
-    const refusal = gaussianRefusal(m, o.transpose);
+    const refusal = gaussianRefusal(denseForGaussian(m, o.transpose), o.transpose);
     const n = o.transpose ? m.colLabels.length : m.rowLabels.length;
     const p = o.transpose ? m.rowLabels.length : m.colLabels.length;
     if (refusal !== undefined) skipped.push({ model: 'gaussian', reason: refusal });
@@ -266,8 +281,9 @@ function tuneFamilies(o: CliOptions, m: RatingMatrix): { families: ModelFamily[]
   return { families, skipped };
 }
 
-export function runTune(o: CliOptions, m: RatingMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
+export function runTune(o: CliOptions, input: RatingMatrix | SparseMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
   const base = settingsFromOptions(o);
+  const m = toSparseMatrix(input);
   const { families, skipped } = tuneFamilies(o, m);
   if (families.length === 0) throw new FitFailedError(skipped.map((x) => x.reason).join(' '));
   const gaussians: FitSettings[] = [];

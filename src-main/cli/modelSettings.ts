@@ -35,7 +35,7 @@ export function fitSettingsFromOptions(o: CliOptions): FitSettings {
 }
 
 /** The matrix with the scale from --scale, or the observed min and max (step as detected). */
-export function withScale(m: RatingMatrix, o: CliOptions): RatingMatrix {
+export function withScale<T extends Pick<RatingMatrix, 'scale'>>(m: T, o: CliOptions): T {
   if (!o.scale) return m;
   return { ...m, scale: { min: o.scale.min, max: o.scale.max, step: o.scale.step ?? 0 } };
 }

@@ -9,6 +9,7 @@ import { tune } from '../../src-shared/engine/tuning';
 import { cellTrust } from '../../src-shared/engine/trust';
 import { FitCancelledError } from '../../src-shared/engine/errors';
 import type { RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
+import { toSparseMatrix } from '../../src-shared/matrix/sparseRatings';
 import type { FitJobResult, JobMessage, ProgressPayload, WorkerMessage } from './fitProtocol';
 
 export const PROGRESS_INTERVAL_MS = 50;
@@ -69,8 +70,9 @@ export function runJob(msg: JobMessage, post: (m: WorkerMessage, transfer?: Arra
       if (shouldStop()) throw new FitCancelledError();
       post({ type: 'result', jobId, payload: result }, transferables(result));
     } else if (request.kind === 'evaluate') {
-      const folds = makeFolds(matrix, request.k, request.seed);
-      const cv = crossValidate(matrix, request.settings, folds, {
+      const sparse = toSparseMatrix(matrix);
+      const folds = makeFolds(sparse, request.k, request.seed);
+      const cv = crossValidate(sparse, request.settings, folds, {
         shouldStop,
         onProgress: (p) => { if (p.fit === undefined) steps(p); },
       });

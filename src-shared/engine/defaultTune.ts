@@ -14,6 +14,7 @@
  * (chooseFromTable: smaller rank is simpler, then larger λ).
  */
 import type { RatingMatrix } from '../matrix/ratingMatrix';
+import type { SparseMatrix } from '../matrix/sparseRatings';
 import type { Centering, FitSettings, LowRankSettings } from './types';
 import { defaultLowRankSettings } from './defaults';
 import { chooseFromTable, tune, type TuneProgress, type TuneResult, type TuneRow } from './tuning';
@@ -58,7 +59,7 @@ export function coarseSettings(ranks: number[], lambdas: number[], centerings: C
 
 const ALL_CENTERINGS: Centering[] = ['none', 'row', 'column', 'both'];
 
-export function tuneDefault(matrix: RatingMatrix, o: DefaultTuneOptions): DefaultTuneResult {
+export function tuneDefault(matrix: RatingMatrix | SparseMatrix, o: DefaultTuneOptions): DefaultTuneResult {
   const grid = defaultGrid(matrix, o.centerings ?? ['both']);
   if (o.ranks) grid.ranks = [...o.ranks];
   if (o.lambdas) grid.lambdas = [...o.lambdas].sort((a, b) => a - b);

@@ -165,7 +165,7 @@ export interface DefaultGrid {
 }
 
 /** The coarse default grid for a matrix (refinement comes after its first pass). */
-export function defaultGrid(matrix: RatingMatrix, centerings: Centering[] = ['both']): DefaultGrid {
+export function defaultGrid(matrix: RatingMatrix | SparseMatrix, centerings: Centering[] = ['both']): DefaultGrid {
   const summary = summarizeForGrid(matrix);
   return {
     ranks: defaultRanks(summary),
