@@ -191,7 +191,8 @@ export function runEvaluate(o: CliOptions, input: RatingMatrix | SparseMatrix, t
   const iv = cv.intervals?.[0];
   // Two fits on all the data, seeds s and s + 1 (engine/seedStability.ts).
   const ts = performance.now();
-  const stability = seedStability(m, settings);
+  // Made dense here only: the comparison covers every filled cell.
+  const stability = seedStability(isSparseMatrix(input) ? toDenseMatrix(input) : input, settings);
   timings.seedStabilityMs = performance.now() - ts;
   const table = cv.folds.map((f, t) => ({
     fold: t + 1,

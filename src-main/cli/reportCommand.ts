@@ -20,6 +20,7 @@ import { defaultLowRankSettings } from '../../src-shared/engine/defaults';
 import { expandLowRankGrid, tune } from '../../src-shared/engine/tuning';
 import { defaultGrid } from '../../src-shared/engine/tuningGrid';
 import type { FitSettings, LowRankSettings } from '../../src-shared/engine/types';
+import { isSparseMatrix, toDenseMatrix } from '../../src-shared/matrix/sparseRatings';
 import { buildExport, buildSidecar, matrixFingerprintText, sidecarIntervals, type ExportOptions } from '../../src-shared/io/exportFilled';
 import { observedCount, type RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
 import { formatProblem } from '../../src-shared/io';
@@ -87,7 +88,9 @@ function loadProject(o: CliOptions): Loaded | CommandOutput {
 function loadRatings(o: CliOptions): Loaded | CommandOutput {
   const read = readMatrix(o.input, o.long);
   if (!read.ok) return { code: 2, stdout: [], stderr: read.messages };
-  return { matrix: withScale(read.matrix, o), settings: fitSettingsFromOptions(o), runLabel: 'Command-line run', warnings: read.warnings, choose: !o.modelOptionsGiven };
+  // The report draws the whole matrix, so a sparse read is made dense here.
+  const matrix = isSparseMatrix(read.matrix) ? toDenseMatrix(read.matrix) : read.matrix;
+  return { matrix: withScale(matrix, o), settings: fitSettingsFromOptions(o), runLabel: 'Command-line run', warnings: read.warnings, choose: !o.modelOptionsGiven };
 }
 
 /** The published sources of the interval method (see the comment at the top of engine/intervals.ts). */

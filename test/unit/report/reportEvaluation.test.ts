@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { defaultLowRankSettings } from '../../../src-shared/engine/defaults';
 import { defaultGaussianSettings } from '../../../src-shared/engine/gaussian/settings';
-import { makeFolds } from '../../../src-shared/engine/crossValidation';
+import { cellFolds, makeFolds } from '../../../src-shared/engine/crossValidation';
 import { tune } from '../../../src-shared/engine/tuning';
 import { createRng } from '../../../src-shared/engine/random';
 import type { RatingMatrix } from '../../../src-shared/matrix/ratingMatrix';
@@ -30,7 +30,7 @@ describe('report evaluation: the run beside the baselines alone', () => {
     const m: RatingMatrix = { rowLabels: Array.from({ length: rows }, (_, i) => `r${i}`), colLabels: Array.from({ length: cols }, (_, j) => `c${j}`), values, scale: { min: 1, max: 7, step: 1 } };
     const settings = reportEvaluationSettings(defaultLowRankSettings());
     const result = tune(m, { settings }, 5, 1);
-    const folds = makeFolds(m, 5, 1);
+    const foldOf = cellFolds(m, makeFolds(m, 5, 1));
     const expected: number[] = [];
     for (let f = 0; f < 5; f++) {
       let se = 0;
@@ -40,14 +40,14 @@ describe('report evaluation: the run beside the baselines alone', () => {
         let cnt = 0;
         for (let j = 0; j < cols; j++) {
           const c = i * cols + j;
-          if (values[c] === values[c] && folds.foldOf[c] !== f) {
+          if (values[c] === values[c] && foldOf[c] !== f) {
             sum += values[c];
             cnt++;
           }
         }
         for (let j = 0; j < cols; j++) {
           const c = i * cols + j;
-          if (folds.foldOf[c] !== f) continue;
+          if (foldOf[c] !== f) continue;
           const pred = sum / cnt; // every row keeps a training value (fold repair)
           se += (pred - values[c]) ** 2;
           n++;
