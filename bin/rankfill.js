@@ -1,20 +1,25 @@
 #!/usr/bin/env node
 'use strict';
-// `rankfill` command line. Runs the TypeScript sources directly (no build step): tsx's
-// CommonJS hook is registered in-process and src-main/cli/main.ts is required.
-// Output and exit codes: see src-main/cli/main.ts.
+// `rankfill` command line. Runs the built bundle out/cli/rankfill.js (made by
+// `npm run build:cli`, which `npm run build` and `npm test` include), so no TypeScript is
+// compiled at start. Output and exit codes: see src-main/cli/main.ts.
 const path = require('node:path');
 
-let runCli;
+const bundle = path.join(__dirname, '..', 'out', 'cli', 'rankfill.js');
+let main;
 try {
-  require('tsx/cjs/api').register();
-  ({ runCli } = require(path.join(__dirname, '..', 'src-main', 'cli', 'main.ts')));
+  ({ main } = require(bundle));
 } catch (err) {
-  process.stderr.write(`rankfill: cannot start: ${String((err && err.message) || err).split('\n')[0]}\n`);
+  const missing = err && err.code === 'MODULE_NOT_FOUND' && String(err.message).includes(bundle);
+  process.stderr.write(
+    missing
+      ? `rankfill: the command line is not built yet (no ${path.relative(process.cwd(), bundle) || bundle}); run \`npm run build:cli\` in ${path.join(__dirname, '..')}\n`
+      : `rankfill: cannot start: ${String((err && err.message) || err).split('\n')[0]}\n`,
+  );
   process.exit(1);
 }
 
-runCli(process.argv.slice(2)).then(
+main(process.argv.slice(2)).then(
   (code) => {
     process.exitCode = code;
   },

@@ -7,8 +7,7 @@ import { existsSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { fitModel } from '../../src-shared/engine/fitModel';
 import { FitFailedError } from '../../src-shared/engine/errors';
-import { crossValidate, makeFolds } from '../../src-shared/engine/crossValidation';
-import { expandLowRankGrid, tune, type TuneResult } from '../../src-shared/engine/tuning';
+import { expandLowRankGrid, type TuneResult } from '../../src-shared/engine/tuning';
 import { tuneDefault } from '../../src-shared/engine/defaultTune';
 import { describeSeedStability, seedStability } from '../../src-shared/engine/seedStability';
 import { autoSettings, type AutoChoice } from '../../src-shared/engine/autoSettings';
@@ -21,6 +20,8 @@ import { intervalsAtLevel, type IntervalsAtLevel } from '../../src-shared/engine
 import { DEFAULT_INTERVAL_LEVEL, INTERVAL_METHOD } from '../../src-shared/engine/intervals';
 import { isSparseMatrix, toDenseMatrix, toSparseMatrix, type SparseMatrix } from '../../src-shared/matrix/sparseRatings';
 import { GAUSSIAN_MAX_VARIABLES } from '../../src-shared/engine/gaussian/limits';
+import type { EnginePool } from '../pool/enginePool';
+import { evaluateOnPool, tuneOnPool } from '../pool/poolJobs';
 import { maskPathFor, sidecarPathFor } from '../services/exportPaths';
 import type { CliOptions, FillLayout } from './args';
 import { appVersion } from './version';
@@ -180,13 +181,19 @@ function intervalLines(iv: IntervalsAtLevel, long: boolean): string[] {
   ];
 }
 
-export function runEvaluate(o: CliOptions, input: RatingMatrix | SparseMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
+/** `pool`: the engine pool that runs the folds in parallel (absent: in this thread, same numbers). */
+export async function runEvaluate(
+  o: CliOptions,
+  input: RatingMatrix | SparseMatrix,
+  timings: Record<string, number>,
+  startedAt: number,
+  pool?: EnginePool,
+): Promise<CommandOutput> {
   const settings = fitSettingsFromOptions(o);
   const t0 = performance.now();
   const m = toSparseMatrix(input);
-  const folds = makeFolds(m, o.folds, settings.seed);
   const level = o.level ?? DEFAULT_INTERVAL_LEVEL;
-  const cv = crossValidate(m, settings, folds, { intervalLevels: [level] });
+  const cv = await evaluateOnPool(pool, m, settings, o.folds, settings.seed, { intervalLevels: [level] });
   timings.evaluateMs = performance.now() - t0;
   const iv = cv.intervals?.[0];
   // Two fits on all the data, seeds s and s + 1 (engine/seedStability.ts).
@@ -282,7 +289,13 @@ function tuneFamilies(o: CliOptions, m: RatingMatrix | SparseMatrix): { families
   return { families, skipped };
 }
 
-export function runTune(o: CliOptions, input: RatingMatrix | SparseMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
+export async function runTune(
+  o: CliOptions,
+  input: RatingMatrix | SparseMatrix,
+  timings: Record<string, number>,
+  startedAt: number,
+  pool?: EnginePool,
+): Promise<CommandOutput> {
   const base = settingsFromOptions(o);
   const m = toSparseMatrix(input);
   const { families, skipped } = tuneFamilies(o, m);
@@ -306,7 +319,8 @@ export function runTune(o: CliOptions, input: RatingMatrix | SparseMatrix, timin
     const list: FitSettings[] = [];
     if (families.includes('lowrank')) list.push(...expandLowRankGrid({ ranks: o.ranks!, lambdas: o.lambdas!, centerings: o.centerings ?? ['none', 'row', 'column', 'both'], base }));
     list.push(...gaussians);
-    result = tune(m, { settings: list }, o.folds, base.seed);
+    // An explicit grid runs on the engine pool (the data-derived one above runs its passes here).
+    result = await tuneOnPool(pool, m, list, o.folds, base.seed);
   }
   const list = result.table;
   timings.tuneMs = performance.now() - t0;

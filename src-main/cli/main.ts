@@ -11,6 +11,7 @@ import { readMatrix } from './readInput';
 import { withScale } from './modelSettings';
 import { runEvaluate, runFill, runTune, type CommandOutput } from './commands';
 import { runReport } from './reportCommand';
+import type { EnginePool } from '../pool/enginePool';
 
 export interface CliIo {
   stdout: (text: string) => void;
@@ -26,7 +27,12 @@ function oneLine(message: string): string {
   return message.split('\n')[0];
 }
 
-function execute(argv: string[]): CommandOutput {
+/** What the host gives the command line: a way to start the engine pool (the built CLI does). */
+export interface CliEnv {
+  createPool?: () => EnginePool;
+}
+
+async function execute(argv: string[], env: CliEnv): Promise<CommandOutput> {
   let parsed;
   try {
     parsed = parseArgs(argv);
@@ -52,12 +58,15 @@ function execute(argv: string[]): CommandOutput {
   if (!read.ok) return { code: 2, stdout: [], stderr: read.messages };
   const matrix = withScale(read.matrix, o);
   let out: CommandOutput;
+  const pool = o.command === 'fill' ? undefined : env.createPool?.();
   try {
     if (o.command === 'fill') out = runFill(o, matrix, timings, t0);
-    else if (o.command === 'evaluate') out = runEvaluate(o, matrix, timings, t0);
-    else out = runTune(o, matrix, timings, t0);
+    else if (o.command === 'evaluate') out = await runEvaluate(o, matrix, timings, t0, pool);
+    else out = await runTune(o, matrix, timings, t0, pool);
   } catch (err) {
     return fitFailure(err);
+  } finally {
+    await pool?.close();
   }
   return { ...out, stderr: [...read.warnings, ...out.stderr] };
 }
@@ -72,9 +81,9 @@ function fitFailure(err: unknown): CommandOutput {
 }
 
 /** Runs the command line; resolves to the exit status. Never throws. */
-export async function runCli(argv: string[], io: CliIo = processIo): Promise<number> {
+export async function runCli(argv: string[], io: CliIo = processIo, env: CliEnv = {}): Promise<number> {
   try {
-    const out = execute(argv);
+    const out = await execute(argv, env);
     for (const line of out.stderr) io.stderr(`${line}\n`);
     for (const line of out.stdout) io.stdout(`${line}\n`);
     return out.code;

@@ -27,6 +27,7 @@ import { createRng, shuffleInPlace } from './random';
 import { calibrateIntervals, EnsembleSpread, HeldOutCollector } from './cellIntervals';
 import { summarizeLevel, type LevelSummary } from './intervals';
 import { runFoldTask, type FoldOutcome } from './foldTask';
+import type { SparseModel } from './fitModel';
 import { denseValues } from '../matrix/sparseRatings';
 import { predictRow } from './predictions';
 
@@ -200,6 +201,39 @@ export function scoreOrThrow(o: FoldOutcome): FoldScore {
   return o.score;
 }
 
+/**
+ * Interval coverage and width on the folds (cellIntervals.ts), from the k fold models: each
+ * model's estimate of every cell is made row by row into one dense buffer (the ensemble
+ * spread needs every cell), then the calibration runs as documented there.
+ */
+export function foldIntervals(
+  matrix: RatingMatrix | SparseMatrix,
+  folds: Folds,
+  settings: FitSettings,
+  models: SparseModel[],
+  levels: number[],
+): CrossValidationResult['intervals'] {
+  const m = toSparseMatrix(matrix);
+  const { rows, cols } = m.data;
+  const values = 'values' in matrix ? matrix.values : denseValues(m.data);
+  const heldOut = new HeldOutCollector(values, cellFolds(m, folds), folds.k);
+  const ensemble = settings.model === 'lowrank' ? new EnsembleSpread(values.length) : undefined;
+  const dense = new Float64Array(rows * cols);
+  models.forEach((model, f) => {
+    if ('predictions' in model) dense.set(model.predictions);
+    else for (let i = 0; i < rows; i++) predictRow(model, m.scale, i, dense.subarray(i * cols, (i + 1) * cols));
+    heldOut.add(f, dense, 'spread' in model ? model.spread : undefined);
+    ensemble?.add(dense);
+  });
+  if (!heldOut.complete) return undefined;
+  const cal = calibrateIntervals(heldOut, { rows, cols, values, family: settings.model, ensembleSpread: ensemble?.spread() });
+  return levels.map((level) => ({
+    level,
+    normalized: summarizeLevel(cal.heldOut, level, m.scale, true),
+    constantWidth: summarizeLevel(cal.heldOut, level, m.scale, false),
+  }));
+}
+
 export function crossValidate(
   matrix: RatingMatrix | SparseMatrix,
   settings: FitSettings,
@@ -207,29 +241,16 @@ export function crossValidate(
   opts: CrossValidateOptions = {},
 ): CrossValidationResult {
   const m = toSparseMatrix(matrix);
-  const { rows, cols } = m.data;
   const scores: FoldScore[] = [];
   const held: (Float64Array | undefined)[] = [];
-  // Intervals need every fold model's estimate of every cell (the ensemble spread), so only
-  // then is a dense buffer made, filled row by row from each fold's model.
   const levels = opts.intervalLevels ?? [];
-  const values = levels.length ? ('values' in matrix ? matrix.values : denseValues(m.data)) : undefined;
-  const heldOut = values ? new HeldOutCollector(values, cellFolds(m, folds), folds.k) : undefined;
-  const ensemble = values && settings.model === 'lowrank' ? new EnsembleSpread(values.length) : undefined;
-  const dense = values ? new Float64Array(rows * cols) : undefined;
+  const models: SparseModel[] = [];
   for (let f = 0; f < folds.k; f++) {
     const [outcome] = runFoldTask(m, folds, f, [settings], {
       shouldStop: opts.shouldStop,
       keepHeldOut: opts.keepHeldOut,
       onFitProgress: opts.onProgress ? (p) => opts.onProgress!({ done: f, total: folds.k, fit: p }) : undefined,
-      onFitted: dense
-        ? (model) => {
-            if ('predictions' in model) dense.set(model.predictions);
-            else for (let i = 0; i < rows; i++) predictRow(model, m.scale, i, dense.subarray(i * cols, (i + 1) * cols));
-            heldOut?.add(f, dense, 'spread' in model ? model.spread : undefined);
-            ensemble?.add(dense);
-          }
-        : undefined,
+      onFitted: levels.length ? (model) => models.push(model) : undefined,
     });
     scores.push(scoreOrThrow(outcome));
     if ('heldOut' in outcome) held.push(outcome.heldOut);
@@ -237,13 +258,9 @@ export function crossValidate(
   }
   const result = summarizeFolds(scores);
   if (opts.keepHeldOut) result.heldOut = gatherHeldOut(folds, held);
-  if (heldOut && values && heldOut.complete) {
-    const cal = calibrateIntervals(heldOut, { rows, cols, values, family: settings.model, ensembleSpread: ensemble?.spread() });
-    result.intervals = levels.map((level) => ({
-      level,
-      normalized: summarizeLevel(cal.heldOut, level, m.scale, true),
-      constantWidth: summarizeLevel(cal.heldOut, level, m.scale, false),
-    }));
+  if (levels.length) {
+    const intervals = foldIntervals(matrix, folds, settings, models, levels);
+    if (intervals) result.intervals = intervals;
   }
   return result;
 }

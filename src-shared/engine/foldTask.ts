@@ -26,12 +26,15 @@ import { fitModelSparse, predictAt, type SparseModel } from './fitModel';
 import { spectralStart, type Factors } from './spectral';
 import { FitCancelledError } from './errors';
 
-export type FoldOutcome = { score: FoldScore; heldOut?: Float64Array } | { error: Error };
+/** A setting's result on the fold: its score, and when asked its held-out predictions and its model. */
+export type FoldOutcome = { score: FoldScore; heldOut?: Float64Array; model?: SparseModel } | { error: Error };
 
 export interface FoldTaskOptions {
   shouldStop?: () => boolean;
   /** Keep each setting's held-out predictions (fold f's cells in row order). */
   keepHeldOut?: boolean;
+  /** Keep each setting's fitted model in its outcome (for intervals computed afterwards). */
+  keepModels?: boolean;
   /** Share spectral starts across ranks and warm-start along λ (see the header). */
   reuse?: boolean;
   onFitProgress?: (p: FitProgress) => void;
@@ -158,7 +161,7 @@ export function runFoldTask(
         ae += Math.abs(e);
       }
       const score = { rmse: nTest > 0 ? Math.sqrt(se / nTest) : NaN, mae: nTest > 0 ? ae / nTest : NaN, n: nTest };
-      outcomes[s] = opts.keepHeldOut ? { score, heldOut: pred.slice() } : { score };
+      outcomes[s] = { score, ...(opts.keepHeldOut ? { heldOut: pred.slice() } : {}), ...(opts.keepModels ? { model: fit } : {}) };
     } catch (err) {
       if (err instanceof FitCancelledError) throw err;
       outcomes[s] = { error: err instanceof Error ? err : new Error(String(err)) };

@@ -219,8 +219,10 @@ describe('exit codes and messages', () => {
 });
 
 describe('bin/rankfill.js', () => {
-  it('runs from a fresh checkout without a build step and sets the exit status', () => {
+  it('runs the built bundle (npm run build:cli, part of npm run test:unit) and sets the exit status', () => {
     const bin = fileURLToPath(new URL('../../../bin/rankfill.js', import.meta.url));
+    const bundle = fileURLToPath(new URL('../../../out/cli/rankfill.js', import.meta.url));
+    expect(existsSync(bundle), 'out/cli/rankfill.js is missing: run `npm run build:cli` first').toBe(true);
     const input = file('bin.csv', wideCsv().text);
     const ok = spawnSync(process.execPath, [bin, 'evaluate', input, '--folds', '3', '--json'], { encoding: 'utf8' });
     expect(ok.status).toBe(0);
