@@ -2,7 +2,8 @@
  * Rankfill's own help page (F1, Help ▸ How Rankfill Fills Cells): the workflow
  * and the model in plain words. Kept short; README.md has the full account.
  */
-import { el, showModal } from './modal';
+import { showModal } from './modal';
+import { el } from '../panels/dom';
 
 const SECTIONS: [string, string[]][] = [
   [
@@ -40,7 +41,7 @@ const SECTIONS: [string, string[]][] = [
 ];
 
 export function helpDialog(): Promise<void> {
-  const body = el('div', { class: 'rf-help', 'data-testid': 'help-page' });
+  const body = el('div', { className: 'rf-help', testid: 'help-page' });
   for (const [title, paras] of SECTIONS) {
     body.append(el('h3', { text: title }), ...paras.map((p) => el('p', { text: p })));
   }

@@ -6,7 +6,8 @@
  */
 import type { ApiReply, ApiRequest, DocumentPayload } from '../../src-shared/api';
 import { describeScale } from '../grid/cellText';
-import { el, listBlock, showModal } from './modal';
+import { listBlock, showModal } from './modal';
+import { el } from '../panels/dom';
 
 type PreviewRequest = ApiRequest<'document.previewImport'>;
 type PreviewReply = ApiReply<'document.previewImport'>;
@@ -45,42 +46,33 @@ export function toRequest(fileName: string, text: string, o: ImportOptions): Pre
 }
 
 function select(name: string, label: string, value: string, choices: [string, string][]): HTMLElement {
-  const s = el('select', { name, 'data-testid': `import-${name}` });
-  for (const [v, text] of choices) s.append(el('option', { value: v, text }));
+  const s = el('select', { testid: `import-${name}`, attrs: { name: name } });
+  for (const [v, text] of choices) s.append(el('option', { text: text, attrs: { value: v } }));
   s.value = value;
-  return el('label', { class: 'rf-dialog-field' }, el('span', { text: label }), s);
+  return el('label', { className: 'rf-dialog-field' }, [el('span', { text: label }), s]);
 }
 
 function optionsForm(o: ImportOptions): HTMLElement {
-  const tokens = el('input', { type: 'text', name: 'missingTokens', 'data-testid': 'import-missingTokens' });
+  const tokens = el('input', { testid: 'import-missingTokens', attrs: { type: 'text', name: 'missingTokens' } });
   tokens.value = o.missingTokens;
-  return el(
-    'fieldset',
-    { class: 'rf-import-options' },
-    el('legend', { text: 'Reading options' }),
-    select('delimiter', 'Delimiter', o.delimiter, [
+  return el('fieldset', { className: 'rf-import-options' }, [el('legend', { text: 'Reading options' }), select('delimiter', 'Delimiter', o.delimiter, [
       ['auto', 'detect'],
       [',', 'comma'],
       ['\t', 'tab'],
       [';', 'semicolon'],
-    ]),
-    select('layout', 'Layout', o.layout, [
+    ]), select('layout', 'Layout', o.layout, [
       ['auto', 'detect'],
       ['wide', 'wide (a row per label, a column per item)'],
       ['long', 'long (row, column, value)'],
-    ]),
-    select('decimalComma', 'Decimal comma', o.decimalComma, [
+    ]), select('decimalComma', 'Decimal comma', o.decimalComma, [
       ['auto', 'detect'],
       ['yes', 'yes (3,5 means 3.5)'],
       ['no', 'no'],
-    ]),
-    el('label', { class: 'rf-dialog-field' }, el('span', { text: 'Missing-value words (empty is always missing)' }), tokens),
-    select('duplicates', 'Repeated (row, column) pairs, long layout', o.duplicates, [
+    ]), el('label', { className: 'rf-dialog-field' }, [el('span', { text: 'Missing-value words (empty is always missing)' }), tokens]), select('duplicates', 'Repeated (row, column) pairs, long layout', o.duplicates, [
       ['refuse', 'refuse the file'],
       ['last', 'keep the last value'],
       ['average', 'average the values'],
-    ]),
-  );
+    ])]);
 }
 
 function readForm(form: HTMLElement): ImportOptions {
@@ -96,12 +88,7 @@ function readForm(form: HTMLElement): ImportOptions {
 
 function summary(reply: PreviewReply, fileName: string, bytes: number): HTMLElement {
   if (!reply.ok) {
-    return el(
-      'div',
-      { 'data-testid': 'import-summary' },
-      el('p', { class: 'rf-dialog-bad', text: `${fileName} cannot be opened as it is: ${reply.problems.length} problem${reply.problems.length === 1 ? '' : 's'}.` }),
-      listBlock(reply.problems.map((p) => `${p.line}:${p.column}: ${p.message}`), 'import-problems'),
-    );
+    return el('div', { testid: 'import-summary' }, [el('p', { className: 'rf-dialog-bad', text: `${fileName} cannot be opened as it is: ${reply.problems.length} problem${reply.problems.length === 1 ? '' : 's'}.` }), listBlock(reply.problems.map((p) => `${p.line}:${p.column}: ${p.message}`), 'import-problems')]);
   }
   const i = reply.info;
   const cells = i.rows * i.cols;
@@ -112,9 +99,9 @@ function summary(reply: PreviewReply, fileName: string, bytes: number): HTMLElem
     ['Layout', i.layout === 'wide' ? 'wide' : `long (pivoted${i.duplicatePairs ? `, ${i.duplicatePairs} repeated pairs` : ''})`],
     ['Detected scale', describeScale(reply.document.matrix.scale)],
   ];
-  const dl = el('dl', { class: 'rf-facts', 'data-testid': 'import-summary' });
+  const dl = el('dl', { className: 'rf-facts', testid: 'import-summary' });
   for (const [k, v] of facts) dl.append(el('dt', { text: k }), el('dd', { text: v }));
-  const box = el('div', {}, dl);
+  const box = el('div', {}, [dl]);
   if (reply.document.warnings.length) {
     box.append(
       el('p', { text: `${reply.document.warnings.length} note${reply.document.warnings.length === 1 ? '' : 's'}:` }),
@@ -138,7 +125,7 @@ export async function importPreviewDialog(
   for (;;) {
     const reply = await preview(toRequest(fileName, text, options));
     const form = optionsForm(options);
-    const body = el('div', { class: 'rf-import' }, summary(reply, fileName, bytes), form);
+    const body = el('div', { className: 'rf-import' }, [summary(reply, fileName, bytes), form]);
     const choice = await showModal<'cancel' | 'recheck' | 'open'>({
       title: `Bring in ${fileName}`,
       body,

@@ -4,6 +4,8 @@
  * Every dialog of the editing and project features is built on this.
  */
 
+import { el } from '../panels/dom';
+
 export interface ModalButton<T> {
   label: string;
   value: T;
@@ -23,17 +25,6 @@ export interface ModalOptions<T> {
   wide?: boolean;
 }
 
-export function el<K extends keyof HTMLElementTagNameMap>(tag: K, attrs: Record<string, string> = {}, ...children: (Node | string)[]): HTMLElementTagNameMap[K] {
-  const e = document.createElement(tag);
-  for (const [k, v] of Object.entries(attrs)) {
-    if (k === 'text') e.textContent = v;
-    else if (k === 'class') e.className = v;
-    else e.setAttribute(k, v);
-  }
-  e.append(...children);
-  return e;
-}
-
 let openCount = 0;
 /** True while any of our dialogs is open (keyboard shortcuts stand aside). */
 export function modalOpen(): boolean {
@@ -41,12 +32,12 @@ export function modalOpen(): boolean {
 }
 
 export function showModal<T>(opts: ModalOptions<T>): Promise<T> {
-  const dialog = el('dialog', { class: `rf-dialog${opts.wide ? ' rf-dialog-wide' : ''}`, 'data-testid': opts.testId ?? 'dialog' });
+  const dialog = el('dialog', { className: `rf-dialog${opts.wide ? ' rf-dialog-wide' : ''}`, testid: opts.testId ?? 'dialog' });
   const body = typeof opts.body === 'string' ? el('p', { text: opts.body }) : opts.body;
-  const error = el('div', { class: 'rf-dialog-error', 'data-testid': 'dialog-error', role: 'alert' });
+  const error = el('div', { className: 'rf-dialog-error', testid: 'dialog-error', attrs: { role: 'alert' } });
   error.hidden = true;
-  const buttons = el('div', { class: 'rf-dialog-buttons' });
-  dialog.append(el('h2', { text: opts.title }), el('div', { class: 'rf-dialog-body' }, body), error, buttons);
+  const buttons = el('div', { className: 'rf-dialog-buttons' });
+  dialog.append(el('h2', { text: opts.title }), el('div', { className: 'rf-dialog-body' }, [body]), error, buttons);
   document.body.append(dialog);
   openCount++;
   return new Promise<T>((resolve) => {
@@ -68,12 +59,7 @@ export function showModal<T>(opts: ModalOptions<T>): Promise<T> {
       resolve(value);
     };
     for (const b of opts.buttons) {
-      const btn = el('button', {
-        type: 'button',
-        class: `rf-button${b.primary ? ' rf-primary' : ''}${b.danger ? ' rf-danger' : ''}`,
-        text: b.label,
-        ...(b.testId ? { 'data-testid': b.testId } : {}),
-      });
+      const btn = el('button', { className: `rf-button${b.primary ? ' rf-primary' : ''}${b.danger ? ' rf-danger' : ''}`, text: b.label, testid: b.testId, attrs: { type: 'button' } });
       btn.addEventListener('click', () => finish(b.value));
       buttons.append(btn);
     }
@@ -135,10 +121,10 @@ export async function promptDialog(opts: {
   hint?: string;
   extra?: HTMLElement;
 }): Promise<string | null> {
-  const input = el('input', { type: 'text', 'data-testid': 'prompt-input', spellcheck: 'false' });
+  const input = el('input', { testid: 'prompt-input', attrs: { type: 'text', spellcheck: 'false' } });
   input.value = opts.initial ?? '';
-  const body = el('div', {}, el('label', { class: 'rf-dialog-field' }, el('span', { text: opts.label }), input));
-  if (opts.hint) body.append(el('p', { class: 'rf-hint', text: opts.hint }));
+  const body = el('div', {}, [el('label', { className: 'rf-dialog-field' }, [el('span', { text: opts.label }), input])]);
+  if (opts.hint) body.append(el('p', { className: 'rf-hint', text: opts.hint }));
   if (opts.extra) body.append(opts.extra);
   const ok = await showModal<boolean>({
     title: opts.title,
@@ -156,7 +142,7 @@ export async function promptDialog(opts: {
 
 /** A list shown inside a dialog (problems, refused cells, values outside a scale). */
 export function listBlock(lines: readonly string[], testId = 'dialog-list'): HTMLElement {
-  const ul = el('ul', { class: 'rf-dialog-list', 'data-testid': testId });
+  const ul = el('ul', { className: 'rf-dialog-list', testid: testId });
   for (const l of lines) ul.append(el('li', { text: l }));
   return ul;
 }

@@ -3,7 +3,8 @@
  * path dialog the browser host uses where Electron shows a native one.
  */
 import type { RecoveryEntryPayload } from '../../src-shared/api';
-import { el, listBlock, promptDialog, showModal } from './modal';
+import { listBlock, promptDialog, showModal } from './modal';
+import { el } from '../panels/dom';
 
 export type UnsavedChoice = 'save' | 'discard' | 'stay';
 
@@ -28,16 +29,10 @@ export type RestoreChoice = { action: 'restore'; id: string } | { action: 'disca
 export function restoreDialog(entries: readonly RecoveryEntryPayload[]): Promise<RestoreChoice> {
   const newest = entries[0];
   const when = (iso: string) => new Date(iso).toLocaleString('en-GB');
-  const body = el(
-    'div',
-    {},
-    el('p', { text: 'Rankfill found unsaved work from a session that did not close normally.' }),
-    listBlock(
+  const body = el('div', {}, [el('p', { text: 'Rankfill found unsaved work from a session that did not close normally.' }), listBlock(
       entries.slice(0, 8).map((e) => `${e.title}${e.sourcePath ? ` (${e.sourcePath})` : ' (never kept)'} — ${when(e.savedAt)}`),
       'restore-list',
-    ),
-    el('p', { class: 'rf-hint', text: entries.length > 1 ? 'Restore brings back the newest; the others stay offered next time.' : '' }),
-  );
+    ), el('p', { className: 'rf-hint', text: entries.length > 1 ? 'Restore brings back the newest; the others stay offered next time.' : '' })]);
   return showModal<RestoreChoice>({
     title: 'Bring back unsaved work?',
     body,
@@ -59,11 +54,11 @@ export async function pathDialog(opts: {
   recent: readonly string[];
   check?: (path: string) => string | undefined;
 }): Promise<string | null> {
-  const extra = el('div', {});
+  const extra = el('div');
   if (opts.recent.length) {
-    const list = el('div', { class: 'rf-path-recent', 'data-testid': 'path-recent' }, el('span', { class: 'rf-hint', text: 'Recent:' }));
+    const list = el('div', { className: 'rf-path-recent', testid: 'path-recent' }, [el('span', { className: 'rf-hint', text: 'Recent:' })]);
     for (const p of opts.recent.slice(0, 6)) {
-      const b = el('button', { type: 'button', class: 'rf-linklike', text: p });
+      const b = el('button', { className: 'rf-linklike', text: p, attrs: { type: 'button' } });
       b.addEventListener('click', () => {
         const input = b.closest('dialog')?.querySelector<HTMLInputElement>('[data-testid="prompt-input"]');
         if (input) input.value = p;

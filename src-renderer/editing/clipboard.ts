@@ -5,7 +5,8 @@
  * list of offending cells when any entry is off the scale, and asks first when
  * it would overwrite observed values. Each paste or cut is one undoable change.
  */
-import { confirmDialog, el, listBlock, modalOpen } from '../dialogs/modal';
+import { confirmDialog, listBlock, modalOpen } from '../dialogs/modal';
+import { el } from '../panels/dom';
 import { formatObserved } from '../grid/cellText';
 import type { Notice } from '../panels/notice';
 import type { DocumentStore } from '../state/documentStore';
@@ -55,12 +56,7 @@ export async function pasteText(deps: ClipboardDeps, text: string): Promise<bool
     return false;
   }
   if (plan.overwrites > 0) {
-    const body = el(
-      'div',
-      {},
-      el('p', { text: `Pasting this ${plan.rows} × ${plan.cols} block changes ${plan.changes} cell${plan.changes === 1 ? '' : 's'}, and ${plan.overwrites} of them already hold an observed rating that would be replaced or cleared.` }),
-      listBlock([`from ${m.rowLabels[r.r0]} × ${m.colLabels[r.c0]} to ${m.rowLabels[r.r0 + plan.rows - 1]} × ${m.colLabels[r.c0 + plan.cols - 1]}`], 'paste-range'),
-    );
+    const body = el('div', {}, [el('p', { text: `Pasting this ${plan.rows} × ${plan.cols} block changes ${plan.changes} cell${plan.changes === 1 ? '' : 's'}, and ${plan.overwrites} of them already hold an observed rating that would be replaced or cleared.` }), listBlock([`from ${m.rowLabels[r.r0]} × ${m.colLabels[r.c0]} to ${m.rowLabels[r.r0 + plan.rows - 1]} × ${m.colLabels[r.c0 + plan.cols - 1]}`], 'paste-range')]);
     const ok = await confirmDialog('Replace observed ratings?', body, `Paste and change ${plan.changes} cells`, 'Cancel', 'paste-confirm-dialog');
     if (!ok) return false;
   }

@@ -3,22 +3,22 @@
  * back or bring back), the rows-and-columns menu, transposition, the scale
  * (shown and editable), and the project buttons with the recent-files menu.
  */
-import { el } from '../dialogs/modal';
+import { el } from '../panels/dom';
 import { describeScale } from '../grid/cellText';
 import type { HostBridge } from '../bridge/hostBridge';
 import type { DocumentStore } from '../state/documentStore';
 import type { CommandId } from '../../src-shared/commands';
 
 function button(label: string, testId: string, onClick: () => void, title = ''): HTMLButtonElement {
-  const b = el('button', { type: 'button', class: 'rf-button rf-edit-button', 'data-testid': testId, text: label, title });
+  const b = el('button', { className: 'rf-button rf-edit-button', testid: testId, text: label, title: title, attrs: { type: 'button' } });
   b.addEventListener('click', onClick);
   return b;
 }
 
 /** A small drop-down menu built on <details>; closes after a choice. */
 function menu(label: string, testId: string, items: ([string, string, () => void] | 'sep')[], onOpen?: (list: HTMLElement) => void): HTMLDetailsElement {
-  const list = el('div', { class: 'rf-menu-list', role: 'menu' });
-  const details = el('details', { class: 'rf-menu', 'data-testid': testId }, el('summary', { class: 'rf-button rf-edit-button', text: label }), list);
+  const list = el('div', { className: 'rf-menu-list', attrs: { role: 'menu' } });
+  const details = el('details', { className: 'rf-menu', testid: testId }, [el('summary', { className: 'rf-button rf-edit-button', text: label }), list]);
   const fill = () => {
     list.replaceChildren();
     for (const it of items) {
@@ -27,7 +27,7 @@ function menu(label: string, testId: string, items: ([string, string, () => void
         continue;
       }
       const [text, id, run] = it;
-      const b = el('button', { type: 'button', role: 'menuitem', 'data-testid': id, text });
+      const b = el('button', { testid: id, text: text, attrs: { type: 'button', role: 'menuitem' } });
       b.addEventListener('click', () => {
         details.open = false;
         run();
@@ -74,15 +74,15 @@ export function mountEditBar(root: HTMLElement, deps: { store: DocumentStore; br
 
   const recentItems: [string, string, () => void][] = [];
   const recent = menu('Recent ▾', 'recent-menu', [], (list) => {
-    list.replaceChildren(el('span', { class: 'rf-hint', text: 'Loading…' }));
+    list.replaceChildren(el('span', { className: 'rf-hint', text: 'Loading…' }));
     void bridge
       .call('recent.list', {})
       .then(({ files: rf }) => {
         list.replaceChildren();
         recentItems.length = 0;
-        if (rf.length === 0) list.append(el('span', { class: 'rf-hint', text: 'No recent projects yet' }));
+        if (rf.length === 0) list.append(el('span', { className: 'rf-hint', text: 'No recent projects yet' }));
         rf.forEach((f, i) => {
-          const b = el('button', { type: 'button', role: 'menuitem', 'data-testid': `recent-${i}`, text: f.path, title: `last opened ${new Date(f.openedAt).toLocaleString('en-GB')}` });
+          const b = el('button', { testid: `recent-${i}`, text: f.path, title: `last opened ${new Date(f.openedAt).toLocaleString('en-GB')}`, attrs: { type: 'button', role: 'menuitem' } });
           b.addEventListener('click', () => {
             (list.parentElement as HTMLDetailsElement).open = false;
             run('file.openRecent', i);
@@ -90,21 +90,14 @@ export function mountEditBar(root: HTMLElement, deps: { store: DocumentStore; br
           list.append(b);
         });
       })
-      .catch(() => list.replaceChildren(el('span', { class: 'rf-hint', text: 'Recent files are not available' })));
+      .catch(() => list.replaceChildren(el('span', { className: 'rf-hint', text: 'Recent files are not available' })));
   });
 
   root.replaceChildren(
-    el('div', { class: 'rf-edit-group' }, undo, redo),
-    el('div', { class: 'rf-edit-group' }, rowsCols, swap, scale),
-    el('div', { class: 'rf-edit-spacer' }),
-    el(
-      'div',
-      { class: 'rf-edit-group' },
-      button('Open project…', 'open-project-button', cmd('file.openProject'), 'Open a .rankfill project file (Ctrl+Shift+O)'),
-      recent,
-      button('Keep', 'save-button', cmd('file.save'), 'Keep the project in its file (Ctrl+S)'),
-      button('Keep as…', 'save-as-button', cmd('file.saveAs'), 'Keep the project in a new file (Ctrl+Shift+S)'),
-    ),
+    el('div', { className: 'rf-edit-group' }, [undo, redo]),
+    el('div', { className: 'rf-edit-group' }, [rowsCols, swap, scale]),
+    el('div', { className: 'rf-edit-spacer' }),
+    el('div', { className: 'rf-edit-group' }, [button('Open project…', 'open-project-button', cmd('file.openProject'), 'Open a .rankfill project file (Ctrl+Shift+O)'), recent, button('Keep', 'save-button', cmd('file.save'), 'Keep the project in its file (Ctrl+S)'), button('Keep as…', 'save-as-button', cmd('file.saveAs'), 'Keep the project in a new file (Ctrl+Shift+S)')]),
   );
 
   const refresh = () => {

@@ -1,4 +1,7 @@
-/** Small helpers for building panel markup without innerHTML (the page allows no inline script). */
+/**
+ * The page's one helper for building markup without innerHTML (the page allows
+ * no inline script): panels, dialogs and the edit bar all use `el`.
+ */
 
 export interface ElOptions {
   className?: string;
@@ -6,6 +9,10 @@ export interface ElOptions {
   title?: string;
   hidden?: boolean;
   disabled?: boolean;
+  /** Text content (instead of children). */
+  text?: string;
+  /** Any other attributes (role, type, name, inputmode, …). */
+  attrs?: Record<string, string>;
 }
 
 export function el<K extends keyof HTMLElementTagNameMap>(
@@ -20,6 +27,8 @@ export function el<K extends keyof HTMLElementTagNameMap>(
   if (opts.hidden) node.hidden = true;
   if (opts.disabled && 'disabled' in node) (node as HTMLButtonElement).disabled = true;
   if (tag === 'button') (node as HTMLButtonElement).type = 'button';
+  for (const [k, v] of Object.entries(opts.attrs ?? {})) node.setAttribute(k, v);
+  if (opts.text !== undefined) node.textContent = opts.text;
   node.append(...children);
   return node;
 }
