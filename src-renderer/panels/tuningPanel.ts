@@ -12,6 +12,7 @@ import { CENTERING_SHORT } from '../runs/describeSettings';
 import { CENTERING_MODES } from './centeringModel';
 import { el, field, fmt, numberInput } from './dom';
 import { GridRunPanel } from './gridRunPanel';
+import { defaultGrid } from '../../src-shared/engine/tuningGrid';
 import type { PanelContext } from './panelContext';
 import {
   DEFAULT_LAMBDAS,
@@ -33,6 +34,25 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
   lambdasInput.type = 'text';
   lambdasInput.value = DEFAULT_LAMBDAS;
   const foldsInput = numberInput('tuning-folds', DEFAULT_TUNE_FOLDS, { min: 2, max: 20, step: 1 });
+  // Until the user types in them, the ranks and λ values are suggested from the open data
+  // (engine/tuningGrid.ts: λ ×2 apart below σ₁ of the residuals, ranks the ratings support).
+  const gridNote = el('p', { className: 'rf-hint', testid: 'tuning-grid-note' });
+  let gridTouched = false;
+  const suggestGrid = () => {
+    if (gridTouched) return;
+    const m = ctx.store.current;
+    if (m.values.length === 0) return;
+    const g = defaultGrid(m);
+    ranksInput.value = g.ranks.join(', ');
+    lambdasInput.value = g.lambdas.join(', ');
+    gridNote.textContent =
+      `Suggested from this data: ranks up to ${Math.max(...g.ranks)} (what ${g.summary.observed} ratings support); ` +
+      `λ ×2 apart up to half of ${fmt(2 * g.topLambda, 1)}, the strength of the data’s strongest pattern (at λ above it no trait survives).`;
+  };
+  for (const input of [ranksInput, lambdasInput]) input.addEventListener('input', () => {
+    gridTouched = true;
+    gridNote.textContent = '';
+  });
   const checks = new Map<Centering, HTMLInputElement>();
   const checkRow = el('div', { className: 'rf-check-row' });
   for (const c of CENTERING_MODES) {
@@ -95,6 +115,12 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
     size.classList.toggle('rf-warn-text', n > MAX_GRID_SETTINGS || n === 0);
   }
   for (const input of [ranksInput, lambdasInput, foldsInput]) input.addEventListener('input', updateSize);
+  suggestGrid();
+  ctx.store.subscribe((e) => {
+    if (e.type !== 'replaced') return;
+    suggestGrid();
+    updateSize();
+  });
   syncCenteringFromForm();
   ctx.settings.subscribe(syncCenteringFromForm);
 
@@ -183,6 +209,7 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
       field('Folds', foldsInput),
       el('div', { className: 'rf-form-field' }, [el('span', { className: 'rf-form-label' }, ['Centering']), checkRow]),
     ]),
+    gridNote,
     size,
     familyNote,
     ...runner.controls(),

@@ -4,6 +4,7 @@ import { join } from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { autoSettings } from '../../src-shared/engine/autoSettings';
+import { defaultGrid } from '../../src-shared/engine/tuningGrid';
 import { launchBrowser } from './support/browser';
 import { repoRoot, startHost, type RunningHost } from './support/hostProcess';
 
@@ -49,6 +50,20 @@ describe('a first Fill chooses its settings from the data', () => {
     expect(run.settings).toMatchObject({ rank: here.settings.rank, lambda: here.settings.lambda, centering: here.settings.centering });
     expect(note).toContain(here.reason);
     await page.screenshot({ path: join(repoRoot, 'test-results', 'adaptive-fill.png') });
+  });
+
+  it('the Tuning tab suggests the data-derived ranks and λ values', async () => {
+    await page.click(tid('tab-tuning'));
+    const m = await page.evaluate(() => {
+      const cur = (window as unknown as { rankfillApp: { store: { current: { rowLabels: string[]; colLabels: string[]; values: Float64Array; scale: PageMatrix['scale'] } } } }).rankfillApp.store.current;
+      return { rowLabels: cur.rowLabels, colLabels: cur.colLabels, values: Array.from(cur.values, (x) => (Number.isNaN(x) ? null : x)), scale: cur.scale };
+    });
+    const g = defaultGrid({ ...m, values: Float64Array.from(m.values, (x) => (x === null ? NaN : x)) });
+    expect(await page.inputValue(tid('tuning-ranks'))).toBe(g.ranks.join(', '));
+    expect(await page.inputValue(tid('tuning-lambdas'))).toBe(g.lambdas.join(', '));
+    expect(await page.textContent(tid('tuning-grid-note'))).toMatch(/^Suggested from this data: ranks up to \d+/);
+    await page.screenshot({ path: join(repoRoot, 'test-results', 'tuning-suggested.png') });
+    await page.click(tid('tab-model'));
   });
 
   it('the user’s own settings win once changed, also on the next data set', async () => {
