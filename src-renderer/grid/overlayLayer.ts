@@ -12,8 +12,9 @@ export interface OverlayLayer {
   maxSpread: number;
   /** Row-major interval width (upper − lower) per cell, when the run has intervals: the tint follows it. */
   width?: Float64Array;
-  /** Largest width over blank cells. */
+  /** Largest and smallest width over blank cells: the tint runs from pale at the smallest to deep at the largest. */
   maxWidth?: number;
+  minWidth?: number;
 }
 
 export interface DiffLayer {
@@ -55,9 +56,10 @@ export interface GridLayers {
  */
 export function estimateTint(layer: OverlayLayer, index: number): string {
   const byWidth = layer.width !== undefined && (layer.maxWidth ?? 0) > 0;
-  const s = byWidth ? layer.width![index] : layer.spread?.[index];
-  const top = byWidth ? layer.maxWidth! : layer.maxSpread;
-  const strength = s === undefined || !Number.isFinite(s) || !(top > 0) ? 0.1 : 0.06 + 0.36 * Math.min(1, s / top);
+  const low = byWidth ? Math.min(layer.minWidth ?? 0, layer.maxWidth!) : 0;
+  const s = byWidth ? layer.width![index] - low : layer.spread?.[index];
+  const top = byWidth ? layer.maxWidth! - low : layer.maxSpread;
+  const strength = s === undefined || !Number.isFinite(s) || !(top > 0) ? 0.1 : 0.06 + 0.36 * Math.max(0, Math.min(1, s / top));
   return `rgba(214, 138, 54, ${strength.toFixed(3)})`;
 }
 

@@ -88,16 +88,18 @@ export function layersForRun(run: Run | undefined, m: RatingMatrix, level = DEFA
   const iv = intervalsOfRun(run, m.scale, level);
   let width: Float64Array | undefined;
   let maxWidth = 0;
+  let minWidth = Infinity;
   if (iv) {
     width = new Float64Array(values.length);
     for (let c = 0; c < values.length; c++) {
       const w = iv.upper[c] - iv.lower[c];
       width[c] = w;
       if (values[c] !== values[c] && w > maxWidth) maxWidth = w;
+      if (values[c] !== values[c] && w < minWidth) minWidth = w;
     }
   }
   return {
-    overlay: { predictions: run.result.predictions, spread, maxSpread, ...(width ? { width, maxWidth } : {}) },
+    overlay: { predictions: run.result.predictions, spread, maxSpread, ...(width ? { width, maxWidth, minWidth: Number.isFinite(minWidth) ? minWidth : 0 } : {}) },
     baselines: baselineLayer(run.result),
     weak: weakMarks(run, m),
   };
