@@ -312,14 +312,17 @@ export async function runTune(
     // The data-derived grid with its refinement pass (engine/defaultTune.ts). Without
     // --centering the baselines alone are scored under all four centerings and the factor
     // settings use the best of them.
-    const d = tuneDefault(m, { folds: o.folds, seed: base.seed, centerings: o.centerings, ranks: o.ranks, lambdas: o.lambdas, base, extra: gaussians });
+    // Its passes run on the engine pool like an explicit grid.
+    const d = await tuneDefault(m, { folds: o.folds, seed: base.seed, centerings: o.centerings, ranks: o.ranks, lambdas: o.lambdas, base, extra: gaussians }, (list, k, seed) =>
+      tuneOnPool(pool, m, list, k, seed),
+    );
     result = d;
     grid = { ranks: d.grid.ranks, lambdas: d.grid.lambdas, centerings: d.grid.centerings, refinedLambdas: d.refinedLambdas };
   } else {
     const list: FitSettings[] = [];
     if (families.includes('lowrank')) list.push(...expandLowRankGrid({ ranks: o.ranks!, lambdas: o.lambdas!, centerings: o.centerings ?? ['none', 'row', 'column', 'both'], base }));
     list.push(...gaussians);
-    // An explicit grid runs on the engine pool (the data-derived one above runs its passes here).
+    // An explicit grid runs on the engine pool too.
     result = await tuneOnPool(pool, m, list, o.folds, base.seed);
   }
   const list = result.table;

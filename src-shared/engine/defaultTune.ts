@@ -59,7 +59,11 @@ export function coarseSettings(ranks: number[], lambdas: number[], centerings: C
 
 const ALL_CENTERINGS: Centering[] = ['none', 'row', 'column', 'both'];
 
-export function tuneDefault(matrix: RatingMatrix | SparseMatrix, o: DefaultTuneOptions): DefaultTuneResult {
+/** Scores a list of settings on the folds of (k, seed); e.g. the main side's engine pool. */
+export type GridRunner = (list: FitSettings[], k: number, seed: number, onProgress?: (p: TuneProgress) => void) => Promise<TuneResult>;
+
+export async function tuneDefault(matrix: RatingMatrix | SparseMatrix, o: DefaultTuneOptions, runGrid?: GridRunner): Promise<DefaultTuneResult> {
+  const run: GridRunner = runGrid ?? ((list, k, seed, onProgress) => Promise.resolve(tune(matrix, { settings: list }, k, seed, onProgress, o.shouldStop)));
   const grid = defaultGrid(matrix, o.centerings ?? ['both']);
   if (o.ranks) grid.ranks = [...o.ranks];
   if (o.lambdas) grid.lambdas = [...o.lambdas].sort((a, b) => a - b);
@@ -72,7 +76,7 @@ export function tuneDefault(matrix: RatingMatrix | SparseMatrix, o: DefaultTuneO
   let offset = 0;
   const progress = o.onProgress ? (p: TuneProgress) => o.onProgress!({ done: offset + p.done, total }) : undefined;
   if (stage0.length > 0) {
-    const pass0 = tune(matrix, { settings: stage0 }, o.folds, o.seed, progress, o.shouldStop);
+    const pass0 = await run(stage0, o.folds, o.seed, progress);
     table.push(...pass0.table);
     offset += stage0.length * o.folds;
     grid.centerings = [(pass0.best.settings as LowRankSettings).centering];
@@ -81,7 +85,7 @@ export function tuneDefault(matrix: RatingMatrix | SparseMatrix, o: DefaultTuneO
     ...coarseSettings(grid.ranks.filter((r) => stage0.length === 0 || r > 0), grid.lambdas, grid.centerings, base, rankZeroLambda),
     ...(o.extra ?? []),
   ];
-  const pass1 = tune(matrix, { settings: first }, o.folds, o.seed, progress, o.shouldStop);
+  const pass1 = await run(first, o.folds, o.seed, progress);
   table.push(...pass1.table);
   offset += first.length * o.folds;
   let refinedLambdas: number[] = [];
@@ -90,7 +94,7 @@ export function tuneDefault(matrix: RatingMatrix | SparseMatrix, o: DefaultTuneO
     refinedLambdas = refineLambdas(best.lambda, grid.lambdas);
     if (refinedLambdas.length > 0) {
       const more: FitSettings[] = refinedLambdas.map((lambda) => ({ ...best, lambda }));
-      const pass2 = tune(matrix, { settings: more }, o.folds, o.seed, progress, o.shouldStop);
+      const pass2 = await run(more, o.folds, o.seed, progress);
       table.push(...pass2.table);
       offset += more.length * o.folds;
     }

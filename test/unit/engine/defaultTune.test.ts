@@ -20,7 +20,7 @@ function additiveCase(rows: number, cols: number, seed: number) {
 }
 
 describe('tuning with the data-derived grid', () => {
-  it('finds the optimum of a fine λ scan at the chosen rank (refinement included)', () => {
+  it('finds the optimum of a fine λ scan at the chosen rank (refinement included)', async () => {
     // Check: the best of the coarse grid + refinement must come within 0.5 % of the best mean
     // RMSE over a fine λ scan (×1.19 apart) at the same rank and on the same folds — a grid
     // that skips the optimum fails this (common practice, no source).
@@ -28,7 +28,7 @@ describe('tuning with the data-derived grid', () => {
     // 70 × 50 at 45 %: 2N/(m + n) ≈ 26, half of 50 = 25 → the ladder up to 20.
     expect(defaultGrid(matrix).ranks).toEqual([0, 1, 2, 3, 5, 8, 12, 16, 20]);
     // Fewer ranks here to keep the test quick; the λ grid is the data-derived one.
-    const r = tuneDefault(matrix, { folds: 4, seed: 3, ranks: [0, 2, 3, 5] });
+    const r = await tuneDefault(matrix, { folds: 4, seed: 3, ranks: [0, 2, 3, 5] });
     // The data have no row or column offsets: the baselines-alone stage picks centering none.
     expect(r.grid.centerings).toEqual(['none']);
     const best = r.best.settings as LowRankSettings;
@@ -49,9 +49,9 @@ describe('tuning with the data-derived grid', () => {
     expect(r.oneStandardError.meanRmse).toBeLessThanOrEqual(r.threshold);
   });
 
-  it('scores every pass on the same folds', () => {
+  it('scores every pass on the same folds', async () => {
     const { matrix } = lowRankCase(40, 30, 2, 0.3, 0.5, 4);
-    const r = tuneDefault(matrix, { folds: 3, seed: 9 });
+    const r = await tuneDefault(matrix, { folds: 3, seed: 9 });
     const someRefined = r.table[r.table.length - 1];
     const alone = tune(matrix, { settings: [someRefined.settings] }, 3, 9);
     expect(alone.table[0].folds).toEqual(someRefined.folds);
