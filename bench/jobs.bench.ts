@@ -80,16 +80,17 @@ else {
   const long = join(dir, 'movies-long.csv');
   writeFileSync(long, out.join('\n') + '\n');
   const args = [bin, 'evaluate', long, '--long', '--rank', '10', '--lambda', '10', '--centering', 'both', '--iterations', '10', '--folds', '5', '--json'];
-  const python = spawnSync('/usr/bin/python3', ['-c', 'import numpy'], { encoding: 'utf8' });
-  const haveRef = existsSync(refEvaluate) && python.status === 0;
-  if (!haveRef) console.log('   reference absent (needs /usr/bin/python3 with numpy: apt-get install -y python3-numpy python3-scipy); engine figures only');
+  // The first Python with numpy: python3 on PATH, then Debian's.
+  const python = ['python3', '/usr/bin/python3'].find((p) => spawnSync(p, ['-c', 'import numpy'], { encoding: 'utf8' }).status === 0);
+  const haveRef = existsSync(refEvaluate) && python !== undefined;
+  if (!haveRef) console.log('   reference absent (needs python3 with numpy: apt-get install -y python3-numpy python3-scipy); engine figures only');
   const refEnv = { ...process.env };
   delete refEnv.OPENBLAS_CORETYPE;
   delete refEnv.OPENBLAS_L2_SIZE;
   for (let rep = 1; rep <= 2; rep++) {
     const ours = timed(process.execPath, args);
     const rmse = ours.status === 0 ? (JSON.parse(ours.stdout) as { meanRmse: number }).meanRmse : NaN;
-    const ref = haveRef ? timed('/usr/bin/python3', [refEvaluate, long], refEnv) : undefined;
+    const ref = haveRef && python ? timed(python, [refEvaluate, long], refEnv) : undefined;
     const refRmse = ref ? Number(/mean RMSE ([\d.]+)/.exec(ref.stdout)?.[1]) : NaN;
     console.log(
       `1. evaluate, movie set (run ${rep}, load ${load()}): rankfill ${fmt(ours.wallS)} s wall, CPU ${fmt((100 * ours.cpuS) / ours.wallS, 0)} %, ${fmt(ours.maxRssMb, 0)} MB, mean RMSE ${fmt(rmse, 4)}` +
@@ -99,6 +100,7 @@ else {
 }
 
 // ------------------------------------------------------------ 2. tune 60 × 40 × 96 settings
+// (skipped with BENCH_ONLY=evaluate)
 async function benchTune(): Promise<void> {
   const rows = 60;
   const cols = 40;
@@ -176,7 +178,7 @@ else {
 
 }
 
-void benchTune().then(() => {
+void (process.env.BENCH_ONLY === 'evaluate' ? Promise.resolve() : benchTune()).then(() => {
   benchRest();
   console.log('window targets (1000 × 1000 Fill → drawn, longest task, edit → refit): not measured by this bench');
   rmSync(dir, { recursive: true, force: true });
