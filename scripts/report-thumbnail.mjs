@@ -3,7 +3,7 @@
 // Debian's Chromium prints it to A4, and pdftoppm (apt-get install -y poppler-utils) turns
 // page 1 into a small PNG. Usage: node scripts/report-thumbnail.mjs
 import { execFileSync } from 'node:child_process';
-import { mkdirSync, mkdtempSync, renameSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, renameSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
@@ -11,6 +11,8 @@ import { chromium } from 'playwright-core';
 import { findChromium } from './ensure-chromium.mjs';
 
 const root = join(import.meta.dirname, '..');
+// bin/rankfill.js runs the built CLI bundle.
+if (!existsSync(join(root, 'out/cli/rankfill.js'))) execFileSync('npm', ['run', 'build:cli'], { cwd: root, stdio: 'inherit' });
 const work = mkdtempSync(join(tmpdir(), 'rankfill-thumb-'));
 const html = join(work, 'Coffee cupping panel report.html');
 execFileSync(process.execPath, [join(root, 'bin/rankfill.js'), 'report', join(root, 'samples/coffee-cupping-panel.csv'), '--out', html, '--compare-centering'], { stdio: 'inherit' });

@@ -96,6 +96,8 @@ describe('study report', () => {
 
   beforeAll(async () => {
     mkdirSync(results, { recursive: true });
+    // bin/rankfill.js runs the built CLI bundle: build it when a focused run comes before any build.
+    if (!existsSync(join(repoRoot, 'out/cli/rankfill.js'))) spawnSync('npm', ['run', 'build:cli'], { cwd: repoRoot, encoding: 'utf8' });
     host = await startHost([], { RANKFILL_EXPORT_DIR: exportDir });
     browser = await launchBrowser();
     page = await browser.newPage({ viewport: { width: 1500, height: 950 } });
