@@ -34,6 +34,8 @@ export const matrixPayloadSchema = z
     colLabels: z.array(z.string()),
     values: z.array(z.number().finite().nullable()),
     scale: scaleSchema,
+    /** Title of the row-label column, when the file gave one. */
+    rowHeader: z.string().max(500).optional(),
   })
   .refine((m) => m.rowLabels.length * m.colLabels.length <= MAX_CELLS, {
     message: `matrix has more than ${MAX_CELLS} cells`,
@@ -192,6 +194,9 @@ export const importInfoSchema = z.object({
   detectedScale: z.object({ min: z.number(), max: z.number(), step: z.number() }),
   duplicatePairs: z.number().int(),
   lines: z.number().int(),
+  rowHeader: z.string().optional(),
+  /** Whether the matrix's scale was given in the preview or guessed from the values. */
+  scaleSource: z.enum(['given', 'guessed']).optional(),
   /** True when the parse ran in a worker thread. */
   offThread: z.boolean(),
 });
@@ -253,6 +258,10 @@ export const apiMethods = {
         decimalComma: z.union([z.literal('auto'), z.boolean()]).optional(),
         missingTokens: z.array(z.string().max(20)).max(50).optional(),
         duplicates: z.enum(['refuse', 'last', 'average']).optional(),
+        /** The scale set in the preview; values outside it or between its steps are problems. */
+        scale: scaleSchema.optional(),
+        /** Long layout: columns as read (first appearance) or sorted by label. */
+        columnOrder: z.enum(['as-read', 'sorted']).optional(),
       })
       .strict(),
     reply: z.union([

@@ -34,6 +34,7 @@ export function matrixToPayload(m: RatingMatrix): MatrixPayload {
     colLabels: m.colLabels.slice(),
     values: toNullable(m.values),
     scale: { ...m.scale },
+    ...(m.rowHeader !== undefined ? { rowHeader: m.rowHeader } : {}),
   };
 }
 
@@ -43,6 +44,7 @@ export function matrixFromPayload(p: MatrixPayload): RatingMatrix {
     colLabels: p.colLabels.slice(),
     values: fromNullable(p.values),
     scale: { ...p.scale },
+    ...(p.rowHeader !== undefined ? { rowHeader: p.rowHeader } : {}),
   };
 }
 

@@ -94,6 +94,8 @@ export function createDocumentHandlers(deps: DocumentHandlerDeps): DocumentHandl
         maxBytes: DEFAULT_MAX_BYTES,
       };
       if (req.missingTokens) options.missingTokens = req.missingTokens;
+      if (req.scale) options.scale = req.scale;
+      if (req.columnOrder) options.columnOrder = req.columnOrder;
       // The size limit is checked before the text goes anywhere.
       const bytes = utf8ByteLength(req.text);
       if (bytes > DEFAULT_MAX_BYTES) {

@@ -123,7 +123,9 @@ export class RatingGrid {
     const decimals = scaleDecimals(m.scale);
     const labelCol: ColDef<RowRecord> = {
       colId: LABEL_COL_ID,
-      headerName: '',
+      // The row-label column keeps the title the imported file gave it (e.g. "Wine").
+      headerName: m.rowHeader ?? '',
+      headerTooltip: m.rowHeader ? `Row labels (${m.rowHeader})` : 'Row labels',
       pinned: 'left',
       lockPinned: true,
       width: LABEL_WIDTH,

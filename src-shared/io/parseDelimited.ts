@@ -261,6 +261,7 @@ function parseInner(
     return fail(problems);
   }
   // The matrix's scale must have max > min; when every observed value is equal, widen by one step (or 1).
+  if (built.rowHeader !== undefined && built.rowHeader.trim() !== '') matrix.rowHeader = built.rowHeader;
   if (given) matrix.scale = { ...given };
   else matrix.scale = scale.max > scale.min ? { ...scale } : { ...scale, max: scale.min + (scale.step > 0 ? scale.step : 1) };
   let observed = 0;

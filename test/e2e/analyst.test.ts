@@ -232,4 +232,58 @@ describe('issue 12 in the browser host', () => {
       await fresh.close();
     });
   });
+
+  describe('import preview', () => {
+    // An invented 0–10 questionnaire where nobody answered below 2.5: the guess is too narrow.
+    const lines = ['Wine,fruit,oak,finish'];
+    for (let i = 1; i <= 26; i++) lines.push(`w${i},${2.5 + ((i * 3) % 8)},${3 + (i % 7)},${i % 5 === 0 ? '' : 4 + ((i * 7) % 6)}`);
+    const body = lines.join('\n') + '\n';
+
+    it('shows the first 20 rows as a table under the file’s row-label title and explains the guessed scale', async () => {
+      await page.setInputFiles('[data-testid=import-file]', { name: 'wines.csv', mimeType: 'text/csv', buffer: Buffer.from(body) });
+      await page.waitForSelector('[data-testid=import-dialog]');
+      const table = await page.evaluate(() =>
+        [...document.querySelectorAll('[data-testid=import-table] tr')].map((tr) => [...tr.children].map((c) => (c.textContent ?? '').trim())),
+      );
+      expect(table).toHaveLength(21); // header + 20 rows of 26
+      expect(table[0]).toEqual(['Wine', 'fruit', 'oak', 'finish']);
+      expect(table[1]).toEqual(lines[1].split(','));
+      expect(table[20]).toEqual(lines[20].split(','));
+      expect(await page.textContent('[data-testid=import-dialog]')).toContain('6 more rows not shown');
+      const note = (await page.textContent('[data-testid=import-scale-note]')) ?? '';
+      expect(note).toContain('Guessed from the values: the lowest is 2.5, the highest 9.5, and every value is a multiple of 0.5');
+      await page.screenshot({ path: '/tmp/i12-import-preview.png' });
+    });
+
+    it('a scale set in the preview is used; off-step values are listed with line and column', async () => {
+      await page.fill('[data-testid=import-scaleMin]', '0');
+      await page.fill('[data-testid=import-scaleMax]', '10');
+      await page.fill('[data-testid=import-scaleStep]', '1');
+      await page.click('[data-testid=import-recheck]');
+      await page.waitForSelector('[data-testid=import-problems]');
+      // w1: fruit = 2.5 + 3 = 5.5 (line 2, field 2) lies between 5 and 6.
+      expect(await page.textContent('[data-testid=import-problems]')).toContain('2:2: 5.5 lies between the allowed values 5 and 6 (scale 0–10 in steps of 1)');
+      expect(await page.locator('[data-testid=import-open]').count()).toBe(0);
+      await page.fill('[data-testid=import-scaleStep]', '0.5');
+      await page.click('[data-testid=import-recheck]');
+      await page.waitForSelector('[data-testid=import-open]');
+      expect(await page.textContent('[data-testid=import-summary]')).toContain('0–10 in steps of 0.5');
+      await page.click('[data-testid=import-open]');
+      await expect.poll(() => page.evaluate(() => (window as unknown as { rankfillApp: AppHandle }).rankfillApp.store.current.scale)).toEqual({ min: 0, max: 10, step: 0.5 });
+      // The row-label column keeps the file's title.
+      expect(((await page.textContent('.ag-header-cell[col-id="rowLabel"]')) ?? '').trim()).toBe('Wine');
+    });
+
+    it('a long file’s columns can be kept as read or sorted', async () => {
+      const long = 'taster,item,score\nt1,item 10,3\nt1,item 2,4\nt2,item 1,5\nt2,item 10,2\n';
+      await page.setInputFiles('[data-testid=import-file]', { name: 'long.csv', mimeType: 'text/csv', buffer: Buffer.from(long) });
+      await page.waitForSelector('[data-testid=import-dialog]');
+      const header = () => page.evaluate(() => [...document.querySelectorAll('[data-testid=import-table] thead th')].map((c) => (c.textContent ?? '').trim()));
+      expect(await header()).toEqual(['taster', 'item 10', 'item 2', 'item 1']);
+      await page.selectOption('[data-testid=import-columnOrder]', 'sorted');
+      await page.click('[data-testid=import-recheck]');
+      await expect.poll(header).toEqual(['taster', 'item 1', 'item 2', 'item 10']);
+      await page.click('[data-testid=dialog-cancel]');
+    });
+  });
 });
