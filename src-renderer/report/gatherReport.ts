@@ -10,7 +10,9 @@ import type { ReportInput } from '../../src-shared/report/reportInput';
 import { REPORT_FOLDS, reportEvaluationSettings } from '../../src-shared/report/reportEvaluation';
 import type { PanelContext } from '../panels/panelContext';
 import { sha256Hex } from '../panels/sha256';
+import { intervalsOfRun } from '../runs/runIntervals';
 import type { Run } from '../runs/runStore';
+import { reportIntervals } from '../../src-shared/report/reportIntervals';
 import type { StudyRecord } from './studyRecord';
 
 export interface GatherOptions {
@@ -29,6 +31,8 @@ export async function gatherReport(ctx: PanelContext, record: StudyRecord, run: 
     record.setEvaluation(run.id, evaluation, revision);
   }
   const trace = run.result.objectiveTrace;
+  // The run's intervals at the level chosen in the page, when its trust carries a calibration.
+  const intervals = intervalsOfRun(run, m.scale, ctx.view.state.intervalLevel);
   // The first Fill may have chosen its settings from the data (runs/firstFill.ts): say so when this run uses them.
   const chosen = ctx.settings.origin === 'chosen' && JSON.stringify(ctx.settings.value) === JSON.stringify(run.settings);
   const candidates = /of (\d+) settings/.exec(ctx.settings.reason)?.[1];
@@ -51,6 +55,7 @@ export async function gatherReport(ctx: PanelContext, record: StudyRecord, run: 
     },
     evaluation,
     choice: chosen ? { reason: ctx.settings.reason, folds: AUTO_FOLDS, candidates: candidates ? Number(candidates) : null, meanRmse: null, baselineMeanRmse: null } : null,
+    intervals: intervals ? reportIntervals(intervals) : null,
     centering: record.grid('centering'),
     tuning: record.grid('tuning'),
     exports: record.exportsOf(run.id),

@@ -157,6 +157,10 @@ describe('study report', () => {
       expect(await opened.page.textContent('[data-testid="report-exports"]')).toContain(exportPath);
       expect(await opened.page.locator('[data-testid="report-centering-chart"]').count()).toBe(1);
       expect(await opened.page.textContent('[data-testid="report-caution"]')).toContain('Filled values are model estimates');
+      // When the run's trust carries an interval calibration, the report has the intervals section at the page's level.
+      const hasIntervals = await page.evaluate(() => Boolean((window as unknown as { rankfillApp: { runs: { shown: { trust?: { intervals?: unknown } } } } }).rankfillApp.runs.shown.trust?.intervals));
+      expect(await opened.page.locator('[data-testid="report-intervals"]').count()).toBe(hasIntervals ? 1 : 0);
+      if (hasIntervals) expect(opened.methods).toContain('Each filled value was given an 80 % cross-validated normalized conformal prediction interval');
       await opened.page.screenshot({ path: join(results, 'report-window.png'), fullPage: true });
       const printed = await printAndRender(opened.page, 'report-window');
       expect(printed.pages).toBeGreaterThanOrEqual(3);
