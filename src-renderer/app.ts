@@ -58,7 +58,8 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
     store,
     styleNonce,
     onRefused: (message) => notice.show(message, 'error'),
-    onCellFocused: (row, col) => cellPanel?.focus(row, col),
+    // The focused cell lives in the view store; the Cell tab follows it.
+    onCellFocused: (row, col) => view.set({ focused: { row, col } }),
   });
   // Unless a width is remembered, the side panel takes about a quarter of the window (between 280 and 360 px).
   const view = new ViewStore(window.localStorage, Math.min(360, Math.max(280, Math.round(window.innerWidth * 0.27))));
@@ -104,6 +105,10 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   const ctx: PanelContext = { bridge, store, runs, controller, grid, notice, settings, view, side, record };
   mountRunsPanel(runsRoot, ctx);
   cellPanel = mountCellPanel(cellRoot, ctx);
+  view.subscribe((changed) => {
+    const f = view.state.focused;
+    if (changed.has('focused') && f) cellPanel?.focus(f.row, f.col);
+  });
   mountCenteringPanel(centeringRoot, ctx);
   mountTuningPanel(tuningRoot, ctx);
   syncGridWithRuns(ctx);
