@@ -1,6 +1,18 @@
 /** Page entry: connect to whichever host is present and start the workbench. */
 import { messageOf, startApp } from './app';
-import { connectToHost } from './bridge/hostBridge';
+import { ApiCallError, connectToHost } from './bridge/hostBridge';
+
+/** Why the page could not start, and what to do. */
+function startFailure(err: unknown): string {
+  if (err instanceof ApiCallError && err.code === 'unauthorized') {
+    return (
+      'Rankfill could not start: this page was opened without its access token. ' +
+      'Open the address printed in the terminal where Rankfill was started (it ends in #token=…); ' +
+      'the token is new each time Rankfill starts.'
+    );
+  }
+  return `Rankfill could not start: ${messageOf(err)}`;
+}
 
 function styleNonce(): string {
   const meta = document.querySelector<HTMLMetaElement>('meta[name="rankfill-style-nonce"]');
@@ -18,6 +30,9 @@ startApp(bridge, styleNonce())
     if (el) {
       el.hidden = false;
       el.classList.add('rf-error');
-      el.textContent = `Rankfill could not start: ${messageOf(err)}`;
+      el.textContent = startFailure(err);
     }
+    // Nothing else is shown: the grid's own empty text would only distract from the reason.
+    document.body.dataset.startFailed = 'true';
+    document.querySelector<HTMLElement>('[data-testid="grid"]')?.setAttribute('hidden', '');
   });

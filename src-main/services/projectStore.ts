@@ -7,6 +7,7 @@
  * kept as NAME.bak). Reading checks the size limit before reading.
  */
 import path from 'node:path';
+import { existsSync } from 'node:fs';
 import type { Problem } from '../../src-shared/io/problem';
 import { DEFAULT_MAX_BYTES, parseDelimited, type ParseOptions, type ParseResult } from '../../src-shared/io/parseDelimited';
 import type { ProjectDocument } from '../../src-shared/project/projectDocument';
@@ -62,7 +63,13 @@ export async function saveProjectFile(filePath: string, doc: ProjectDocument, op
   try {
     await atomicWrite(abs, text, { backup: opts.backup ?? true, fsync: opts.fsync ?? true });
   } catch (err) {
-    return { ok: false, problems: [{ file: path.basename(abs), line: 1, column: 1, message: `cannot save: ${describeFsError(err)}; the file on disk is unchanged` }] };
+    const code = (err as { code?: string } | null)?.code;
+    const folder = path.dirname(abs);
+    const message =
+      code === 'ENOENT' && !existsSync(folder)
+        ? `cannot save: the folder ${folder} does not exist; create it first or choose another folder (nothing was written)`
+        : `cannot save: ${describeFsError(err)}; the file on disk is unchanged`;
+    return { ok: false, problems: [{ file: path.basename(abs), line: 1, column: 1, message }] };
   }
   return { ok: true, path: abs, bytes, backupKept: opts.backup ?? true };
 }

@@ -8,6 +8,7 @@ import type { Delimiter } from '../../src-shared/io/detectDelimiter';
 import {
   ESTIMATE_CAUTION,
   buildExport,
+  buildMask,
   buildSidecar,
   sidecarIntervals,
   matrixFingerprintText,
@@ -29,6 +30,25 @@ const KIND_WORDS: Record<ExportKind, [string, string]> = {
   long: ['Long layout', 'one line per cell: row, column, value, source (observed or filled), baseline, spread, and the interval’s lower and upper bounds at the level set in the Model tab'],
 };
 
+const DECIMALS_KEY = 'rankfill.export.decimals';
+
+function rememberedDecimals(): string {
+  try {
+    const v = localStorage.getItem(DECIMALS_KEY);
+    return v === null ? '2' : v;
+  } catch {
+    return '2';
+  }
+}
+
+function rememberDecimals(v: string): void {
+  try {
+    localStorage.setItem(DECIMALS_KEY, v);
+  } catch {
+    // storage refused: the choice lasts for this page only
+  }
+}
+
 export function createExportDialog(ctx: PanelContext, appVersion: string): { open(): Promise<void> } {
   const dialog = el('dialog', { className: 'rf-dialog', testid: 'export-dialog' });
   document.body.append(dialog);
@@ -39,8 +59,13 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
   const roundStep = el('input', { testid: 'export-round' });
   roundStep.type = 'checkbox';
   const decimals = numberInput('export-decimals', 2, { min: 0, max: 10, step: 1 });
-  decimals.value = '';
+  // Two decimals by default; the last choice is remembered (blank = full precision).
+  decimals.value = rememberedDecimals();
   decimals.placeholder = 'full';
+  decimals.addEventListener('change', () => rememberDecimals(decimals.value.trim()));
+  const mask = el('input', { testid: 'export-mask' });
+  mask.type = 'checkbox';
+  mask.checked = false;
   const delimiter = el('select', { testid: 'export-delimiter' });
   delimiter.append(new Option('comma', ','), new Option('semicolon', ';'), new Option('tab', '\t'));
   const sidecar = el('input', { testid: 'export-sidecar' });
@@ -75,6 +100,7 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
       formulaGuard,
       'A label starting with = + - or @ gets a leading apostrophe, so a spreadsheet shows it as text instead of running it. Numbers are never changed.',
     ),
+    field('Also write a mask file (wide layouts)', mask, 'NAME.mask.csv beside the export: the same rows and columns, each cell “observed” or “filled”, so every estimate is marked cell by cell.'),
     field('Also write a settings file', sidecar, 'NAME.settings.json beside the export: settings, seed, errors, app version, time and a hash of the input.'),
     el('label', { className: 'rf-form-field rf-wide' }, [el('span', { className: 'rf-form-label' }, ['File']), path]),
     status,
@@ -126,9 +152,9 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
       : undefined;
     write.disabled = true;
     try {
-      const reply = await ctx.bridge.call('export.write', { path: path.value.trim(), text, overwrite, ...(sidecarText ? { sidecar: sidecarText } : {}) });
+      const reply = await ctx.bridge.call('export.write', { path: path.value.trim(), text, overwrite, ...(sidecarText ? { sidecar: sidecarText } : {}), ...(mask.checked && options.kind !== 'long' ? { mask: buildMask(m, options.delimiter) } : {}) });
       if (reply.ok) {
-        status.textContent = `Written: ${reply.path}${reply.sidecarPath ? ` and ${reply.sidecarPath}` : ''}.`;
+        status.textContent = `Written: ${reply.path}${reply.sidecarPath ? ` and ${reply.sidecarPath}` : ''}${reply.maskPath ? ` and ${reply.maskPath}` : ''}.`;
         ctx.record.addExport(run.id, { path: reply.path, sidecarPath: reply.sidecarPath, writtenAt: new Date().toISOString() });
         ctx.notice.show(`Exported to ${reply.path}. Filled values in it are model estimates.`);
       } else if (reply.reason === 'exists') {

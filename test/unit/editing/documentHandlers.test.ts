@@ -72,6 +72,13 @@ describe('document handlers', () => {
     expect(readFileSync(p, 'utf8')).toBe(before);
   });
 
+  it('saving into a folder that does not exist says so and what to do', async () => {
+    const p = join(dir, 'no-such-folder', 'x.rankfill');
+    const reply = await h['project.save']({ path: p, projectText: project(3) });
+    expect(reply.ok).toBe(false);
+    if (!reply.ok) expect(reply.problems[0].message).toBe(`cannot save: the folder ${join(dir, 'no-such-folder')} does not exist; create it first or choose another folder (nothing was written)`);
+  });
+
   it('opening a truncated or future-version file answers with problems, never a project', async () => {
     const t = join(dir, 'trunc.rankfill');
     writeFileSync(t, project(4).slice(0, 60));
