@@ -1,15 +1,19 @@
 /**
- * The objective per iteration, drawn live while a fit runs (uPlot): a log scale for
- * the low-rank objective, a linear one for the Gaussian model's log-likelihood.
+ * How a fit converges, drawn live while it runs (uPlot): the relative change of the
+ * objective (low-rank) or of the log-likelihood (Gaussian) from one iteration to the next,
+ *   r_t = |f_t − f_{t−1}| / max(|f_{t−1}|, tiny),
+ * on a log scale. The objective itself moves by a fraction of a percent after the first
+ * iterations and looks flat on any axis; its relative change falls by decades until it
+ * passes the tolerance, so settling can be seen. The first iteration has no change to show.
  */
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 import { axisStyle, chartColours } from './chartStyle';
+import { relativeChanges } from './relativeChange';
+
 
 export class ObjectiveChart {
   private plot: uPlot;
-  /** Log scale for a positive objective; a log-likelihood (negative) is drawn on a linear scale. */
-  private logScale = true;
 
   constructor(
     private readonly host: HTMLElement,
@@ -27,10 +31,10 @@ export class ObjectiveChart {
         height,
         legend: { show: false },
         cursor: { show: false },
-        scales: { x: { time: false }, y: { distr: this.logScale ? 3 : 1 } },
+        scales: { x: { time: false }, y: { distr: 3 } },
         axes: [
           { ...axisStyle, label: 'iteration', size: 36 },
-          { ...axisStyle, label: this.logScale ? 'objective' : 'log-likelihood', size: 52, values: (_u, vals) => vals.map((v) => (v === null ? '' : formatCompact(v))) },
+          { ...axisStyle, label: 'relative change', size: 52, values: (_u, vals) => vals.map((v) => (v === null ? '' : v.toExponential(0))) },
         ],
         series: [{}, { stroke: chartColours.accent, width: 2, points: { show: false } }],
       },
@@ -40,14 +44,7 @@ export class ObjectiveChart {
   }
 
   set(iterations: number[], objective: number[]): void {
-    const finite = objective.filter((v) => Number.isFinite(v));
-    const wantLog = finite.every((v) => v > 0);
-    if (wantLog !== this.logScale) {
-      this.logScale = wantLog;
-      this.plot.destroy();
-      this.plot = this.build();
-    }
-    this.plot.setData([iterations, objective.map((v) => (Number.isFinite(v) && (!wantLog || v > 0) ? v : null))] as uPlot.AlignedData);
+    this.plot.setData([iterations, relativeChanges(objective)] as uPlot.AlignedData);
     // How many points are drawn (for tests and assistive checks; the canvas itself says nothing).
     this.host.dataset.points = String(iterations.length);
   }

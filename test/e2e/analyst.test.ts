@@ -183,6 +183,9 @@ describe('issue 12 in the browser host', () => {
       expect(await page.textContent('[data-testid=cell-facts]')).toContain('Fold-model spread');
       expect(await page.textContent('[data-testid=cell-spread-note]')).toContain('it is not an error bar');
       await page.screenshot({ path: '/tmp/i12-cell-lowrank.png' });
+      await page.click('[data-testid=tab-model]');
+      expect(Number(await page.getAttribute('[data-testid=objective-chart]', 'data-points'))).toBeGreaterThan(2);
+      await page.screenshot({ path: '/tmp/i12-objective-chart.png' });
     });
   });
 
