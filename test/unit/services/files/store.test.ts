@@ -85,7 +85,7 @@ describe('projectStore', () => {
     if (!folder.ok) expect(folder.problems[0].message).toBe('this is a folder, not a file');
     const cantSave = await saveProjectFile(path.join(work, 'missing-dir', 'x.rankfill'), crashTestVersion(0));
     expect(cantSave.ok).toBe(false);
-    if (!cantSave.ok) expect(cantSave.problems[0].message).toBe('cannot save: file not found; the file on disk is unchanged');
+    if (!cantSave.ok) expect(cantSave.problems[0].message).toBe(`cannot save: the folder ${path.join(work, 'missing-dir')} does not exist; create it first or choose another folder (nothing was written)`);
   });
 
   it('checks the size limit before reading', async () => {
