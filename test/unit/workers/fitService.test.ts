@@ -161,12 +161,13 @@ describe('FitService with a real worker', () => {
 
   it('kills a worker that exceeds its memory limit and reports it', async () => {
     service = new FitService({
-      // A tiny heap limit and a grid whose result table of plain JS objects cannot fit in it.
-      resourceLimits: { maxOldGenerationSizeMb: 8, maxYoungGenerationSizeMb: 2 },
+      // A small heap limit (room for a fresh worker and one small fit, measured: 8 MB no longer
+      // held the worker itself) and a grid whose result table of plain JS objects cannot fit in it.
+      resourceLimits: { maxOldGenerationSizeMb: 24, maxYoungGenerationSizeMb: 4 },
       createWorker: makeWorker,
     });
     const { matrix } = lowRankCase(20, 10, 1, 0.3, 0.8, 77);
-    const list = expandLowRankGrid({ ranks: [0], lambdas: Array.from({ length: 400000 }, (_, i) => i + 1), centerings: ['none'] });
+    const list = expandLowRankGrid({ ranks: [0], lambdas: Array.from({ length: 1500000 }, (_, i) => i + 1), centerings: ['none'] });
     const o = await outcome(service, service.startTune(matrix, list, 2, 1));
     expect(o).toMatchObject({ kind: 'error', message: expect.stringMatching(/stopped unexpectedly \(out of memory\)/) });
     // And the service recovers with a fresh worker.
