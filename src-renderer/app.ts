@@ -21,8 +21,8 @@ import type { PanelContext } from './panels/panelContext';
 import { mountRunsPanel } from './panels/runsPanel';
 import { SidePanel } from './panels/sidePanel';
 import { renderStatusLine } from './panels/statusLine';
-import { syncGridWithRuns } from './runs/gridSync';
-import { installRunPersistence } from './runs/runPersistence';
+import { syncGridWithRuns } from './grid/gridSync';
+import { installRunPersistence } from './editing/runPersistence';
 import { FitController } from './runs/fitController';
 import { fillAdaptively } from './runs/firstFill';
 import { RunStore } from './runs/runStore';
@@ -52,8 +52,6 @@ export interface App extends PanelContext {
 export async function startApp(bridge: HostBridge, styleNonce: string): Promise<App> {
   const notice = new Notice(byTestId('notice'));
   const store = new DocumentStore({ rowLabels: [], colLabels: [], values: new Float64Array(0), scale: { min: 1, max: 5, step: 1 } });
-  let cellPanel: { focus(row: number, col: number): void } | undefined;
-  let side: SidePanel | undefined;
   const grid = new RatingGrid(byTestId('grid'), {
     store,
     styleNonce,
@@ -81,7 +79,7 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   runs.subscribe(refreshStatus);
 
   // Side panel: model, runs, cell details, centering comparison, tuning.
-  side = new SidePanel(byTestId('side-panel'), view);
+  const side = new SidePanel(byTestId('side-panel'), view);
   const modelRoot = side.add('model', 'Model');
   const runsRoot = side.add('runs', 'Runs');
   const cellRoot = side.add('cell', 'Cell');
@@ -104,10 +102,10 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   const record = new StudyRecord(store);
   const ctx: PanelContext = { bridge, store, runs, controller, grid, notice, settings, view, side, record };
   mountRunsPanel(runsRoot, ctx);
-  cellPanel = mountCellPanel(cellRoot, ctx);
+  const cellPanel = mountCellPanel(cellRoot, ctx);
   view.subscribe((changed) => {
     const f = view.state.focused;
-    if (changed.has('focused') && f) cellPanel?.focus(f.row, f.col);
+    if (changed.has('focused') && f) cellPanel.focus(f.row, f.col);
   });
   mountCenteringPanel(centeringRoot, ctx);
   mountTuningPanel(tuningRoot, ctx);
@@ -216,7 +214,7 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
       toggleOverlay: () => view.set({ overlayVisible: !view.state.overlayVisible }),
       toggleSidePanel: () => view.setLayout({ sideCollapsed: !view.state.layout.sideCollapsed }),
       fill: () => fill(),
-      showTab: (tab) => side?.select(tab),
+      showTab: (tab) => side.select(tab),
       showGuide: () => helpDialog(),
     }),
     (id, err) => notice.show(`${id}: ${messageOf(err)}`, 'error'),

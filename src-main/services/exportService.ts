@@ -29,7 +29,7 @@ export function defaultExportDir(env: NodeJS.ProcessEnv = process.env): string {
 
 /** A path in the export folder that does not exist yet: name.csv, name-2.csv, … */
 export function suggestExportPath(fileName: string, dir = defaultExportDir()): string {
-  const safe = fileName.replace(/[\\/:*?"<>|\u0000-\u001f]/g, '_').slice(0, 200) || 'export.csv';
+  const safe = fileName.replace(/[\\/:*?"<>|]/g, '_').replace(/\p{Cc}/gu, '_').slice(0, 200) || 'export.csv';
   const ext = extname(safe) || '.csv';
   const stem = basename(safe, extname(safe));
   for (let n = 1; n < 10_000; n++) {

@@ -64,7 +64,7 @@ export class ViewStore {
     private readonly storage: LayoutStorage | null = null,
     defaultWidth = SIDE_DEFAULT_WIDTH,
   ) {
-    let stored: string | null = null;
+    let stored: string | null;
     try {
       stored = storage?.getItem(LAYOUT_KEY) ?? null;
     } catch {

@@ -198,7 +198,6 @@ export function scanJson(text: string, onClose?: OnClose): JsonSyntaxError | nul
       skipWs();
       if (text[i] === close) return fail(i, `a comma before ${close}: remove the last comma`);
     }
-    justOpened = false;
     if (top === OBJ) {
       skipWs();
       if (i >= n) return early('an object');

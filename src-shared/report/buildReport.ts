@@ -301,7 +301,7 @@ export function buildReport(input: ReportInput): string {
   );
   const intervals = input.intervals ? intervalsSection(input, ++n) : '';
   const caution = cautionSection(++n);
-  const provenance = provenanceSection(input, ++n);
+  const provenance = provenanceSection(input, n + 1);
   const head =
     `<meta charset="utf-8">` +
     tag('meta', { 'http-equiv': 'Content-Security-Policy', content: REPORT_CSP }).replace('></meta>', '>') +

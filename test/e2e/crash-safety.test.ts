@@ -11,22 +11,20 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { TOKEN_HEADER } from '../../src-shared/ipcChannels';
 import { newProjectDocument } from '../../src-shared/project/projectDocument';
 import { parseProject, serializeProject } from '../../src-shared/project/projectFile';
+import { callApi, type PageWithApp } from './support/apiCall';
 import { launchBrowser } from './support/browser';
 import { startHost, type RunningHost } from './support/hostProcess';
 
 const TRIALS = 25;
 
-async function call(host: RunningHost, method: string, payload: unknown): Promise<{ ok: boolean; data?: any; error?: any }> {
-  const res = await fetch(new URL('/api/call', host.url), {
-    method: 'POST',
-    headers: { 'Content-Type': 'application/json', [TOKEN_HEADER]: host.token },
-    body: JSON.stringify({ method, payload }),
-  });
-  return (await res.json()) as { ok: boolean; data?: any };
+interface SaveReply {
+  ok?: boolean;
+  entries?: unknown[];
 }
+
+const call = (host: RunningHost, method: string, payload: unknown) => callApi<SaveReply>(host, method, payload);
 
 /** A project whose notes carry its version number; ~60 × 40 cells so a save takes a moment. */
 function versionText(v: number): string {
@@ -90,7 +88,7 @@ describe('crash safety of saves through the browser host', () => {
       const first = ++version;
       sent.add(first);
       const firstReply = await call(host, 'project.save', { path: target, projectText: versionText(first) });
-      if (firstReply.ok && firstReply.data.ok) acknowledged = first;
+      if (firstReply.ok && firstReply.data?.ok) acknowledged = first;
       const killAfter = Math.floor(Math.random() * 250);
       const killer = new Promise<void>((r) => setTimeout(r, killAfter)).then(() => killHard(host));
       let alive = true;
@@ -100,7 +98,7 @@ describe('crash safety of saves through the browser host', () => {
         sent.add(v);
         try {
           const reply = await call(host, 'project.save', { path: target, projectText: versionText(v) });
-          if (reply.ok && reply.data.ok) acknowledged = v;
+          if (reply.ok && reply.data?.ok) acknowledged = v;
         } catch {
           break; // connection dropped by the kill
         }
@@ -109,7 +107,7 @@ describe('crash safety of saves through the browser host', () => {
       trials++;
       if (sent.size > 1) killedMidLoop++;
       // The file must parse, completely, as the old version or one of the versions sent.
-      let text = '';
+      let text: string;
       try {
         text = readFileSync(target, 'utf8');
       } catch {
@@ -173,7 +171,7 @@ describe('crash safety of saves through the browser host', () => {
       await page.click('[data-testid=dialog-confirm]');
       await expect.poll(() => page.textContent('.ag-header-cell[col-id="c0"]')).toContain('Recovered column');
       const edited = await page.evaluate(() => {
-        const s = (window as any).rankfillApp.store.current;
+        const s = (window as unknown as PageWithApp).rankfillApp.store.current;
         return { rowLabels: s.rowLabels, colLabels: s.colLabels, values: Array.from(s.values as Float64Array, (v: number) => (Number.isNaN(v) ? null : v)) };
       });
       // Autosave writes within a few seconds of the last change.
@@ -199,7 +197,7 @@ describe('crash safety of saves through the browser host', () => {
       await page2.click('[data-testid=restore-accept]');
       await expect.poll(() => page2.textContent('.ag-header-cell[col-id="c0"]')).toContain('Recovered column');
       const restored = await page2.evaluate(() => {
-        const s = (window as any).rankfillApp.store.current;
+        const s = (window as unknown as PageWithApp).rankfillApp.store.current;
         return { rowLabels: s.rowLabels, colLabels: s.colLabels, values: Array.from(s.values as Float64Array, (v: number) => (Number.isNaN(v) ? null : v)) };
       });
       expect(restored).toEqual(edited);

@@ -10,21 +10,19 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { TOKEN_HEADER } from '../../src-shared/ipcChannels';
+import { callApi, type PageWithApp } from './support/apiCall';
 import { launchBrowser } from './support/browser';
 import { repoRoot, startHost, type RunningHost } from './support/hostProcess';
 
 const badDir = join(repoRoot, 'test/fixtures/bad');
 const files = readdirSync(badDir).sort();
 
-async function call(host: RunningHost, method: string, payload: unknown): Promise<any> {
-  const res = await fetch(new URL('/api/call', host.url), {
-    method: 'POST',
-    headers: { 'Content-Type': 'application/json', [TOKEN_HEADER]: host.token },
-    body: JSON.stringify({ method, payload }),
-  });
-  return res.json();
+interface RefusalReply {
+  ok: boolean;
+  problems: { line: number; column: number; message: string }[];
 }
+
+const call = (host: RunningHost, method: string, payload: unknown) => callApi<RefusalReply>(host, method, payload);
 
 describe('bad inputs through the browser host', () => {
   let host: RunningHost;
@@ -54,7 +52,7 @@ describe('bad inputs through the browser host', () => {
         rows.push(`${name}: API error ${reply.error?.code}: ${reply.error?.message}`);
         continue;
       }
-      const data = reply.data;
+      const data = reply.data!;
       expect(data.ok, name).toBe(false);
       expect(data.problems.length, name).toBeGreaterThan(0);
       for (const p of data.problems) {
@@ -77,7 +75,7 @@ describe('bad inputs through the browser host', () => {
     await page.waitForSelector('body[data-ready="true"]', { timeout: 30_000 });
     const snapshot = () =>
       page.evaluate(() => {
-        const s = (window as any).rankfillApp.store;
+        const s = (window as unknown as PageWithApp).rankfillApp.store;
         return JSON.stringify({ t: s.title, r: s.current.rowLabels, c: s.current.colLabels, v: Array.from(s.current.values as Float64Array, (x: number) => (Number.isNaN(x) ? null : x)) });
       });
     const before = await snapshot();

@@ -27,7 +27,9 @@ describe('missing pattern', () => {
     expect(p.observed).toBe([...p.rowCounts].reduce((a, b) => a + b, 0));
     // Small matrices keep one block per cell, the share being 1 or 0.
     expect([p.map.blockRows, p.map.blockCols, p.map.rowsPerBlock, p.map.colsPerBlock]).toEqual([7, 5, 1, 1]);
-    expect(p.map.share[1 * 5 + 3]).toBe((1 * 3 + 3 * 7) % 4 !== 0 ? 1 : 0);
+    // Cell (1, 3): (1·3 + 3·7) % 4 = 0, so it is blank and its block's share is 0; cell (1, 2) is observed.
+    expect(p.map.share[1 * 5 + 3]).toBe(0);
+    expect(p.map.share[1 * 5 + 2]).toBe(1);
   });
 
   it('downsamples a large matrix into blocks whose share is the observed fraction of the block', () => {

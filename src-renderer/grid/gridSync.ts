@@ -8,12 +8,12 @@
 import { supportOf, weakThreshold } from '../../src-shared/engine/trust';
 import type { FitResult } from '../../src-shared/engine/types';
 import type { RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
-import type { BaselineLayer, GridLayers, WeakMarks } from '../grid/overlayLayer';
+import type { BaselineLayer, GridLayers, WeakMarks } from './overlayLayer';
 import type { PanelContext } from '../panels/panelContext';
 import { DEFAULT_INTERVAL_LEVEL } from '../../src-shared/engine/intervals';
-import { runFitsDocument } from './runMatch';
-import { intervalsOfRun } from './runIntervals';
-import type { Run } from './runStore';
+import { runFitsDocument } from '../runs/runMatch';
+import { intervalsOfRun } from '../runs/runIntervals';
+import type { Run } from '../runs/runStore';
 
 export function baselineLayer(result: FitResult): BaselineLayer {
   const s = result.settings;

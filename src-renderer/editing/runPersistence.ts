@@ -9,9 +9,9 @@
  */
 import type { SavedRun } from '../../src-shared/project/projectDocument';
 import type { PanelContext } from '../panels/panelContext';
-import { describeSettings } from './describeSettings';
-import { runFitsDocument } from './runMatch';
-import type { Run } from './runStore';
+import { describeSettings } from '../runs/describeSettings';
+import { runFitsDocument } from '../runs/runMatch';
+import type { Run } from '../runs/runStore';
 
 const MAX_SAVED_PREDICTION_CELLS = 250_000;
 
