@@ -39,7 +39,10 @@ export default tseslint.config(
         'error',
         {
           patterns: [
-            { group: ['node:*', 'electron', 'fs', 'path', 'os', 'worker_threads'], message: 'src-shared runs anywhere: no Node or Electron imports.' },
+            {
+              group: ['node:*', 'electron', 'fs', 'path', 'os', 'worker_threads'],
+              message: 'src-shared runs anywhere: no Node or Electron imports.',
+            },
             { group: ['**/src-main/**', '**/src-renderer/**'], message: 'src-shared imports only itself.' },
           ],
         },
@@ -53,8 +56,14 @@ export default tseslint.config(
         'error',
         {
           patterns: [
-            ...viewFolders.map((f) => ({ group: [`../${f}/*`, `../../${f}/*`], message: 'Stores never import views.' })),
-            { group: ['**/src-main/**', 'node:*', 'electron'], message: 'The page talks to the main side only through bridge/.' },
+            ...viewFolders.map((f) => ({
+              group: [`../${f}/*`, `../../${f}/*`],
+              message: 'Stores never import views.',
+            })),
+            {
+              group: ['**/src-main/**', 'node:*', 'electron'],
+              message: 'The page talks to the main side only through bridge/.',
+            },
           ],
         },
       ],

@@ -39,5 +39,10 @@ export function loadMovieRatings(): RatingMatrix {
   const cols = people.size;
   const values = new Float64Array(rows * cols).fill(NaN);
   for (const [i, j, y] of triples) values[i * cols + j] = y;
-  return { rowLabels: [...films.keys()], colLabels: [...people.keys()], values, scale: { min: 0.5, max: 5, step: 0.5 } };
+  return {
+    rowLabels: [...films.keys()],
+    colLabels: [...people.keys()],
+    values,
+    scale: { min: 0.5, max: 5, step: 0.5 },
+  };
 }

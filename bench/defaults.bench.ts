@@ -45,7 +45,8 @@ function rmse(m: RatingMatrix, hidden: Int32Array, pred: Float64Array): number {
   return Math.sqrt(se / hidden.length);
 }
 
-const label = (s: FitSettings) => (s.model === 'lowrank' ? `rank ${s.rank}, λ ${s.lambda}, ${s.centering}` : `gaussian ${s.shrinkage}`);
+const label = (s: FitSettings) =>
+  s.model === 'lowrank' ? `rank ${s.rank}, λ ${s.lambda}, ${s.centering}` : `gaussian ${s.shrinkage}`;
 
 async function report(name: string, m: RatingMatrix, withTune: boolean): Promise<void> {
   const { train, hidden } = holdOut(m, 0.2, 1);
@@ -56,47 +57,60 @@ async function report(name: string, m: RatingMatrix, withTune: boolean): Promise
   const plain = score(auto.settings);
   console.log(`${name}: ${hidden.length} hidden ratings`);
   console.log(`  rank-0 fill (baselines alone): hold-out RMSE ${r0.toFixed(4)}`);
-  console.log(`  plain fill (${auto.reason}): ${plain.toFixed(4)} (${((performance.now() - t) / 1000).toFixed(1)} s) — ${plain <= r0 ? 'no worse than rank 0' : 'WORSE than rank 0'}; ${load()}`);
+  console.log(
+    `  plain fill (${auto.reason}): ${plain.toFixed(4)} (${((performance.now() - t) / 1000).toFixed(1)} s) — ${plain <= r0 ? 'no worse than rank 0' : 'WORSE than rank 0'}; ${load()}`,
+  );
   if (!withTune) return;
   t = performance.now();
   const tuned = await tuneDefault(train, { folds: 5, seed: 1 });
   const secs = (performance.now() - t) / 1000;
   const one = score(tuned.oneStandardError.settings);
   const best = score(tuned.best.settings);
-  console.log(`  default tune (${tuned.table.length} settings, refined with λ ${tuned.refinedLambdas.join(', ') || '—'}; ${secs.toFixed(1)} s in-process): one-SE ${label(tuned.oneStandardError.settings)} → ${one.toFixed(4)}; best ${label(tuned.best.settings)} → ${best.toFixed(4)}${name.startsWith("movie") ? "; target ≤ 0.846" : ""}; ${load()}`);
+  console.log(
+    `  default tune (${tuned.table.length} settings, refined with λ ${tuned.refinedLambdas.join(', ') || '—'}; ${secs.toFixed(1)} s in-process): one-SE ${label(tuned.oneStandardError.settings)} → ${one.toFixed(4)}; best ${label(tuned.best.settings)} → ${best.toFixed(4)}${name.startsWith('movie') ? '; target ≤ 0.846' : ''}; ${load()}`,
+  );
 }
 
 async function main(): Promise<void> {
-await report('tall invented panel 600 × 20', parseWide(tallPanelCsv()), true);
-if (!movieRatingsAvailable()) console.log(`movie set: skipped (${movieRatingsPath} is absent)`);
-else {
-  const m = loadMovieRatings();
-  await report('movie-ratings-small', m, process.env.BENCH_SKIP_TUNE !== '1');
-  const bin = resolve(here, '../bin/rankfill.js');
-  const cli = resolve(here, '../out/cli');
-  if (!existsSync(cli)) console.log('whole-process tune: skipped (run npm run build:cli first)');
+  await report('tall invented panel 600 × 20', parseWide(tallPanelCsv()), true);
+  if (!movieRatingsAvailable()) console.log(`movie set: skipped (${movieRatingsPath} is absent)`);
   else {
-    const dir = mkdtempSync(join(tmpdir(), 'rankfill-bench-'));
-    const file = join(dir, 'movies-long.csv');
-    const lines = ['film,person,rating'];
-    const cols = m.colLabels.length;
-    for (let c = 0; c < m.values.length; c++) if (m.values[c] === m.values[c]) lines.push(`${m.rowLabels[(c / cols) | 0]},${m.colLabels[c % cols]},${m.values[c]}`);
-    writeFileSync(file, lines.join('\n') + '\n');
-    const before = load();
-    const t0 = performance.now();
-    const r = spawnSync(process.execPath, [bin, 'tune', file, '--long', '--scale', '0.5:5:0.5', '--json'], { encoding: 'utf8', maxBuffer: 64 << 20 });
-    const secs = (performance.now() - t0) / 1000;
-    const choice = r.status === 0 ? JSON.parse(r.stdout).choice : undefined;
-    console.log(`  whole-process rankfill tune (defaults) on all ${lines.length - 1} ratings: ${secs.toFixed(1)} s (target < 60 s), exit ${r.status}${choice ? `, choice rank ${choice.rank}, λ ${choice.lambda}` : ''}; ${before} → ${load()}`);
+    const m = loadMovieRatings();
+    await report('movie-ratings-small', m, process.env.BENCH_SKIP_TUNE !== '1');
+    const bin = resolve(here, '../bin/rankfill.js');
+    const cli = resolve(here, '../out/cli');
+    if (!existsSync(cli)) console.log('whole-process tune: skipped (run npm run build:cli first)');
+    else {
+      const dir = mkdtempSync(join(tmpdir(), 'rankfill-bench-'));
+      const file = join(dir, 'movies-long.csv');
+      const lines = ['film,person,rating'];
+      const cols = m.colLabels.length;
+      for (let c = 0; c < m.values.length; c++)
+        if (m.values[c] === m.values[c])
+          lines.push(`${m.rowLabels[(c / cols) | 0]},${m.colLabels[c % cols]},${m.values[c]}`);
+      writeFileSync(file, lines.join('\n') + '\n');
+      const before = load();
+      const t0 = performance.now();
+      const r = spawnSync(process.execPath, [bin, 'tune', file, '--long', '--scale', '0.5:5:0.5', '--json'], {
+        encoding: 'utf8',
+        maxBuffer: 64 << 20,
+      });
+      const secs = (performance.now() - t0) / 1000;
+      const choice = r.status === 0 ? JSON.parse(r.stdout).choice : undefined;
+      console.log(
+        `  whole-process rankfill tune (defaults) on all ${lines.length - 1} ratings: ${secs.toFixed(1)} s (target < 60 s), exit ${r.status}${choice ? `, choice rank ${choice.rank}, λ ${choice.lambda}` : ''}; ${before} → ${load()}`,
+      );
+    }
   }
-}
-
 }
 
 void main();
 
 function parseWide(text: string): RatingMatrix {
-  const rows = text.trim().split('\n').map((l) => l.split(','));
+  const rows = text
+    .trim()
+    .split('\n')
+    .map((l) => l.split(','));
   const colLabels = rows[0].slice(1);
   const body = rows.slice(1);
   const values = new Float64Array(body.length * colLabels.length);

@@ -41,7 +41,12 @@ function generate(rows: number, cols: number, fraction: number, rank: number, se
     for (let t = 0; t < rank; t++) s += u[i * rank + t] * v[j * rank + t];
     values[c] = s + 0.3 * rng.normal();
   }
-  return { rowLabels: Array.from({ length: rows }, (_, i) => `r${i}`), colLabels: Array.from({ length: cols }, (_, j) => `c${j}`), values, scale: { min: -10, max: 16, step: 0 } };
+  return {
+    rowLabels: Array.from({ length: rows }, (_, i) => `r${i}`),
+    colLabels: Array.from({ length: cols }, (_, j) => `c${j}`),
+    values,
+    scale: { min: -10, max: 16, step: 0 },
+  };
 }
 
 function median(xs: number[]): number {
@@ -55,8 +60,10 @@ function fmt(x: number, d = 1): string {
 
 // ---------------------------------------------------------------- 1. ms per iteration
 console.log('1. ALS iteration time, rank 10, centering both, λ 1 (median over iterations 2..N)');
-console.log('   wall = elapsed time; cpu = this process\'s CPU time (less sensitive to other load on the 2 cores)');
-console.log('   size            observed   obs. cells   wall ms/iter   cpu ms/iter   per 100k obs (wall / cpu)   peak RSS (MB)   linear working set (MB)');
+console.log("   wall = elapsed time; cpu = this process's CPU time (less sensitive to other load on the 2 cores)");
+console.log(
+  '   size            observed   obs. cells   wall ms/iter   cpu ms/iter   per 100k obs (wall / cpu)   peak RSS (MB)   linear working set (MB)',
+);
 const sizes: [number, number, number, number][] = [
   [100, 100, 0.1, 10],
   [1000, 500, 0.05, 10],
@@ -71,13 +78,17 @@ for (const [rows, cols, fraction, iters] of sizes) {
   gc?.();
   const stamps: number[] = [];
   const cpu: number[] = [];
-  const fit = fitModel(m, { ...defaultLowRankSettings(), rank: 10, lambda: 1, tolerance: 0, maxIterations: iters }, {
-    onProgress: () => {
-      stamps.push(performance.now());
-      const c = process.cpuUsage();
-      cpu.push((c.user + c.system) / 1000);
+  const fit = fitModel(
+    m,
+    { ...defaultLowRankSettings(), rank: 10, lambda: 1, tolerance: 0, maxIterations: iters },
+    {
+      onProgress: () => {
+        stamps.push(performance.now());
+        const c = process.cpuUsage();
+        cpu.push((c.user + c.system) / 1000);
+      },
     },
-  });
+  );
   const perIter = median(stamps.slice(1).map((t, i) => t - stamps[i]));
   const perIterCpu = median(cpu.slice(1).map((t, i) => t - cpu[i]));
   const n = m.values.reduce((a, x) => (x === x ? a + 1 : a), 0);
@@ -97,7 +108,9 @@ for (const [rows, cols, fraction, iters] of sizes) {
 }
 console.log(`   peak RSS is the whole process's high-water mark so far (grows with the largest case); dense layers`);
 console.log(`   (input values, predictions, baseline) add 24 bytes per cell (rows × cols) on top of the linear part.`);
-console.log(`   target ≤ 20 ms per iteration per 100k observed cells (cases with ≥ 100k observed): worst ${fmt(Math.max(...perIterPer100k), 2)} ms wall, ${fmt(Math.max(...perIterPer100kCpu), 2)} ms cpu`);
+console.log(
+  `   target ≤ 20 ms per iteration per 100k observed cells (cases with ≥ 100k observed): worst ${fmt(Math.max(...perIterPer100k), 2)} ms wall, ${fmt(Math.max(...perIterPer100kCpu), 2)} ms cpu`,
+);
 
 // ---------------------------------------------------------------- 2. kernel vs reference
 {
@@ -138,7 +151,9 @@ console.log(`   target ≤ 20 ms per iteration per 100k observed cells (cases wi
   const ours = timeOurs();
   const ref = timeRef();
   console.log(`\n2. One ALS sweep, 2000 × 1000, ${idx.n} observed cells, rank 10`);
-  console.log(`   hand-written typed-array kernel: ${fmt(ours, 2)} ms;  reference (ml-matrix solve per row/column): ${fmt(ref, 1)} ms;  ratio ${fmt(ref / ours)}×`);
+  console.log(
+    `   hand-written typed-array kernel: ${fmt(ours, 2)} ms;  reference (ml-matrix solve per row/column): ${fmt(ref, 1)} ms;  ratio ${fmt(ref / ours)}×`,
+  );
 }
 
 // ---------------------------------------------------------------- 3. one k × k solve
@@ -180,7 +195,9 @@ console.log(`   target ≤ 20 ms per iteration per 100k observed cells (cases wi
   const chol = time((t) => {
     sink += new CholeskyDecomposition(mats[t]).solve(Matrix.columnVector(rhs[t])).get(0, 0);
   });
-  console.log(`\n3. One ${k} × ${k} SPD solve (µs): in-place Cholesky ${fmt(ours, 3)}; ml-matrix solve (LU) ${fmt(lu, 2)} (${fmt(lu / ours)}×); ml-matrix CholeskyDecomposition ${fmt(chol, 2)} (${fmt(chol / ours)}×)${sink === 42 ? ' ' : ''}`);
+  console.log(
+    `\n3. One ${k} × ${k} SPD solve (µs): in-place Cholesky ${fmt(ours, 3)}; ml-matrix solve (LU) ${fmt(lu, 2)} (${fmt(lu / ours)}×); ml-matrix CholeskyDecomposition ${fmt(chol, 2)} (${fmt(chol / ours)}×)${sink === 42 ? ' ' : ''}`,
+  );
 }
 
 // ---------------------------------------------------------------- 4. tune of a small matrix
@@ -193,17 +210,34 @@ console.log(`   target ≤ 20 ms per iteration per 100k observed cells (cases wi
   const values = new Float64Array(rows * cols).fill(NaN);
   for (let i = 0; i < rows; i++)
     for (let j = 0; j < cols; j++)
-      if (rng.next() < 0.4) values[i * cols + j] = Math.min(5, Math.max(1, Math.round(3 + 0.5 * a[i] + 0.5 * b[j] + 0.6 * a[i] * b[j] + 0.5 * rng.normal())));
-  const m: RatingMatrix = { rowLabels: a.map((_, i) => `r${i}`), colLabels: b.map((_, j) => `c${j}`), values, scale: { min: 1, max: 5, step: 1 } };
-  const list = expandLowRankGrid({ ranks: [0, 1, 2, 3, 5, 8], lambdas: [0.1, 1, 10, 30], centerings: ['none', 'row', 'column', 'both'] });
+      if (rng.next() < 0.4)
+        values[i * cols + j] = Math.min(
+          5,
+          Math.max(1, Math.round(3 + 0.5 * a[i] + 0.5 * b[j] + 0.6 * a[i] * b[j] + 0.5 * rng.normal())),
+        );
+  const m: RatingMatrix = {
+    rowLabels: a.map((_, i) => `r${i}`),
+    colLabels: b.map((_, j) => `c${j}`),
+    values,
+    scale: { min: 1, max: 5, step: 1 },
+  };
+  const list = expandLowRankGrid({
+    ranks: [0, 1, 2, 3, 5, 8],
+    lambdas: [0.1, 1, 10, 30],
+    centerings: ['none', 'row', 'column', 'both'],
+  });
   const t0 = performance.now();
   const r = tune(m, { settings: list }, 5, 1);
   const ms = performance.now() - t0;
   const best = r.best.settings;
   const one = r.oneStandardError.settings;
-  console.log(`\n4. 5-fold tune, 60 × 40 (40 % observed, 1–5), ${list.length} settings = ${list.length * 5} fits: ${fmt(ms, 0)} ms (target < 3000 ms)`);
+  console.log(
+    `\n4. 5-fold tune, 60 × 40 (40 % observed, 1–5), ${list.length} settings = ${list.length * 5} fits: ${fmt(ms, 0)} ms (target < 3000 ms)`,
+  );
   if (best.model === 'lowrank' && one.model === 'lowrank')
-    console.log(`   best rank ${best.rank}, λ ${best.lambda}, ${best.centering} (RMSE ${r.best.meanRmse.toFixed(4)}); one-SE choice rank ${one.rank}, λ ${one.lambda}, ${one.centering} (RMSE ${r.oneStandardError.meanRmse.toFixed(4)})`);
+    console.log(
+      `   best rank ${best.rank}, λ ${best.lambda}, ${best.centering} (RMSE ${r.best.meanRmse.toFixed(4)}); one-SE choice rank ${one.rank}, λ ${one.lambda}, ${one.centering} (RMSE ${r.oneStandardError.meanRmse.toFixed(4)})`,
+    );
 }
 
 // ---------------------------------------------------------------- 5. open data
@@ -214,9 +248,13 @@ if (!movieRatingsAvailable()) {
   const m = loadMovieRatings();
   const folds = makeFolds(m, 5, 1);
   const base = { ...defaultLowRankSettings(), rank: 0 };
-  console.log(`\n5. movie-ratings-small: ${m.rowLabels.length} films × ${m.colLabels.length} people, ${folds.sizes.reduce((a, b) => a + b, 0)} ratings, 5 folds (seed 1), predictions clipped to [0.5, 5]`);
+  console.log(
+    `\n5. movie-ratings-small: ${m.rowLabels.length} films × ${m.colLabels.length} people, ${folds.sizes.reduce((a, b) => a + b, 0)} ratings, 5 folds (seed 1), predictions clipped to [0.5, 5]`,
+  );
   const show = (label: string, cv: { meanRmse: number; sdRmse: number; meanMae: number }) =>
-    console.log(`   ${label.padEnd(52)} RMSE ${cv.meanRmse.toFixed(4)} ± ${cv.sdRmse.toFixed(4)}   MAE ${cv.meanMae.toFixed(4)}`);
+    console.log(
+      `   ${label.padEnd(52)} RMSE ${cv.meanRmse.toFixed(4)} ± ${cv.sdRmse.toFixed(4)}   MAE ${cv.meanMae.toFixed(4)}`,
+    );
   // Global mean: two-way centering with offsets shrunk to ~0 by a huge γ.
   show('global mean', crossValidate(m, { ...base, centering: 'both', offsetLambda: 1e12 }, folds));
   show('row (film) means', crossValidate(m, { ...base, centering: 'row' }, folds));
@@ -225,13 +263,24 @@ if (!movieRatingsAvailable()) {
   {
     // The real data's shape (many films with a handful of ratings, people with hundreds): ms per sweep.
     const stamps: number[] = [];
-    fitModel(m, { ...defaultLowRankSettings(), rank: 10, lambda: 10, tolerance: 0, maxIterations: 8 }, { onProgress: () => stamps.push(performance.now()) });
+    fitModel(
+      m,
+      { ...defaultLowRankSettings(), rank: 10, lambda: 10, tolerance: 0, maxIterations: 8 },
+      { onProgress: () => stamps.push(performance.now()) },
+    );
     const n = m.values.reduce((a, x) => (x === x ? a + 1 : a), 0);
     const perIter = median(stamps.slice(1).map((t, i) => t - stamps[i]));
-    console.log(`   ALS iteration on all ${n} ratings, rank 10, λ 10: ${fmt(perIter, 2)} ms = ${fmt((perIter * 100_000) / n, 2)} ms per 100k (target ≤ 20)`);
+    console.log(
+      `   ALS iteration on all ${n} ratings, rank 10, λ 10: ${fmt(perIter, 2)} ms = ${fmt((perIter * 100_000) / n, 2)} ms per 100k (target ≤ 20)`,
+    );
   }
   const t0 = performance.now();
-  const grid = expandLowRankGrid({ ranks: [2, 5, 10], lambdas: [5, 10, 20], centerings: ['both'], base: { maxIterations: 30, tolerance: 1e-4 } });
+  const grid = expandLowRankGrid({
+    ranks: [2, 5, 10],
+    lambdas: [5, 10, 20],
+    centerings: ['both'],
+    base: { maxIterations: 30, tolerance: 1e-4 },
+  });
   const r = tune(m, { settings: grid }, 5, 1);
   const secs = (performance.now() - t0) / 1000;
   for (const row of r.table) {
@@ -241,5 +290,7 @@ if (!movieRatingsAvailable()) {
   const b = r.best.settings;
   const o = r.oneStandardError.settings;
   if (b.model === 'lowrank' && o.model === 'lowrank')
-    console.log(`   tuned (${grid.length} settings × 5 folds in ${fmt(secs)} s): best rank ${b.rank}, λ ${b.lambda} → RMSE ${r.best.meanRmse.toFixed(4)}; one-SE choice rank ${o.rank}, λ ${o.lambda} → ${r.oneStandardError.meanRmse.toFixed(4)}`);
+    console.log(
+      `   tuned (${grid.length} settings × 5 folds in ${fmt(secs)} s): best rank ${b.rank}, λ ${b.lambda} → RMSE ${r.best.meanRmse.toFixed(4)}; one-SE choice rank ${o.rank}, λ ${o.lambda} → ${r.oneStandardError.meanRmse.toFixed(4)}`,
+    );
 }

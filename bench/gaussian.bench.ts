@@ -31,7 +31,12 @@ function makeData(seed: number): Float64Array {
     const f1 = rng.normal();
     const f2 = rng.normal();
     for (let j = 0; j < P; j++) {
-      const x = 3 + load[j * 3] * f0 + load[j * 3 + 1] * f1 * (j % 2 ? 1 : -1) + load[j * 3 + 2] * f2 * (j % 3 - 1) + 0.5 * rng.normal();
+      const x =
+        3 +
+        load[j * 3] * f0 +
+        load[j * 3 + 1] * f1 * (j % 2 ? 1 : -1) +
+        load[j * 3 + 2] * f2 * ((j % 3) - 1) +
+        0.5 * rng.normal();
       out[i * P + j] = rng.next() < MISSING ? NaN : x;
     }
   }
@@ -39,7 +44,12 @@ function makeData(seed: number): Float64Array {
 }
 
 /** Plain per-row EM reference (same start, same M-step, no shrinkage). */
-function referenceEm(data: Float64Array, n: number, p: number, iterations: number): { mu: number[]; sigma: number[][] } {
+function referenceEm(
+  data: Float64Array,
+  n: number,
+  p: number,
+  iterations: number,
+): { mu: number[]; sigma: number[][] } {
   const mu: number[] = [];
   const sigma: number[][] = Array.from({ length: p }, () => new Array<number>(p).fill(0));
   for (let j = 0; j < p; j++) {

@@ -26,7 +26,10 @@ import type { FitSettings } from '../src-shared/engine/types';
 import type { RatingMatrix } from '../src-shared/matrix/ratingMatrix';
 
 function tallPanel(): RatingMatrix {
-  const lines = tallPanelCsv().trim().split('\n').map((l) => l.split(','));
+  const lines = tallPanelCsv()
+    .trim()
+    .split('\n')
+    .map((l) => l.split(','));
   const colLabels = lines[0].slice(1);
   const rows = lines.slice(1);
   const values = new Float64Array(rows.length * colLabels.length);
@@ -40,7 +43,9 @@ let failures = 0;
 
 function coverage(name: string, m: RatingMatrix, settings: FitSettings): void {
   const r = checkHiddenCells(m, settings, [0.8, 0.9], { share: 0.2, seed: 13 });
-  console.log(`\n${name}: ${settings.model} (${r.coefficients.length ? `error model β = ${r.coefficients.map((b) => b.toFixed(3)).join(', ')}` : 'σ̂ = conditional sd'})`);
+  console.log(
+    `\n${name}: ${settings.model} (${r.coefficients.length ? `error model β = ${r.coefficients.map((b) => b.toFixed(3)).join(', ')}` : 'σ̂ = conditional sd'})`,
+  );
   console.log('level  normalized: coverage  mean width | constant width: coverage  mean width | width saved');
   for (const c of r.checks) {
     const saved = 1 - c.normalized.meanWidth / c.constant.meanWidth;
@@ -76,7 +81,9 @@ function timing(name: string, m: RatingMatrix, settings: FitSettings, repeats: n
   if (added > 0.2) failures++;
   console.log(
     `${name}: Fill (fit + 5 fold fits) ${a.toFixed(0)} ms, with intervals ${b.toFixed(0)} ms (medians of ${repeats}): ` +
-      `intervals add ${pct(added)} (target ≤ 20 %: ${added <= 0.2 ? 'met' : 'NOT met'}); load ${loadavg().map((x) => x.toFixed(2)).join(' ')}`,
+      `intervals add ${pct(added)} (target ≤ 20 %: ${added <= 0.2 ? 'met' : 'NOT met'}); load ${loadavg()
+        .map((x) => x.toFixed(2))
+        .join(' ')}`,
   );
 }
 
@@ -89,11 +96,18 @@ if (movieRatingsAvailable()) {
   console.log('');
   timing('tall panel, gaussian', tall, defaultGaussianSettings(), 5);
   timing('tall panel, low-rank', tall, defaultLowRankSettings(), 5);
-  timing('movie-ratings-small, low-rank', movies, { ...defaultLowRankSettings(), maxIterations: 30, tolerance: 1e-4 }, 3);
+  timing(
+    'movie-ratings-small, low-rank',
+    movies,
+    { ...defaultLowRankSettings(), maxIterations: 30, tolerance: 1e-4 },
+    3,
+  );
 } else {
   console.log('\nmovie-ratings-small absent: its checks are skipped (set RANKFILL_DATASETS)');
   timing('tall panel, gaussian', tall, defaultGaussianSettings(), 5);
   timing('tall panel, low-rank', tall, defaultLowRankSettings(), 5);
 }
-console.log(`\n${failures === 0 ? 'coverage and time targets met' : `${failures} coverage/time target(s) missed`} (the width target is reported above, not enforced)`);
+console.log(
+  `\n${failures === 0 ? 'coverage and time targets met' : `${failures} coverage/time target(s) missed`} (the width target is reported above, not enforced)`,
+);
 process.exitCode = failures === 0 ? 0 : 1;

@@ -79,11 +79,32 @@ else {
   }
   const long = join(dir, 'movies-long.csv');
   writeFileSync(long, out.join('\n') + '\n');
-  const args = [bin, 'evaluate', long, '--long', '--rank', '10', '--lambda', '10', '--centering', 'both', '--iterations', '10', '--folds', '5', '--json'];
+  const args = [
+    bin,
+    'evaluate',
+    long,
+    '--long',
+    '--rank',
+    '10',
+    '--lambda',
+    '10',
+    '--centering',
+    'both',
+    '--iterations',
+    '10',
+    '--folds',
+    '5',
+    '--json',
+  ];
   // The first Python with numpy: python3 on PATH, then Debian's.
-  const python = ['python3', '/usr/bin/python3'].find((p) => spawnSync(p, ['-c', 'import numpy'], { encoding: 'utf8' }).status === 0);
+  const python = ['python3', '/usr/bin/python3'].find(
+    (p) => spawnSync(p, ['-c', 'import numpy'], { encoding: 'utf8' }).status === 0,
+  );
   const haveRef = existsSync(refEvaluate) && python !== undefined;
-  if (!haveRef) console.log('   reference absent (needs python3 with numpy: apt-get install -y python3-numpy python3-scipy); engine figures only');
+  if (!haveRef)
+    console.log(
+      '   reference absent (needs python3 with numpy: apt-get install -y python3-numpy python3-scipy); engine figures only',
+    );
   const refEnv = { ...process.env };
   delete refEnv.OPENBLAS_CORETYPE;
   delete refEnv.OPENBLAS_L2_SIZE;
@@ -94,7 +115,9 @@ else {
     const refRmse = ref ? Number(/mean RMSE ([\d.]+)/.exec(ref.stdout)?.[1]) : NaN;
     console.log(
       `1. evaluate, movie set (run ${rep}, load ${load()}): rankfill ${fmt(ours.wallS)} s wall, CPU ${fmt((100 * ours.cpuS) / ours.wallS, 0)} %, ${fmt(ours.maxRssMb, 0)} MB, mean RMSE ${fmt(rmse, 4)}` +
-        (ref ? `; numpy ${fmt(ref.wallS)} s (RMSE ${fmt(refRmse, 4)}); ratio ${fmt(ref.wallS / ours.wallS, 1)}× (target ≥ 8×, goal 25×; CPU target ≥ 150 %)` : ''),
+        (ref
+          ? `; numpy ${fmt(ref.wallS)} s (RMSE ${fmt(refRmse, 4)}); ratio ${fmt(ref.wallS / ours.wallS, 1)}× (target ≥ 8×, goal 25×; CPU target ≥ 150 %)`
+          : ''),
     );
   }
 }
@@ -113,16 +136,31 @@ async function benchTune(): Promise<void> {
       const x = 4 + u[2 * i] * v[2 * j] + u[2 * i + 1] * v[2 * j + 1] + 0.3 * rng.normal();
       values[i * cols + j] = rng.next() < 0.6 ? Math.min(7, Math.max(1, Math.round(x))) : NaN;
     }
-  const matrix = { rowLabels: Array.from({ length: rows }, (_, i) => `r${i}`), colLabels: Array.from({ length: cols }, (_, j) => `c${j}`), values, scale: { min: 1, max: 7, step: 1 } };
-  const list = expandLowRankGrid({ ranks: [0, 1, 2, 3, 5, 8], lambdas: [0.3, 1, 3, 10], centerings: ['none', 'row', 'column', 'both'] });
+  const matrix = {
+    rowLabels: Array.from({ length: rows }, (_, i) => `r${i}`),
+    colLabels: Array.from({ length: cols }, (_, j) => `c${j}`),
+    values,
+    scale: { min: 1, max: 7, step: 1 },
+  };
+  const list = expandLowRankGrid({
+    ranks: [0, 1, 2, 3, 5, 8],
+    lambdas: [0.3, 1, 3, 10],
+    centerings: ['none', 'row', 'column', 'both'],
+  });
   const time = (f: () => void): number => {
     const t0 = performance.now();
     f();
     return performance.now() - t0;
   };
   tune(matrix, { settings: list }, 5, 1); // warm the JIT
-  const cold = Math.min(time(() => tune(matrix, { settings: list }, 5, 1, undefined, undefined, { reuse: false })), time(() => tune(matrix, { settings: list }, 5, 1, undefined, undefined, { reuse: false })));
-  const warm = Math.min(time(() => tune(matrix, { settings: list }, 5, 1)), time(() => tune(matrix, { settings: list }, 5, 1)));
+  const cold = Math.min(
+    time(() => tune(matrix, { settings: list }, 5, 1, undefined, undefined, { reuse: false })),
+    time(() => tune(matrix, { settings: list }, 5, 1, undefined, undefined, { reuse: false })),
+  );
+  const warm = Math.min(
+    time(() => tune(matrix, { settings: list }, 5, 1)),
+    time(() => tune(matrix, { settings: list }, 5, 1)),
+  );
   const workerFile = join(repoRoot, 'out', 'cli', 'pool.worker.js');
   const pool = new EnginePool(() => new Worker(workerFile));
   const m = toSparseMatrix(matrix);
@@ -141,41 +179,77 @@ async function benchTune(): Promise<void> {
 }
 
 function benchRest(): void {
-// ------------------------------------------------------------ 3. --help
-{
-  const ts: number[] = [];
-  for (let rep = 0; rep < 5; rep++) ts.push(timed(process.execPath, [bin, '--help']).wallS);
-  ts.sort((a, b) => a - b);
-  console.log(`3. rankfill --help (load ${load()}): median ${fmt(ts[2], 3)} s of 5, best ${fmt(ts[0], 3)} s (target 0.3 s, goal 0.15 s)`);
-}
+  // ------------------------------------------------------------ 3. --help
+  {
+    const ts: number[] = [];
+    for (let rep = 0; rep < 5; rep++) ts.push(timed(process.execPath, [bin, '--help']).wallS);
+    ts.sort((a, b) => a - b);
+    console.log(
+      `3. rankfill --help (load ${load()}): median ${fmt(ts[2], 3)} s of 5, best ${fmt(ts[0], 3)} s (target 0.3 s, goal 0.15 s)`,
+    );
+  }
 
-// ------------------------------------------------------------ 4. large jobs
-if (process.env.BENCH_LARGE !== '1') console.log('4. large jobs skipped (set BENCH_LARGE=1)');
-else {
-  const writeLong = (path: string, rows: number, cols: number, n: number, seed: number): void => {
-    const rng = createRng(seed);
-    const seen = new Set<number>();
-    const lines = ['row,column,rating'];
-    while (seen.size < n) {
-      const i = rng.int(rows);
-      const j = rng.int(cols);
-      const c = i * cols + j;
-      if (seen.has(c)) continue;
-      seen.add(c);
-      lines.push(`r${i},c${j},${1 + rng.int(5)}`);
-    }
-    writeFileSync(path, lines.join('\n') + '\n');
-  };
-  const big = join(dir, 'big-2m.csv');
-  writeLong(big, 100_000, 2_000, 2_000_000, 2);
-  const e = timed(process.execPath, [bin, 'evaluate', big, '--long', '--rank', '10', '--lambda', '10', '--centering', 'both', '--iterations', '10', '--folds', '3']);
-  console.log(`4a. 3-fold evaluate, 2M ratings in 100,000 × 2,000 (load ${load()}): ${fmt(e.wallS, 1)} s, ${fmt(e.maxRssMb, 0)} MB, exit ${e.status} (target 240 s / 1.5 GB, goal 60 s / 1 GB)`);
-  const mid = join(dir, 'mid-1m.csv');
-  writeLong(mid, 10_000, 1_000, 1_000_000, 3);
-  const f = timed(process.execPath, [bin, 'fill', mid, '--long', '--layout', 'filled', '--rank', '10', '--lambda', '10', '--iterations', '10', '--out', join(dir, 'mid-out.csv'), '--force']);
-  console.log(`4b. fill + wide output, 1M ratings in 10,000 × 1,000 (load ${load()}): ${fmt(f.wallS, 1)} s, ${fmt(f.maxRssMb, 0)} MB, exit ${f.status} (target 240 s / 1.5 GB, goal 15 s / 0.8 GB)`);
-}
-
+  // ------------------------------------------------------------ 4. large jobs
+  if (process.env.BENCH_LARGE !== '1') console.log('4. large jobs skipped (set BENCH_LARGE=1)');
+  else {
+    const writeLong = (path: string, rows: number, cols: number, n: number, seed: number): void => {
+      const rng = createRng(seed);
+      const seen = new Set<number>();
+      const lines = ['row,column,rating'];
+      while (seen.size < n) {
+        const i = rng.int(rows);
+        const j = rng.int(cols);
+        const c = i * cols + j;
+        if (seen.has(c)) continue;
+        seen.add(c);
+        lines.push(`r${i},c${j},${1 + rng.int(5)}`);
+      }
+      writeFileSync(path, lines.join('\n') + '\n');
+    };
+    const big = join(dir, 'big-2m.csv');
+    writeLong(big, 100_000, 2_000, 2_000_000, 2);
+    const e = timed(process.execPath, [
+      bin,
+      'evaluate',
+      big,
+      '--long',
+      '--rank',
+      '10',
+      '--lambda',
+      '10',
+      '--centering',
+      'both',
+      '--iterations',
+      '10',
+      '--folds',
+      '3',
+    ]);
+    console.log(
+      `4a. 3-fold evaluate, 2M ratings in 100,000 × 2,000 (load ${load()}): ${fmt(e.wallS, 1)} s, ${fmt(e.maxRssMb, 0)} MB, exit ${e.status} (target 240 s / 1.5 GB, goal 60 s / 1 GB)`,
+    );
+    const mid = join(dir, 'mid-1m.csv');
+    writeLong(mid, 10_000, 1_000, 1_000_000, 3);
+    const f = timed(process.execPath, [
+      bin,
+      'fill',
+      mid,
+      '--long',
+      '--layout',
+      'filled',
+      '--rank',
+      '10',
+      '--lambda',
+      '10',
+      '--iterations',
+      '10',
+      '--out',
+      join(dir, 'mid-out.csv'),
+      '--force',
+    ]);
+    console.log(
+      `4b. fill + wide output, 1M ratings in 10,000 × 1,000 (load ${load()}): ${fmt(f.wallS, 1)} s, ${fmt(f.maxRssMb, 0)} MB, exit ${f.status} (target 240 s / 1.5 GB, goal 15 s / 0.8 GB)`,
+    );
+  }
 }
 
 void (process.env.BENCH_ONLY === 'evaluate' ? Promise.resolve() : benchTune()).then(() => {

@@ -38,7 +38,15 @@ export function referenceHalfStep(
 }
 
 /** One full reference sweep (rows then columns). */
-export function referenceSweep(idx: SparseRatings, resRow: Float64Array, resCol: Float64Array, u: Float64Array, v: Float64Array, k: number, lambda: number): void {
+export function referenceSweep(
+  idx: SparseRatings,
+  resRow: Float64Array,
+  resCol: Float64Array,
+  u: Float64Array,
+  v: Float64Array,
+  k: number,
+  lambda: number,
+): void {
   referenceHalfStep(u, v, idx.rowPtr, idx.rowCol, resRow, k, lambda);
   referenceHalfStep(v, u, idx.colPtr, idx.colRow, resCol, k, lambda);
 }

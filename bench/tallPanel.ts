@@ -17,7 +17,8 @@ import { createRng } from '../src-shared/engine/random';
 
 export function tallPanelCsv(rows = 600, items = 20, missing = 0.2, seed = 6): string {
   const r = new Float64Array(items * items);
-  for (let j = 0; j < items; j++) for (let k = 0; k < items; k++) r[j * items + k] = 0.35 + 0.65 * 0.7 ** Math.abs(j - k);
+  for (let j = 0; j < items; j++)
+    for (let k = 0; k < items; k++) r[j * items + k] = 0.35 + 0.65 * 0.7 ** Math.abs(j - k);
   if (!choleskyInPlace(r, items)) throw new Error('correlation not positive definite');
   const rng = createRng(seed);
   const z = new Float64Array(items);

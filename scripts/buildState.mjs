@@ -6,7 +6,14 @@ import { spawnSync } from 'node:child_process';
 export const root = join(import.meta.dirname, '..');
 
 const OUTPUTS = ['out/main/index.js', 'out/main/browserHost.js', 'out/preload/preload.js', 'out/renderer/index.html'];
-const SOURCES = ['src-main', 'src-renderer', 'src-shared', 'electron.vite.config.ts', 'package.json', 'package-lock.json'];
+const SOURCES = [
+  'src-main',
+  'src-renderer',
+  'src-shared',
+  'electron.vite.config.ts',
+  'package.json',
+  'package-lock.json',
+];
 
 function newestMtime(path) {
   if (!existsSync(path)) return 0;

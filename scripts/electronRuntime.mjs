@@ -15,7 +15,11 @@ export function findElectronRuntime() {
   }
   const pathTxt = join(pkgDir, 'path.txt');
   if (!existsSync(pathTxt)) {
-    return { ok: false, reason: 'its runtime was never downloaded (node_modules/electron/path.txt is missing; this machine cannot reach the download)' };
+    return {
+      ok: false,
+      reason:
+        'its runtime was never downloaded (node_modules/electron/path.txt is missing; this machine cannot reach the download)',
+    };
   }
   const rel = readFileSync(pathTxt, 'utf8').trim();
   const executable = override ? join(override, rel) : join(pkgDir, 'dist', rel);

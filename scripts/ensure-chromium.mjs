@@ -3,7 +3,12 @@
 import { existsSync } from 'node:fs';
 import { execFileSync, spawnSync } from 'node:child_process';
 
-export const CANDIDATES = ['/usr/bin/chromium', '/usr/bin/chromium-browser', '/usr/bin/google-chrome', '/usr/bin/google-chrome-stable'];
+export const CANDIDATES = [
+  '/usr/bin/chromium',
+  '/usr/bin/chromium-browser',
+  '/usr/bin/google-chrome',
+  '/usr/bin/google-chrome-stable',
+];
 
 export function findChromium() {
   const fromEnv = process.env.RANKFILL_CHROMIUM;
@@ -18,15 +23,22 @@ function isDebianRoot() {
 if (process.argv[1] && process.argv[1].endsWith('ensure-chromium.mjs')) {
   let found = findChromium();
   if (!found && !process.env.RANKFILL_CHROMIUM && isDebianRoot()) {
-    console.log('Rankfill tests: no Chromium found; installing Debian\'s chromium package…');
+    console.log("Rankfill tests: no Chromium found; installing Debian's chromium package…");
     execFileSync('apt-get', ['update'], { stdio: 'inherit' });
-    const r = spawnSync('apt-get', ['install', '-y', 'chromium'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+    const r = spawnSync('apt-get', ['install', '-y', 'chromium'], {
+      stdio: 'inherit',
+      env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' },
+    });
     if (r.status !== 0) process.exit(r.status ?? 1);
     found = findChromium();
   }
   if (!found) {
-    const where = process.env.RANKFILL_CHROMIUM ? `RANKFILL_CHROMIUM=${process.env.RANKFILL_CHROMIUM} does not exist` : 'no Chromium found';
-    console.error(`Rankfill tests: ${where}; install one with: sudo apt-get install -y chromium (or set RANKFILL_CHROMIUM to its path).`);
+    const where = process.env.RANKFILL_CHROMIUM
+      ? `RANKFILL_CHROMIUM=${process.env.RANKFILL_CHROMIUM} does not exist`
+      : 'no Chromium found';
+    console.error(
+      `Rankfill tests: ${where}; install one with: sudo apt-get install -y chromium (or set RANKFILL_CHROMIUM to its path).`,
+    );
     process.exit(1);
   }
 }

@@ -12,10 +12,22 @@ import { findChromium } from './ensure-chromium.mjs';
 
 const root = join(import.meta.dirname, '..');
 // bin/rankfill.js runs the built CLI bundle.
-if (!existsSync(join(root, 'out/cli/rankfill.js'))) execFileSync('npm', ['run', 'build:cli'], { cwd: root, stdio: 'inherit' });
+if (!existsSync(join(root, 'out/cli/rankfill.js')))
+  execFileSync('npm', ['run', 'build:cli'], { cwd: root, stdio: 'inherit' });
 const work = mkdtempSync(join(tmpdir(), 'rankfill-thumb-'));
 const html = join(work, 'Coffee cupping panel report.html');
-execFileSync(process.execPath, [join(root, 'bin/rankfill.js'), 'report', join(root, 'samples/coffee-cupping-panel.csv'), '--out', html, '--compare-centering'], { stdio: 'inherit' });
+execFileSync(
+  process.execPath,
+  [
+    join(root, 'bin/rankfill.js'),
+    'report',
+    join(root, 'samples/coffee-cupping-panel.csv'),
+    '--out',
+    html,
+    '--compare-centering',
+  ],
+  { stdio: 'inherit' },
+);
 const browser = await chromium.launch({ executablePath: findChromium(), args: ['--no-sandbox', '--disable-gpu'] });
 const page = await (await browser.newContext({ offline: true })).newPage();
 await page.goto(pathToFileURL(html).href);

@@ -5,7 +5,10 @@ import { buildIfNeeded, root } from './buildState.mjs';
 
 export function serve(args) {
   buildIfNeeded();
-  const child = spawn(process.execPath, [join(root, 'out', 'main', 'browserHost.js'), ...args], { cwd: root, stdio: 'inherit' });
+  const child = spawn(process.execPath, [join(root, 'out', 'main', 'browserHost.js'), ...args], {
+    cwd: root,
+    stdio: 'inherit',
+  });
   const forward = (sig) => child.kill(sig);
   process.on('SIGINT', forward);
   process.on('SIGTERM', forward);

@@ -51,7 +51,12 @@ export interface App extends PanelContext {
 
 export async function startApp(bridge: HostBridge, styleNonce: string): Promise<App> {
   const notice = new Notice(byTestId('notice'));
-  const store = new DocumentStore({ rowLabels: [], colLabels: [], values: new Float64Array(0), scale: { min: 1, max: 5, step: 1 } });
+  const store = new DocumentStore({
+    rowLabels: [],
+    colLabels: [],
+    values: new Float64Array(0),
+    scale: { min: 1, max: 5, step: 1 },
+  });
   const grid = new RatingGrid(byTestId('grid'), {
     store,
     styleNonce,
@@ -66,11 +71,13 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
   const controller = new FitController(bridge, store, runs);
 
   const info = await bridge.call('app.info', {});
-  const hostLine = info.host === 'electron' ? `Rankfill ${info.version}` : `Rankfill ${info.version} · browser host (loopback only)`;
+  const hostLine =
+    info.host === 'electron' ? `Rankfill ${info.version}` : `Rankfill ${info.version} · browser host (loopback only)`;
   const statusRoot = byTestId('status-line');
   const refreshStatus = () => {
     const shown = runs.shown;
-    const mean = shown && Number.isFinite(shown.result.globalMean) ? ` · global mean ${shown.result.globalMean.toFixed(2)}` : '';
+    const mean =
+      shown && Number.isFinite(shown.result.globalMean) ? ` · global mean ${shown.result.globalMean.toFixed(2)}` : '';
     renderStatusLine(statusRoot, store.current, hostLine + mean);
     byTestId('doc-title').textContent = `${store.title}${store.dirty ? ' •' : ''}`;
     document.title = `${store.title} — Rankfill`;
@@ -115,7 +122,8 @@ export async function startApp(bridge: HostBridge, styleNonce: string): Promise<
     const r = runs.shown;
     if (!r) {
       // No run shown (another data set was opened): the Model tab shows none of the old one.
-      if (e.type === 'shown' || e.type === 'runs') afterPaint('model-trace', () => (runs.shown ? undefined : model.showNoRun()));
+      if (e.type === 'shown' || e.type === 'runs')
+        afterPaint('model-trace', () => (runs.shown ? undefined : model.showNoRun()));
       return;
     }
     if (!(e.type === 'shown' || (e.type === 'updated' && e.id === r.id))) return;

@@ -26,9 +26,8 @@ export const scaleSchema = z
   })
   .refine((s) => s.max > s.min, { message: 'scale maximum must be greater than its minimum' });
 
-
 /** A rating matrix on the wire: row-major values, null = missing. */
-export const matrixPayloadSchema = z
+const matrixPayloadSchema = z
   .object({
     rowLabels: z.array(z.string()),
     colLabels: z.array(z.string()),
@@ -45,9 +44,9 @@ export const matrixPayloadSchema = z
   });
 export type MatrixPayload = z.infer<typeof matrixPayloadSchema>;
 
-export const centeringSchema = z.enum(['none', 'row', 'column', 'both']);
+const centeringSchema = z.enum(['none', 'row', 'column', 'both']);
 
-export const lowRankSettingsSchema = z.object({
+const lowRankSettingsSchema = z.object({
   model: z.literal('lowrank'),
   rank: z.number().int().min(0).max(200),
   lambda: z.number().finite().min(0),
@@ -62,7 +61,7 @@ export const lowRankSettingsSchema = z.object({
   snapToStep: z.boolean(),
 });
 
-export const gaussianSettingsSchema = z.object({
+const gaussianSettingsSchema = z.object({
   model: z.literal('gaussian'),
   shrinkage: z.number().finite().min(0).lt(1),
   transpose: z.boolean(),
@@ -78,7 +77,7 @@ export const fitSettingsSchema = z.discriminatedUnion('model', [lowRankSettingsS
 /** Numbers that may be NaN on the main side travel as null. */
 const nullableNumbers = z.array(z.number().nullable());
 
-export const fitResultPayloadSchema = z.object({
+const fitResultPayloadSchema = z.object({
   settings: fitSettingsSchema,
   rows: z.number().int().min(0),
   cols: z.number().int().min(0),
@@ -99,13 +98,13 @@ export const fitResultPayloadSchema = z.object({
 });
 export type FitResultPayload = z.infer<typeof fitResultPayloadSchema>;
 
-export const trustRequestSchema = z.discriminatedUnion('method', [
+const trustRequestSchema = z.discriminatedUnion('method', [
   z.object({ method: z.literal('folds'), k: z.number().int().min(2).max(20) }),
   z.object({ method: z.literal('bootstrap'), B: z.number().int().min(2).max(200) }),
 ]);
 
 /** Calibration of a fit's intervals (engine/cellIntervals.ts): held-out cells and σ̂ per cell. */
-export const intervalCalibrationPayloadSchema = z.object({
+const intervalCalibrationPayloadSchema = z.object({
   method: z.literal('cross-validated normalized conformal'),
   scaleSource: z.enum(['conditional sd', 'error model']),
   coefficients: z.array(z.number()),
@@ -119,7 +118,7 @@ export const intervalCalibrationPayloadSchema = z.object({
 export type IntervalCalibrationPayload = z.infer<typeof intervalCalibrationPayloadSchema>;
 
 /** Per-cell trust of a fit: ensemble spread and support; weak rows/columns have fewer observations than the rank. */
-export const trustPayloadSchema = z.object({
+const trustPayloadSchema = z.object({
   spread: nullableNumbers,
   rowSupport: z.array(z.number().int()),
   colSupport: z.array(z.number().int()),
@@ -131,7 +130,7 @@ export type TrustPayload = z.infer<typeof trustPayloadSchema>;
 
 const foldScoreSchema = z.object({ rmse: z.number().nullable(), mae: z.number().nullable(), n: z.number().int() });
 
-export const crossValidationPayloadSchema = z.object({
+const crossValidationPayloadSchema = z.object({
   folds: z.array(foldScoreSchema),
   meanRmse: z.number().nullable(),
   sdRmse: z.number().nullable(),
@@ -140,12 +139,12 @@ export const crossValidationPayloadSchema = z.object({
 });
 export type CrossValidationPayload = z.infer<typeof crossValidationPayloadSchema>;
 
-export const tuneRowPayloadSchema = crossValidationPayloadSchema.extend({
+const tuneRowPayloadSchema = crossValidationPayloadSchema.extend({
   settings: fitSettingsSchema,
   error: z.string().optional(),
 });
 
-export const tunePayloadSchema = z.object({
+const tunePayloadSchema = z.object({
   k: z.number().int(),
   seed: z.number().int(),
   table: z.array(tuneRowPayloadSchema),
@@ -155,7 +154,7 @@ export const tunePayloadSchema = z.object({
 });
 export type TunePayload = z.infer<typeof tunePayloadSchema>;
 
-export const sampleInfoSchema = z.object({
+const sampleInfoSchema = z.object({
   id: z.string(),
   title: z.string(),
   description: z.string(),
@@ -163,15 +162,14 @@ export const sampleInfoSchema = z.object({
 });
 export type SampleInfo = z.infer<typeof sampleInfoSchema>;
 
-export const problemSchema = z.object({
+const problemSchema = z.object({
   file: z.string(),
   line: z.number().int(),
   column: z.number().int(),
   message: z.string(),
 });
-export type ProblemPayload = z.infer<typeof problemSchema>;
 
-export const documentPayloadSchema = z.object({
+const documentPayloadSchema = z.object({
   /** Where the document came from: a sample id, a file path, or an uploaded file name. */
   source: z.object({ kind: z.enum(['sample', 'file', 'upload', 'new']), name: z.string() }),
   title: z.string(),
@@ -183,7 +181,7 @@ export type DocumentPayload = z.infer<typeof documentPayloadSchema>;
 // --- documents and projects (issue 4): building blocks ---
 
 /** What the import preview shows besides the matrix. */
-export const importInfoSchema = z.object({
+const importInfoSchema = z.object({
   delimiter: z.enum([',', '\t', ';']),
   layout: z.enum(['wide', 'long']),
   decimalComma: z.boolean(),
@@ -200,11 +198,10 @@ export const importInfoSchema = z.object({
   /** True when the parse ran in a worker thread. */
   offThread: z.boolean(),
 });
-export type ImportInfoPayload = z.infer<typeof importInfoSchema>;
 
 const recoveryId = z.string().regex(/^[A-Za-z0-9_-]{1,100}$/);
 
-export const recoveryEntrySchema = z.object({
+const recoveryEntrySchema = z.object({
   id: z.string(),
   title: z.string(),
   sourcePath: z.string().nullable(),
@@ -414,7 +411,13 @@ export const apiMethods = {
       })
       .strict(),
     reply: z.union([
-      z.object({ ok: z.literal(true), path: z.string(), sidecarPath: z.string().nullable(), maskPath: z.string().nullable().optional(), bytes: z.number().int() }),
+      z.object({
+        ok: z.literal(true),
+        path: z.string(),
+        sidecarPath: z.string().nullable(),
+        maskPath: z.string().nullable().optional(),
+        bytes: z.number().int(),
+      }),
       z.object({ ok: z.literal(false), reason: z.enum(['exists', 'invalid-path']), message: z.string() }),
     ]),
   },
@@ -447,7 +450,13 @@ export const apiEvents = {
   'fit.cancelled': z.object({ jobId }),
   'fit.error': z.object({ jobId, message: z.string() }),
   /** A menu command chosen in the Electron application menu. */
-  'menu.command': z.object({ command: z.string().min(1).max(100).refine((c) => parseCommand(c) !== undefined, 'not a Rankfill command') }),
+  'menu.command': z.object({
+    command: z
+      .string()
+      .min(1)
+      .max(100)
+      .refine((c) => parseCommand(c) !== undefined, 'not a Rankfill command'),
+  }),
 } as const;
 
 export type ApiEventName = keyof typeof apiEvents;
@@ -463,7 +472,7 @@ export type EventEnvelope = { [E in ApiEventName]: { event: E; payload: ApiEvent
 // Reply envelope: every call answers with one of these, never throws across the boundary
 // ---------------------------------------------------------------------------
 
-export type ApiErrorCode = 'bad-method' | 'bad-request' | 'failed' | 'bad-reply' | 'unauthorized' | 'transport';
+type ApiErrorCode = 'bad-method' | 'bad-request' | 'failed' | 'bad-reply' | 'unauthorized' | 'transport';
 
 export type ApiResult<T> = { ok: true; data: T } | { ok: false; error: { code: ApiErrorCode; message: string } };
 
@@ -488,4 +497,4 @@ export function describeIssues(error: z.ZodError, limit = 5): string {
   return parts.join('; ');
 }
 
-export { IPC_CALL_CHANNEL, IPC_EVENT_CHANNEL, TOKEN_HEADER } from './ipcChannels';
+export { TOKEN_HEADER } from './ipcChannels';

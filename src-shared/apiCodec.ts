@@ -2,7 +2,14 @@
  * Conversions between in-memory objects (typed arrays, NaN = missing) and their
  * JSON-safe wire form in api.ts (plain arrays, null = missing).
  */
-import type { CrossValidationPayload, FitResultPayload, IntervalCalibrationPayload, MatrixPayload, TrustPayload, TunePayload } from './api';
+import type {
+  CrossValidationPayload,
+  FitResultPayload,
+  IntervalCalibrationPayload,
+  MatrixPayload,
+  TrustPayload,
+  TunePayload,
+} from './api';
 import type { IntervalCalibration } from './engine/cellIntervals';
 import type { CrossValidationResult } from './engine/crossValidation';
 import type { CellTrust } from './engine/trust';
@@ -10,7 +17,7 @@ import type { TuneResult } from './engine/tuning';
 import type { FitResult, FitSettings } from './engine/types';
 import type { RatingMatrix } from './matrix/ratingMatrix';
 
-export function toNullable(a: ArrayLike<number>): (number | null)[] {
+function toNullable(a: ArrayLike<number>): (number | null)[] {
   const out = new Array<number | null>(a.length);
   for (let i = 0; i < a.length; i++) {
     const x = a[i];
@@ -95,7 +102,6 @@ export function fitResultFromPayload(p: FitResultPayload): FitResult {
 
 // ----- evaluation results ------------------------------------------------------------
 
-
 const fin = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
 function intervalsToPayload(c: IntervalCalibration): IntervalCalibrationPayload {
@@ -117,7 +123,13 @@ function intervalsFromPayload(p: IntervalCalibrationPayload): IntervalCalibratio
     method: p.method,
     scaleSource: p.scaleSource,
     coefficients: p.coefficients.slice(),
-    heldOut: { k: p.k, fold: Int32Array.from(p.fold), estimate: fromNullable(p.estimate), observed: Float64Array.from(p.observed), sigma: fromNullable(p.sigma) },
+    heldOut: {
+      k: p.k,
+      fold: Int32Array.from(p.fold),
+      estimate: fromNullable(p.estimate),
+      observed: Float64Array.from(p.observed),
+      sigma: fromNullable(p.sigma),
+    },
     errorScale: fromNullable(p.errorScale),
   };
 }

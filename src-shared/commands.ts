@@ -100,11 +100,21 @@ export function parseAccelerator(acc: string): KeyChord {
   const parts = acc.split('+');
   const key = parts[parts.length - 1];
   const mods = new Set(parts.slice(0, -1));
-  return { key: key.length === 1 ? key.toLowerCase() : key, ctrlOrCmd: mods.has('CmdOrCtrl'), shift: mods.has('Shift'), alt: mods.has('Alt') };
+  return {
+    key: key.length === 1 ? key.toLowerCase() : key,
+    ctrlOrCmd: mods.has('CmdOrCtrl'),
+    shift: mods.has('Shift'),
+    alt: mods.has('Alt'),
+  };
 }
 
 /** The command a key press runs, if any (`key` as KeyboardEvent.key). */
-export function commandForKey(e: { key: string; ctrlOrCmd: boolean; shift: boolean; alt: boolean }): CommandId | undefined {
+export function commandForKey(e: {
+  key: string;
+  ctrlOrCmd: boolean;
+  shift: boolean;
+  alt: boolean;
+}): CommandId | undefined {
   const key = e.key.length === 1 ? e.key.toLowerCase() : e.key;
   for (const [id, accs] of Object.entries(COMMAND_SHORTCUTS) as [CommandId, readonly string[]][]) {
     for (const acc of accs) {

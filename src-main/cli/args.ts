@@ -40,12 +40,36 @@ const FIT: readonly Command[] = ['fill', 'evaluate', 'report'];
 export const OPTIONS: readonly OptionSpec[] = [
   { name: 'out', value: 'OUT.csv', commands: ['fill'], default: 'required', help: 'file to write' },
   { name: 'out', value: 'REPORT.html', commands: ['report'], default: 'required', help: 'the study report to write' },
-  { name: 'run', value: 'ID', commands: ['report'], default: 'the last saved run', help: 'with a project as input: which saved run (id or 1-based position)' },
-  { name: 'csv', value: 'FILLED.csv', commands: ['report'], default: 'none', help: 'also write the filled matrix and its settings file' },
+  {
+    name: 'run',
+    value: 'ID',
+    commands: ['report'],
+    default: 'the last saved run',
+    help: 'with a project as input: which saved run (id or 1-based position)',
+  },
+  {
+    name: 'csv',
+    value: 'FILLED.csv',
+    commands: ['report'],
+    default: 'none',
+    help: 'also write the filled matrix and its settings file',
+  },
   { name: 'compare-centering', commands: ['report'], default: 'off', help: 'add the centering comparison' },
   { name: 'tune', commands: ['report'], default: 'off', help: 'add the tuning grid (--ranks, --lambdas)' },
-  { name: 'layout', value: 'filled|estimates|long', commands: ['fill'], default: 'filled (long with --long)', help: 'filled: wide, observed ratings plus estimates; estimates: wide, estimates only; long: row,column,value,source,baseline,spread (same writers as the window\'s export)' },
-  { name: 'decimals', value: 'D', commands: ['fill', 'report'], default: 'full precision', help: 'round estimates to D decimals (observed ratings are written as read)' },
+  {
+    name: 'layout',
+    value: 'filled|estimates|long',
+    commands: ['fill'],
+    default: 'filled (long with --long)',
+    help: "filled: wide, observed ratings plus estimates; estimates: wide, estimates only; long: row,column,value,source,baseline,spread (same writers as the window's export)",
+  },
+  {
+    name: 'decimals',
+    value: 'D',
+    commands: ['fill', 'report'],
+    default: 'full precision',
+    help: 'round estimates to D decimals (observed ratings are written as read)',
+  },
   {
     name: 'level',
     value: 'P',
@@ -56,27 +80,137 @@ export const OPTIONS: readonly OptionSpec[] = [
       'in a share P of cells like the held-out ones (long layout: lower,upper columns; bounds inclusive, clipped to the scale); ' +
       'evaluate reports the coverage and mean width of such intervals on each fold',
   },
-  { name: 'sidecar', commands: ['fill'], default: 'off', help: 'also write OUT.settings.json: settings, seed, iterations, objective, app version, time, hash of the input' },
-  { name: 'mask', commands: ['fill'], default: 'off', help: 'with a wide layout, also write OUT.mask.csv saying "observed" or "filled" for every cell' },
-  { name: 'raw-labels', commands: ['fill', 'report'], default: 'off', help: 'write labels exactly, even ones starting with = + - @ that a spreadsheet would run as a formula (by default those get a leading apostrophe)' },
-  { name: 'force', commands: ['fill', 'report'], default: 'off', help: 'replace OUT (and its sidecar, mask or --csv files) when it exists; without it an existing file is left untouched and the exit status is 2' },
+  {
+    name: 'sidecar',
+    commands: ['fill'],
+    default: 'off',
+    help: 'also write OUT.settings.json: settings, seed, iterations, objective, app version, time, hash of the input',
+  },
+  {
+    name: 'mask',
+    commands: ['fill'],
+    default: 'off',
+    help: 'with a wide layout, also write OUT.mask.csv saying "observed" or "filled" for every cell',
+  },
+  {
+    name: 'raw-labels',
+    commands: ['fill', 'report'],
+    default: 'off',
+    help: 'write labels exactly, even ones starting with = + - @ that a spreadsheet would run as a formula (by default those get a leading apostrophe)',
+  },
+  {
+    name: 'force',
+    commands: ['fill', 'report'],
+    default: 'off',
+    help: 'replace OUT (and its sidecar, mask or --csv files) when it exists; without it an existing file is left untouched and the exit status is 2',
+  },
   { name: 'model', value: 'lowrank|gaussian', commands: FIT, default: 'lowrank', help: 'model family' },
-  { name: 'rank', value: 'K', commands: FIT, default: { fill: 'chosen from the data without model options, else 2', evaluate: '2', report: 'chosen from the data without model options, else 2' }, help: 'low-rank: number of hidden traits (0 = baseline alone)' },
-  { name: 'lambda', value: 'L', commands: FIT, default: { fill: '1 when another model option is given, else chosen from the data', evaluate: '1', report: '1 when another model option is given, else chosen from the data' }, help: 'low-rank: ridge weight on the factors' },
-  { name: 'centering', value: 'none|row|column|both', commands: ALL, default: { fill: 'chosen from the data without model options, else both', evaluate: 'both', report: 'chosen from the data without model options, else both', tune: 'all four for rank 0, then the best of them' }, help: 'low-rank baseline; for tune a comma-separated list' },
-  { name: 'shrinkage', value: 'S', commands: FIT, default: '0.05', help: 'gaussian: pull the covariance toward its diagonal, 0 ≤ S < 1' },
+  {
+    name: 'rank',
+    value: 'K',
+    commands: FIT,
+    default: {
+      fill: 'chosen from the data without model options, else 2',
+      evaluate: '2',
+      report: 'chosen from the data without model options, else 2',
+    },
+    help: 'low-rank: number of hidden traits (0 = baseline alone)',
+  },
+  {
+    name: 'lambda',
+    value: 'L',
+    commands: FIT,
+    default: {
+      fill: '1 when another model option is given, else chosen from the data',
+      evaluate: '1',
+      report: '1 when another model option is given, else chosen from the data',
+    },
+    help: 'low-rank: ridge weight on the factors',
+  },
+  {
+    name: 'centering',
+    value: 'none|row|column|both',
+    commands: ALL,
+    default: {
+      fill: 'chosen from the data without model options, else both',
+      evaluate: 'both',
+      report: 'chosen from the data without model options, else both',
+      tune: 'all four for rank 0, then the best of them',
+    },
+    help: 'low-rank baseline; for tune a comma-separated list',
+  },
+  {
+    name: 'shrinkage',
+    value: 'S',
+    commands: FIT,
+    default: '0.05',
+    help: 'gaussian: pull the covariance toward its diagonal, 0 ≤ S < 1',
+  },
   { name: 'transpose', commands: ALL, default: 'off', help: 'gaussian: the rows are the variables' },
   { name: 'iterations', value: 'N', commands: ALL, default: '100 (low-rank), 200 (gaussian)', help: 'iteration limit' },
-  { name: 'tolerance', value: 'T', commands: ALL, default: '1e-6', help: 'stop when the objective changes by less than T of itself' },
+  {
+    name: 'tolerance',
+    value: 'T',
+    commands: ALL,
+    default: '1e-6',
+    help: 'stop when the objective changes by less than T of itself',
+  },
   { name: 'seed', value: 'S', commands: ALL, default: '1', help: 'seed of every random choice (start, folds)' },
-  { name: 'folds', value: 'K', commands: ['evaluate', 'tune', 'report'], default: String(DEFAULT_FOLDS), help: 'number of cross-validation folds' },
-  { name: 'models', value: 'LIST', commands: ['tune'], default: 'lowrank, plus gaussian when the matrix allows it', help: 'families to compare, e.g. lowrank,gaussian' },
-  { name: 'ranks', value: 'LIST', commands: ['tune', 'report'], default: '0 and 1, 2, 3, 5, 8, 12, 16, 20 up to what the data support', help: 'ranks to try' },
-  { name: 'lambdas', value: 'LIST', commands: ['tune', 'report'], default: 'five values ×2 apart below σ₁ of the residuals, then a refinement pass', help: 'lambda values to try' },
-  { name: 'shrinkages', value: 'LIST', commands: ['tune'], default: '0,0.05,0.1,0.2', help: 'gaussian shrinkages to try' },
-  { name: 'scale', value: 'MIN:MAX[:STEP]', commands: ALL, default: 'observed min and max, step detected', help: 'the rating scale; estimates are clipped to it, and with a STEP rounded to the step' },
-  { name: 'long', commands: ALL, default: 'off', help: 'input is row,column,value triples (fill then writes the long layout unless --layout says otherwise)' },
-  { name: 'duplicates', value: 'last|average|refuse', commands: ['fill', 'evaluate', 'tune'], default: 'refuse', help: 'with --long: a (row, column) pair given more than once keeps the last value, the average, or stops the read' },
+  {
+    name: 'folds',
+    value: 'K',
+    commands: ['evaluate', 'tune', 'report'],
+    default: String(DEFAULT_FOLDS),
+    help: 'number of cross-validation folds',
+  },
+  {
+    name: 'models',
+    value: 'LIST',
+    commands: ['tune'],
+    default: 'lowrank, plus gaussian when the matrix allows it',
+    help: 'families to compare, e.g. lowrank,gaussian',
+  },
+  {
+    name: 'ranks',
+    value: 'LIST',
+    commands: ['tune', 'report'],
+    default: '0 and 1, 2, 3, 5, 8, 12, 16, 20 up to what the data support',
+    help: 'ranks to try',
+  },
+  {
+    name: 'lambdas',
+    value: 'LIST',
+    commands: ['tune', 'report'],
+    default: 'five values ×2 apart below σ₁ of the residuals, then a refinement pass',
+    help: 'lambda values to try',
+  },
+  {
+    name: 'shrinkages',
+    value: 'LIST',
+    commands: ['tune'],
+    default: '0,0.05,0.1,0.2',
+    help: 'gaussian shrinkages to try',
+  },
+  {
+    name: 'scale',
+    value: 'MIN:MAX[:STEP]',
+    commands: ALL,
+    default: 'observed min and max, step detected',
+    help: 'the rating scale; estimates are clipped to it, and with a STEP rounded to the step',
+  },
+  {
+    name: 'long',
+    commands: ALL,
+    default: 'off',
+    help: 'input is row,column,value triples (fill then writes the long layout unless --layout says otherwise)',
+  },
+  {
+    name: 'duplicates',
+    value: 'last|average|refuse',
+    commands: ['fill', 'evaluate', 'tune'],
+    default: 'refuse',
+    help: 'with --long: a (row, column) pair given more than once keeps the last value, the average, or stops the read',
+  },
   { name: 'json', commands: ALL, default: 'off', help: 'print one JSON object instead of text' },
 ];
 
@@ -85,7 +219,8 @@ const SUMMARY: Record<Command, string> = {
     'fit once and write every cell (observed values unchanged, missing ones estimated); without --model, --rank, ' +
     '--lambda, --centering, --shrinkage or --transpose the settings are chosen by a quick 3-fold cross-validation ' +
     '(rank 0 among the candidates) and the choice is printed',
-  evaluate: 'k-fold cross-validation of one setting (RMSE and MAE per fold, and the coverage and mean width of the intervals on each fold)',
+  evaluate:
+    'k-fold cross-validation of one setting (RMSE and MAE per fold, and the coverage and mean width of the intervals on each fold)',
   tune:
     'cross-validate a grid of ranks × lambdas × centerings and Gaussian shrinkages on the same folds; the family ' +
     'with the lowest mean RMSE wins, and its simplest setting within one standard error is the choice',
@@ -210,15 +345,18 @@ export interface CliOptions {
 }
 
 export type FillLayout = 'filled' | 'estimates' | 'long';
-export type DuplicatePolicy = 'last' | 'average' | 'refuse';
+type DuplicatePolicy = 'last' | 'average' | 'refuse';
 
-export type ParsedArgs = { kind: 'help'; command?: Command } | { kind: 'version' } | { kind: 'run'; options: CliOptions };
+export type ParsedArgs =
+  { kind: 'help'; command?: Command } | { kind: 'version' } | { kind: 'run'; options: CliOptions };
 
 const CENTERINGS: readonly Centering[] = ['none', 'row', 'column', 'both'];
 const MODELS: readonly ModelFamily[] = ['lowrank', 'gaussian'];
 const VALUE_OPTIONS = new Set(OPTIONS.filter((o) => o.value !== undefined).map((o) => o.name));
 const FLAG_OPTIONS = new Set(OPTIONS.filter((o) => o.value === undefined).map((o) => o.name));
-const ALLOWED = Object.fromEntries(COMMANDS.map((c) => [c, new Set(OPTIONS.filter((o) => o.commands.includes(c)).map((o) => o.name))])) as Record<Command, Set<string>>;
+const ALLOWED = Object.fromEntries(
+  COMMANDS.map((c) => [c, new Set(OPTIONS.filter((o) => o.commands.includes(c)).map((o) => o.name))]),
+) as Record<Command, Set<string>>;
 const LAYOUTS: readonly FillLayout[] = ['filled', 'estimates', 'long'];
 const DUPLICATES: readonly DuplicatePolicy[] = ['last', 'average', 'refuse'];
 
@@ -249,7 +387,10 @@ function centering(name: string, text: string): Centering {
 
 function model(name: string, text: string): ModelFamily {
   const m = text.trim() as ModelFamily;
-  if (!MODELS.includes(m)) throw new UsageError(`--${name} expects ${name === 'models' ? 'a list of ' : 'one of '}${MODELS.join(', ')}, got "${text}"`);
+  if (!MODELS.includes(m))
+    throw new UsageError(
+      `--${name} expects ${name === 'models' ? 'a list of ' : 'one of '}${MODELS.join(', ')}, got "${text}"`,
+    );
   return m;
 }
 
@@ -267,13 +408,15 @@ function oneOf<T extends string>(name: string, text: string, allowed: readonly T
 
 function list<T>(name: string, text: string, item: (name: string, s: string) => T): T[] {
   const parts = text.split(',');
-  if (parts.some((p) => p.trim() === '')) throw new UsageError(`--${name} expects a comma-separated list, got "${text}"`);
+  if (parts.some((p) => p.trim() === ''))
+    throw new UsageError(`--${name} expects a comma-separated list, got "${text}"`);
   return parts.map((p) => item(name, p));
 }
 
 function scale(text: string): CliOptions['scale'] {
   const parts = text.split(':');
-  if (parts.length < 2 || parts.length > 3) throw new UsageError(`--scale expects MIN:MAX or MIN:MAX:STEP, got "${text}"`);
+  if (parts.length < 2 || parts.length > 3)
+    throw new UsageError(`--scale expects MIN:MAX or MIN:MAX:STEP, got "${text}"`);
   const min = number('scale', parts[0]);
   const max = number('scale', parts[1]);
   if (!(min < max)) throw new UsageError(`--scale needs MIN < MAX, got "${text}"`);
@@ -285,12 +428,14 @@ function scale(text: string): CliOptions['scale'] {
 
 export function parseArgs(argv: string[]): ParsedArgs {
   if (argv.length === 0) throw new UsageError('missing command');
-  const named = (c: string | undefined): Command | undefined => (COMMANDS as readonly string[]).includes(c ?? '') ? (c as Command) : undefined;
+  const named = (c: string | undefined): Command | undefined =>
+    (COMMANDS as readonly string[]).includes(c ?? '') ? (c as Command) : undefined;
   if (argv[0] === 'help') return { kind: 'help', command: named(argv[1]) };
   if (argv.includes('--help') || argv.includes('-h')) return { kind: 'help', command: named(argv[0]) };
   if (argv[0] === '--version' || argv[0] === 'version') return { kind: 'version' };
   const command = argv[0];
-  if (command !== 'fill' && command !== 'evaluate' && command !== 'tune' && command !== 'report') throw new UsageError(`unknown command "${command}"`);
+  if (command !== 'fill' && command !== 'evaluate' && command !== 'tune' && command !== 'report')
+    throw new UsageError(`unknown command "${command}"`);
   const positional: string[] = [];
   const values = new Map<string, string>();
   const flags = new Set<string>();
@@ -331,8 +476,10 @@ export function parseArgs(argv: string[]): ParsedArgs {
     lambdas: get('lambdas') !== undefined ? list('lambdas', get('lambdas')!, nonNegative) : undefined,
     model: get('model') !== undefined ? model('model', get('model')!) : 'lowrank',
     transpose: flags.has('transpose'),
-    shrinkages: get('shrinkages') !== undefined ? list('shrinkages', get('shrinkages')!, shrinkage) : [0, 0.05, 0.1, 0.2],
-    layout: get('layout') !== undefined ? oneOf('layout', get('layout')!, LAYOUTS) : flags.has('long') ? 'long' : 'filled',
+    shrinkages:
+      get('shrinkages') !== undefined ? list('shrinkages', get('shrinkages')!, shrinkage) : [0, 0.05, 0.1, 0.2],
+    layout:
+      get('layout') !== undefined ? oneOf('layout', get('layout')!, LAYOUTS) : flags.has('long') ? 'long' : 'filled',
     sidecar: flags.has('sidecar'),
     mask: flags.has('mask'),
     force: flags.has('force'),
@@ -340,13 +487,17 @@ export function parseArgs(argv: string[]): ParsedArgs {
     duplicates: get('duplicates') !== undefined ? oneOf('duplicates', get('duplicates')!, DUPLICATES) : 'refuse',
     compareCentering: flags.has('compare-centering'),
     tune: flags.has('tune'),
-    modelOptionsGiven: ['model', 'rank', 'lambda', 'centering', 'shrinkage'].some((n) => values.has(n)) || flags.has('transpose'),
+    modelOptionsGiven:
+      ['model', 'rank', 'lambda', 'centering', 'shrinkage'].some((n) => values.has(n)) || flags.has('transpose'),
   };
   if (get('run') !== undefined) opts.run = get('run')!.trim();
   if (get('csv') !== undefined) opts.csv = get('csv');
-  if (command === 'report' && (get('ranks') !== undefined || get('lambdas') !== undefined) && !opts.tune) throw new UsageError('--ranks and --lambdas apply to "report" with --tune only');
-  if (get('duplicates') !== undefined && !opts.long) throw new UsageError('--duplicates applies to long input only (add --long)');
-  if (opts.mask && opts.layout === 'long') throw new UsageError('--mask applies to the wide layouts (the long layout has a source column)');
+  if (command === 'report' && (get('ranks') !== undefined || get('lambdas') !== undefined) && !opts.tune)
+    throw new UsageError('--ranks and --lambdas apply to "report" with --tune only');
+  if (get('duplicates') !== undefined && !opts.long)
+    throw new UsageError('--duplicates applies to long input only (add --long)');
+  if (opts.mask && opts.layout === 'long')
+    throw new UsageError('--mask applies to the wide layouts (the long layout has a source column)');
   if (get('shrinkage') !== undefined) opts.shrinkage = shrinkage('shrinkage', get('shrinkage')!);
   if (get('models') !== undefined) opts.models = [...new Set(list('models', get('models')!, model))];
   if (command !== 'tune') {
@@ -372,7 +523,8 @@ export function parseArgs(argv: string[]): ParsedArgs {
   if (opts.decimals !== undefined && opts.decimals > 17) throw new UsageError('--decimals expects at most 17');
   if (get('level') !== undefined) {
     const x = number('level', get('level')!);
-    if (!(x >= 0.5 && x <= 0.99)) throw new UsageError(`--level expects a share between 0.5 and 0.99 (e.g. 0.9 for 90 %), got "${get('level')}"`);
+    if (!(x >= 0.5 && x <= 0.99))
+      throw new UsageError(`--level expects a share between 0.5 and 0.99 (e.g. 0.9 for 90 %), got "${get('level')}"`);
     opts.level = x;
   }
   if (get('scale') !== undefined) opts.scale = scale(get('scale')!);

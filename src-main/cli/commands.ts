@@ -14,11 +14,24 @@ import { autoSettings, type AutoChoice } from '../../src-shared/engine/autoSetti
 import type { FitSettings, ModelFamily } from '../../src-shared/engine/types';
 import { gaussianRefusal } from '../../src-shared/engine/gaussian/fitGaussian';
 import { observedCount, type RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
-import { buildExport, buildMask, buildSidecar, matrixFingerprintText, sidecarIntervals, type ExportKind, type ExportOptions } from '../../src-shared/io/exportFilled';
+import {
+  buildExport,
+  buildMask,
+  buildSidecar,
+  matrixFingerprintText,
+  sidecarIntervals,
+  type ExportKind,
+  type ExportOptions,
+} from '../../src-shared/io/exportFilled';
 import { cellTrust } from '../../src-shared/engine/trust';
 import { intervalsAtLevel, type IntervalsAtLevel } from '../../src-shared/engine/cellIntervals';
 import { DEFAULT_INTERVAL_LEVEL, INTERVAL_METHOD } from '../../src-shared/engine/intervals';
-import { isSparseMatrix, toDenseMatrix, toSparseMatrix, type SparseMatrix } from '../../src-shared/matrix/sparseRatings';
+import {
+  isSparseMatrix,
+  toDenseMatrix,
+  toSparseMatrix,
+  type SparseMatrix,
+} from '../../src-shared/matrix/sparseRatings';
 import { GAUSSIAN_MAX_VARIABLES } from '../../src-shared/engine/gaussian/limits';
 import type { EnginePool } from '../pool/enginePool';
 import { evaluateOnPool, tuneOnPool } from '../pool/poolJobs';
@@ -50,24 +63,37 @@ function settingsLabel(s: FitSettings): string {
  * (src-main/services/atomicWrite.ts): random exclusive temp in the target's folder,
  * no link followed, fsync, a link at the target updates the file it points to.
  */
-export function writeAtomically(path: string, text: string): void {
+function writeAtomically(path: string, text: string): void {
   atomicWriteSync(path, text);
 }
 
-const EXPORT_KIND: Record<FillLayout, ExportKind> = { filled: 'filled-wide', estimates: 'estimates-wide', long: 'long' };
+const EXPORT_KIND: Record<FillLayout, ExportKind> = {
+  filled: 'filled-wide',
+  estimates: 'estimates-wide',
+  long: 'long',
+};
 
 /** The files `fill` writes: the output, and the sidecar / mask when asked for. */
-export function fillOutputs(o: CliOptions): string[] {
+function fillOutputs(o: CliOptions): string[] {
   const out = o.out!;
   return [out, ...(o.sidecar ? [sidecarPathFor(out)] : []), ...(o.mask ? [maskPathFor(out)] : [])];
 }
 
-export function runFill(o: CliOptions, input: RatingMatrix | SparseMatrix, timings: Record<string, number>, startedAt: number): CommandOutput {
+export function runFill(
+  o: CliOptions,
+  input: RatingMatrix | SparseMatrix,
+  timings: Record<string, number>,
+  startedAt: number,
+): CommandOutput {
   const m = isSparseMatrix(input) ? toDenseMatrix(input) : input;
   const outputs = fillOutputs(o);
   const existing = o.force ? undefined : outputs.find((p) => existsSync(p));
   if (existing !== undefined) {
-    return { code: 2, stdout: [], stderr: [`rankfill: ${existing} already exists; nothing written (add --force to replace it)`] };
+    return {
+      code: 2,
+      stdout: [],
+      stderr: [`rankfill: ${existing} already exists; nothing written (add --force to replace it)`],
+    };
   }
   let settings = fitSettingsFromOptions(o);
   let auto: AutoChoice | undefined;
@@ -92,7 +118,13 @@ export function runFill(o: CliOptions, input: RatingMatrix | SparseMatrix, timin
   const rows = m.rowLabels.length;
   const cols = m.colLabels.length;
   // The window's writers: observed cells are written as read; only estimates are rounded by --decimals.
-  const options: ExportOptions = { kind: EXPORT_KIND[o.layout], roundToStep: false, decimals: o.decimals ?? null, delimiter: ',', formulaGuard: !o.rawLabels };
+  const options: ExportOptions = {
+    kind: EXPORT_KIND[o.layout],
+    roundToStep: false,
+    decimals: o.decimals ?? null,
+    delimiter: ',',
+    formulaGuard: !o.rawLabels,
+  };
   const t1 = performance.now();
   const text = buildExport(m, fit, fit.spread, options, intervals);
   const observedCells = observedCount(m);
@@ -146,12 +178,29 @@ export function runFill(o: CliOptions, input: RatingMatrix | SparseMatrix, timin
           filled: rows * cols - observed,
           scale: m.scale,
           settings: fit.settings,
-          ...(auto ? { chosen: { reason: auto.reason, folds: auto.folds, candidates: auto.candidates, meanRmse: auto.rmse, baselineMeanRmse: auto.baselineRmse } } : {}),
+          ...(auto
+            ? {
+                chosen: {
+                  reason: auto.reason,
+                  folds: auto.folds,
+                  candidates: auto.candidates,
+                  meanRmse: auto.rmse,
+                  baselineMeanRmse: auto.baselineRmse,
+                },
+              }
+            : {}),
           iterations: fit.iterations,
           converged: fit.converged,
           objective,
           objectiveTrace: fit.objectiveTrace,
-          ...(intervals ? { intervals: { ...sidecarIntervals(intervals), written: o.layout === 'long' ? 'lower,upper columns' : 'not written (wide layout; use --layout long)' } } : {}),
+          ...(intervals
+            ? {
+                intervals: {
+                  ...sidecarIntervals(intervals),
+                  written: o.layout === 'long' ? 'lower,upper columns' : 'not written (wide layout; use --layout long)',
+                },
+              }
+            : {}),
           timings,
         }),
       ],
@@ -223,14 +272,34 @@ export async function runEvaluate(
     return {
       code: 0,
       stderr: [],
-      stdout: [JSON.stringify({ command: 'evaluate', input: o.input, scale: m.scale, settings, folds: o.folds, seed: settings.seed, table, meanRmse: cv.meanRmse, sdRmse: cv.sdRmse, meanMae: cv.meanMae, sdMae: cv.sdMae, intervals: intervalSummary, seedStability: stability, timings })],
+      stdout: [
+        JSON.stringify({
+          command: 'evaluate',
+          input: o.input,
+          scale: m.scale,
+          settings,
+          folds: o.folds,
+          seed: settings.seed,
+          table,
+          meanRmse: cv.meanRmse,
+          sdRmse: cv.sdRmse,
+          meanMae: cv.meanMae,
+          sdMae: cv.sdMae,
+          intervals: intervalSummary,
+          seedStability: stability,
+          timings,
+        }),
+      ],
     };
   }
   const lines = [
     `${o.folds}-fold cross-validation of ${settingsLabel(settings)}; ${pct(level)} intervals calibrated on the other folds`,
     'fold  rmse    mae     cells  coverage  mean width',
   ];
-  for (const r of table) lines.push(`${String(r.fold).padEnd(5)} ${fmt(r.rmse)}  ${fmt(r.mae)}  ${String(r.n).padEnd(6)} ${pct(r.coverage).padEnd(9)} ${fmt(r.meanWidth, 3)}`);
+  for (const r of table)
+    lines.push(
+      `${String(r.fold).padEnd(5)} ${fmt(r.rmse)}  ${fmt(r.mae)}  ${String(r.n).padEnd(6)} ${pct(r.coverage).padEnd(9)} ${fmt(r.meanWidth, 3)}`,
+    );
   lines.push(`mean  ${fmt(cv.meanRmse)}  ${fmt(cv.meanMae)}   (sd ${fmt(cv.sdRmse)} / ${fmt(cv.sdMae)})`);
   if (iv) {
     lines.push(
@@ -245,7 +314,8 @@ export async function runEvaluate(
 
 /** The fill/evaluate options that reproduce one setting. */
 function fillArguments(s: FitSettings): string[] {
-  if (s.model === 'lowrank') return ['--model', 'lowrank', '--rank', String(s.rank), '--lambda', String(s.lambda), '--centering', s.centering];
+  if (s.model === 'lowrank')
+    return ['--model', 'lowrank', '--rank', String(s.rank), '--lambda', String(s.lambda), '--centering', s.centering];
   return ['--model', 'gaussian', '--shrinkage', String(s.shrinkage), ...(s.transpose ? ['--transpose'] : [])];
 }
 
@@ -262,11 +332,15 @@ function fillArguments(s: FitSettings): string[] {
 function denseForGaussian(m: RatingMatrix | SparseMatrix, transpose: boolean): RatingMatrix {
   if (!isSparseMatrix(m)) return m;
   const p = transpose ? m.rowLabels.length : m.colLabels.length;
-  if (p > GAUSSIAN_MAX_VARIABLES) return { rowLabels: m.rowLabels, colLabels: m.colLabels, scale: m.scale, values: new Float64Array(0) };
+  if (p > GAUSSIAN_MAX_VARIABLES)
+    return { rowLabels: m.rowLabels, colLabels: m.colLabels, scale: m.scale, values: new Float64Array(0) };
   return toDenseMatrix(m);
 }
 
-function tuneFamilies(o: CliOptions, m: RatingMatrix | SparseMatrix): { families: ModelFamily[]; skipped: { model: ModelFamily; reason: string }[] } {
+function tuneFamilies(
+  o: CliOptions,
+  m: RatingMatrix | SparseMatrix,
+): { families: ModelFamily[]; skipped: { model: ModelFamily; reason: string }[] } {
   const asked = o.models ?? ['lowrank', 'gaussian'];
   const families: ModelFamily[] = [];
   const skipped: { model: ModelFamily; reason: string }[] = [];
@@ -313,14 +387,37 @@ export async function runTune(
     // --centering the baselines alone are scored under all four centerings and the factor
     // settings use the best of them.
     // Its passes run on the engine pool like an explicit grid.
-    const d = await tuneDefault(m, { folds: o.folds, seed: base.seed, centerings: o.centerings, ranks: o.ranks, lambdas: o.lambdas, base, extra: gaussians }, (list, k, seed) =>
-      tuneOnPool(pool, m, list, k, seed),
+    const d = await tuneDefault(
+      m,
+      {
+        folds: o.folds,
+        seed: base.seed,
+        centerings: o.centerings,
+        ranks: o.ranks,
+        lambdas: o.lambdas,
+        base,
+        extra: gaussians,
+      },
+      (list, k, seed) => tuneOnPool(pool, m, list, k, seed),
     );
     result = d;
-    grid = { ranks: d.grid.ranks, lambdas: d.grid.lambdas, centerings: d.grid.centerings, refinedLambdas: d.refinedLambdas };
+    grid = {
+      ranks: d.grid.ranks,
+      lambdas: d.grid.lambdas,
+      centerings: d.grid.centerings,
+      refinedLambdas: d.refinedLambdas,
+    };
   } else {
     const list: FitSettings[] = [];
-    if (families.includes('lowrank')) list.push(...expandLowRankGrid({ ranks: o.ranks!, lambdas: o.lambdas!, centerings: o.centerings ?? ['none', 'row', 'column', 'both'], base }));
+    if (families.includes('lowrank'))
+      list.push(
+        ...expandLowRankGrid({
+          ranks: o.ranks!,
+          lambdas: o.lambdas!,
+          centerings: o.centerings ?? ['none', 'row', 'column', 'both'],
+          base,
+        }),
+      );
     list.push(...gaussians);
     // An explicit grid runs on the engine pool too.
     result = await tuneOnPool(pool, m, list, o.folds, base.seed);
@@ -341,7 +438,9 @@ export async function runTune(
   // The choice: the family with the lowest mean RMSE, its simplest setting within one SE.
   const chosen = result.oneStandardError;
   const bestOf = (f: ModelFamily) =>
-    result.table.filter((r) => r.settings.model === f && Number.isFinite(r.meanRmse)).reduce<number>((a, r) => Math.min(a, r.meanRmse), Infinity);
+    result.table
+      .filter((r) => r.settings.model === f && Number.isFinite(r.meanRmse))
+      .reduce<number>((a, r) => Math.min(a, r.meanRmse), Infinity);
   const rival: ModelFamily = chosen.settings.model === 'lowrank' ? 'gaussian' : 'lowrank';
   const why =
     families.includes(rival) && Number.isFinite(bestOf(rival))
@@ -349,7 +448,12 @@ export async function runTune(
       : families.includes(rival)
         ? `every ${rival} setting failed to fit`
         : (skipped.find((x) => x.model === rival)?.reason ?? `only the ${chosen.settings.model} family was asked for`);
-  const choice = { ...row(chosen), settings: chosen.settings, fillArguments: fillArguments(chosen.settings), reason: why };
+  const choice = {
+    ...row(chosen),
+    settings: chosen.settings,
+    fillArguments: fillArguments(chosen.settings),
+    reason: why,
+  };
   timings.totalMs = performance.now() - startedAt;
   if (o.json) {
     return {
@@ -387,16 +491,22 @@ export async function runTune(
   for (const r of result.table) {
     const s = r.settings;
     if (s.model !== 'lowrank') continue;
-    lines.push(`${String(s.rank).padEnd(5)} ${String(s.lambda).padEnd(7)} ${s.centering.padEnd(10)} ${fmt(r.meanRmse).padEnd(10)} ${fmt(r.sdRmse).padEnd(8)} ${fmt(r.meanMae)}${r.error ? `  (failed: ${r.error})` : ''}`);
+    lines.push(
+      `${String(s.rank).padEnd(5)} ${String(s.lambda).padEnd(7)} ${s.centering.padEnd(10)} ${fmt(r.meanRmse).padEnd(10)} ${fmt(r.sdRmse).padEnd(8)} ${fmt(r.meanMae)}${r.error ? `  (failed: ${r.error})` : ''}`,
+    );
   }
   if (families.includes('gaussian')) lines.push('gaussian shrinkage  mean rmse  sd rmse  mean mae');
   for (const r of result.table) {
     const s = r.settings;
     if (s.model !== 'gaussian') continue;
-    lines.push(`${String(s.shrinkage).padEnd(18)} ${fmt(r.meanRmse).padEnd(10)} ${fmt(r.sdRmse).padEnd(8)} ${fmt(r.meanMae)}${r.error ? `  (failed: ${r.error})` : ''}`);
+    lines.push(
+      `${String(s.shrinkage).padEnd(18)} ${fmt(r.meanRmse).padEnd(10)} ${fmt(r.sdRmse).padEnd(8)} ${fmt(r.meanMae)}${r.error ? `  (failed: ${r.error})` : ''}`,
+    );
   }
   lines.push(`best: ${settingsLabel(result.best.settings)} (mean RMSE ${fmt(result.best.meanRmse)})`);
-  lines.push(`simplest within one standard error (≤ ${fmt(result.threshold)}): ${settingsLabel(result.oneStandardError.settings)} (mean RMSE ${fmt(result.oneStandardError.meanRmse)})`);
+  lines.push(
+    `simplest within one standard error (≤ ${fmt(result.threshold)}): ${settingsLabel(result.oneStandardError.settings)} (mean RMSE ${fmt(result.oneStandardError.meanRmse)})`,
+  );
   lines.push(`choice: ${chosen.settings.model} (${why}); fill with: ${fillArguments(chosen.settings).join(' ')}`);
   return { code: 0, stderr: [], stdout: lines };
 }

@@ -40,7 +40,8 @@ async function execute(argv: string[], env: CliEnv): Promise<CommandOutput> {
     if (err instanceof UsageError) return { code: 2, stdout: [], stderr: [`rankfill: ${err.message}`, USAGE] };
     throw err;
   }
-  if (parsed.kind === 'help') return { code: 0, stdout: [parsed.command ? commandHelp(parsed.command) : HELP], stderr: [] };
+  if (parsed.kind === 'help')
+    return { code: 0, stdout: [parsed.command ? commandHelp(parsed.command) : HELP], stderr: [] };
   if (parsed.kind === 'version') return { code: 0, stdout: [`rankfill ${appVersion()}`], stderr: [] };
   const o = parsed.options;
   if (o.command === 'report') {
@@ -53,7 +54,12 @@ async function execute(argv: string[], env: CliEnv): Promise<CommandOutput> {
   }
   const timings: Record<string, number> = {};
   const t0 = performance.now();
-  const read = readMatrix(o.input, o.long, o.duplicates, o.scale ? { min: o.scale.min, max: o.scale.max, step: o.scale.step ?? 0 } : undefined);
+  const read = readMatrix(
+    o.input,
+    o.long,
+    o.duplicates,
+    o.scale ? { min: o.scale.min, max: o.scale.max, step: o.scale.step ?? 0 } : undefined,
+  );
   timings.readMs = performance.now() - t0;
   if (!read.ok) return { code: 2, stdout: [], stderr: read.messages };
   const matrix = withScale(read.matrix, o);

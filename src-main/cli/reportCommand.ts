@@ -21,7 +21,13 @@ import { expandLowRankGrid, tune } from '../../src-shared/engine/tuning';
 import { defaultGrid } from '../../src-shared/engine/tuningGrid';
 import type { FitSettings, LowRankSettings } from '../../src-shared/engine/types';
 import { isSparseMatrix, toDenseMatrix } from '../../src-shared/matrix/sparseRatings';
-import { buildExport, buildSidecar, matrixFingerprintText, sidecarIntervals, type ExportOptions } from '../../src-shared/io/exportFilled';
+import {
+  buildExport,
+  buildSidecar,
+  matrixFingerprintText,
+  sidecarIntervals,
+  type ExportOptions,
+} from '../../src-shared/io/exportFilled';
 import { observedCount, type RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
 import { formatProblem } from '../../src-shared/io';
 import { parseProject } from '../../src-shared/project';
@@ -39,7 +45,15 @@ import { readMatrix } from './readInput';
 import { sidecarPathFor } from '../services/exportService';
 
 /** Options that set the model, refused when a project's saved run already fixes it. */
-const MODEL_OPTIONS: (keyof CliOptions)[] = ['rank', 'lambda', 'centering', 'shrinkage', 'iterations', 'tolerance', 'seed'];
+const MODEL_OPTIONS: (keyof CliOptions)[] = [
+  'rank',
+  'lambda',
+  'centering',
+  'shrinkage',
+  'iterations',
+  'tolerance',
+  'seed',
+];
 
 interface Loaded {
   matrix: RatingMatrix;
@@ -70,20 +84,36 @@ function loadProject(o: CliOptions): Loaded | CommandOutput {
     if (o.run !== undefined) throw new UsageError(`${o.input} has no saved runs, so --run ${o.run} cannot be found`);
     // No saved run: the project's model settings, or the options (and defaults) when any are given.
     const settings = project.settings && !anyModelOption ? project.settings : fitSettingsFromOptions(o);
-    return { matrix, settings, runLabel: project.settings && !anyModelOption ? 'Project settings' : 'Command-line run', warnings: [], choose: !project.settings && !o.modelOptionsGiven };
+    return {
+      matrix,
+      settings,
+      runLabel: project.settings && !anyModelOption ? 'Project settings' : 'Command-line run',
+      warnings: [],
+      choose: !project.settings && !o.modelOptionsGiven,
+    };
   }
   if (anyModelOption) {
-    throw new UsageError(`a saved run fixes the model settings; leave out ${given.length ? given.map((k) => `--${k}`).join(', ') : '--model / --transpose'} (or report the ratings file instead)`);
+    throw new UsageError(
+      `a saved run fixes the model settings; leave out ${given.length ? given.map((k) => `--${k}`).join(', ') : '--model / --transpose'} (or report the ratings file instead)`,
+    );
   }
   let index = runs.length - 1;
   if (o.run !== undefined) {
     const byId = runs.findIndex((r) => r.id === o.run);
     const position = /^\d+$/.test(o.run) ? Number(o.run) - 1 : -1;
     index = byId >= 0 ? byId : position >= 0 && position < runs.length ? position : -1;
-    if (index < 0) throw new UsageError(`--run ${o.run} is not in ${o.input} (saved runs: ${runs.map((r, i) => `${i + 1} = ${r.id}`).join(', ')})`);
+    if (index < 0)
+      throw new UsageError(
+        `--run ${o.run} is not in ${o.input} (saved runs: ${runs.map((r, i) => `${i + 1} = ${r.id}`).join(', ')})`,
+      );
   }
   const run = runs[index];
-  return { matrix, settings: run.settings, runLabel: `Saved run ${run.id}${run.name ? ` (“${run.name}”)` : ` (Run ${run.number})`}`, warnings: [] };
+  return {
+    matrix,
+    settings: run.settings,
+    runLabel: `Saved run ${run.id}${run.name ? ` (“${run.name}”)` : ` (Run ${run.number})`}`,
+    warnings: [],
+  };
 }
 
 function loadRatings(o: CliOptions): Loaded | CommandOutput {
@@ -91,7 +121,13 @@ function loadRatings(o: CliOptions): Loaded | CommandOutput {
   if (!read.ok) return { code: 2, stdout: [], stderr: read.messages };
   // The report draws the whole matrix, so a sparse read is made dense here.
   const matrix = isSparseMatrix(read.matrix) ? toDenseMatrix(read.matrix) : read.matrix;
-  return { matrix: withScale(matrix, o), settings: fitSettingsFromOptions(o), runLabel: 'Command-line run', warnings: read.warnings, choose: !o.modelOptionsGiven };
+  return {
+    matrix: withScale(matrix, o),
+    settings: fitSettingsFromOptions(o),
+    runLabel: 'Command-line run',
+    warnings: read.warnings,
+    choose: !o.modelOptionsGiven,
+  };
 }
 
 function sha256(text: string): string {
@@ -100,7 +136,13 @@ function sha256(text: string): string {
 
 function lowRankBase(s: FitSettings): LowRankSettings {
   if (s.model === 'lowrank') return s;
-  return { ...defaultLowRankSettings(), maxIterations: s.maxIterations, seed: s.seed, clipToScale: s.clipToScale, snapToStep: s.snapToStep };
+  return {
+    ...defaultLowRankSettings(),
+    maxIterations: s.maxIterations,
+    seed: s.seed,
+    clipToScale: s.clipToScale,
+    snapToStep: s.snapToStep,
+  };
 }
 
 export function runReport(o: CliOptions, appVersion: string, now: () => Date = () => new Date()): CommandOutput {
@@ -109,7 +151,12 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
   const m = loaded.matrix;
   const outputs = [o.out!, ...(o.csv !== undefined ? [o.csv, sidecarPathFor(o.csv)] : [])];
   const existing = o.force ? undefined : outputs.find((p) => existsSync(p));
-  if (existing !== undefined) return { code: 2, stdout: [], stderr: [`rankfill: ${existing} already exists; nothing written (add --force to replace it)`] };
+  if (existing !== undefined)
+    return {
+      code: 2,
+      stdout: [],
+      stderr: [`rankfill: ${existing} already exists; nothing written (add --force to replace it)`],
+    };
   const t0 = performance.now();
   let settings = loaded.settings;
   let choice: ReportInput['choice'] = null;
@@ -117,16 +164,43 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
     // No model options: the same quick cross-validated choice as `fill` makes.
     const auto = autoSettings(m, settings);
     settings = auto.settings;
-    choice = { reason: auto.reason, folds: auto.folds, candidates: auto.candidates, meanRmse: auto.rmse, baselineMeanRmse: auto.baselineRmse };
+    choice = {
+      reason: auto.reason,
+      folds: auto.folds,
+      candidates: auto.candidates,
+      meanRmse: auto.rmse,
+      baselineMeanRmse: auto.baselineRmse,
+    };
   }
   const fit = fitModel(m, settings);
   const evaluation = tuneToPayload(tune(m, { settings: reportEvaluationSettings(settings) }, o.folds, settings.seed));
   const base = lowRankBase(settings);
   const centering = o.compareCentering
-    ? tuneToPayload(tune(m, { settings: (['none', 'row', 'column', 'both'] as const).map((c) => ({ ...base, centering: c })) }, o.folds, settings.seed))
+    ? tuneToPayload(
+        tune(
+          m,
+          { settings: (['none', 'row', 'column', 'both'] as const).map((c) => ({ ...base, centering: c })) },
+          o.folds,
+          settings.seed,
+        ),
+      )
     : null;
   const tuning = o.tune
-    ? tuneToPayload(tune(m, { settings: expandLowRankGrid({ ranks: o.ranks ?? defaultGrid(m).ranks, lambdas: o.lambdas ?? defaultGrid(m).lambdas, centerings: [base.centering], base }) }, o.folds, settings.seed))
+    ? tuneToPayload(
+        tune(
+          m,
+          {
+            settings: expandLowRankGrid({
+              ranks: o.ranks ?? defaultGrid(m).ranks,
+              lambdas: o.lambdas ?? defaultGrid(m).lambdas,
+              centerings: [base.centering],
+              base,
+            }),
+          },
+          o.folds,
+          settings.seed,
+        ),
+      )
     : null;
   let intervals: IntervalsAtLevel | undefined;
   if (o.level !== undefined) {
@@ -140,7 +214,13 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
   const finalObjective = fit.objectiveTrace.length ? fit.objectiveTrace[fit.objectiveTrace.length - 1] : null;
   const exports: ReportExport[] = [];
   if (o.csv !== undefined) {
-    const options: ExportOptions = { kind: 'filled-wide', roundToStep: false, decimals: o.decimals ?? null, delimiter: ',', formulaGuard: !o.rawLabels };
+    const options: ExportOptions = {
+      kind: 'filled-wide',
+      roundToStep: false,
+      decimals: o.decimals ?? null,
+      delimiter: ',',
+      formulaGuard: !o.rawLabels,
+    };
     const observed = observedCount(m);
     const sidecarPath = sidecarPathFor(o.csv);
     const writtenAt = now();
@@ -149,10 +229,23 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
       exportedAt: writtenAt,
       file: o.csv,
       options,
-      document: { title: basename(o.input), rows: m.rowLabels.length, cols: m.colLabels.length, observed, filled: m.values.length - observed },
+      document: {
+        title: basename(o.input),
+        rows: m.rowLabels.length,
+        cols: m.colLabels.length,
+        observed,
+        filled: m.values.length - observed,
+      },
       settings,
       run: { iterations: fit.iterations, converged: fit.converged, finalObjective, refitsAfterEdits: 0 },
-      metrics: { folds: evaluation.k, seed: evaluation.seed, meanRmse: evaluation.table[0].meanRmse, sdRmse: evaluation.table[0].sdRmse, meanMae: evaluation.table[0].meanMae, sdMae: evaluation.table[0].sdMae },
+      metrics: {
+        folds: evaluation.k,
+        seed: evaluation.seed,
+        meanRmse: evaluation.table[0].meanRmse,
+        sdRmse: evaluation.table[0].sdRmse,
+        meanMae: evaluation.table[0].meanMae,
+        sdMae: evaluation.table[0].sdMae,
+      },
       ...(intervals ? { intervals: sidecarIntervals(intervals) } : {}),
       inputSha256,
     });
@@ -171,7 +264,15 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
     createdAt: now().toISOString(),
     matrix: m,
     inputSha256,
-    run: { label: loaded.runLabel, settings, iterations: fit.iterations, converged: fit.converged, finalObjective, objectiveTrace: fit.objectiveTrace, refitsAfterEdits: 0 },
+    run: {
+      label: loaded.runLabel,
+      settings,
+      iterations: fit.iterations,
+      converged: fit.converged,
+      finalObjective,
+      objectiveTrace: fit.objectiveTrace,
+      refitsAfterEdits: 0,
+    },
     evaluation,
     centering,
     tuning,
@@ -191,7 +292,22 @@ export function runReport(o: CliOptions, appVersion: string, now: () => Date = (
     return {
       code: 0,
       stderr: loaded.warnings,
-      stdout: [JSON.stringify({ command: 'report', input: o.input, output: o.out, bytes: Buffer.byteLength(html), run: loaded.runLabel, settings, evaluation, centering: centering !== null, tuning: tuning !== null, exports, inputSha256, computeMs })],
+      stdout: [
+        JSON.stringify({
+          command: 'report',
+          input: o.input,
+          output: o.out,
+          bytes: Buffer.byteLength(html),
+          run: loaded.runLabel,
+          settings,
+          evaluation,
+          centering: centering !== null,
+          tuning: tuning !== null,
+          exports,
+          inputSha256,
+          computeMs,
+        }),
+      ],
     };
   }
   return {

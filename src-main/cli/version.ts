@@ -4,7 +4,8 @@ import { join } from 'node:path';
 
 export function appVersion(): string {
   try {
-    return (JSON.parse(readFileSync(join(__dirname, '..', '..', 'package.json'), 'utf8')) as { version: string }).version;
+    return (JSON.parse(readFileSync(join(__dirname, '..', '..', 'package.json'), 'utf8')) as { version: string })
+      .version;
   } catch {
     return 'unknown';
   }

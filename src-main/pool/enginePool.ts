@@ -48,13 +48,19 @@ export function runFoldsInProcess(job: FoldJob, shouldStop?: () => boolean): Fol
   for (let f = 0; f < job.folds.k; f++) {
     const row: FoldOutcome[] = new Array(job.settings.length);
     for (const group of settingGroups(job.settings)) {
-      const outcomes = runFoldTask(job.matrix, job.folds, f, group.map((t) => job.settings[t]), {
-        reuse: job.reuse,
-        keepHeldOut: job.keepHeldOut,
-        keepModels: job.keepModels,
-        shouldStop,
-        onSettingDone: () => job.onProgress?.(++done, total),
-      });
+      const outcomes = runFoldTask(
+        job.matrix,
+        job.folds,
+        f,
+        group.map((t) => job.settings[t]),
+        {
+          reuse: job.reuse,
+          keepHeldOut: job.keepHeldOut,
+          keepModels: job.keepModels,
+          shouldStop,
+          onSettingDone: () => job.onProgress?.(++done, total),
+        },
+      );
       group.forEach((t, g) => (row[t] = outcomes[g]));
     }
     out.push(row);
@@ -135,7 +141,9 @@ export class EnginePool {
           w.off('error', onError);
           w.off('exit', onExit);
           if (m.type === 'done') {
-            m.outcomes.forEach((o, g) => (out[next.fold][next.group[g]] = 'error' in o ? { error: new Error(o.error) } : o));
+            m.outcomes.forEach(
+              (o, g) => (out[next.fold][next.group[g]] = 'error' in o ? { error: new Error(o.error) } : o),
+            );
             remaining--;
             if (remaining === 0) resolve(out);
             else feed(slot);

@@ -3,7 +3,14 @@
  * both paths run the same fold tasks, so they give the same numbers.
  */
 import type { SparseMatrix } from '../../src-shared/matrix/sparseRatings';
-import { foldIntervals, gatherHeldOut, makeFolds, scoreOrThrow, summarizeFolds, type CrossValidationResult } from '../../src-shared/engine/crossValidation';
+import {
+  foldIntervals,
+  gatherHeldOut,
+  makeFolds,
+  scoreOrThrow,
+  summarizeFolds,
+  type CrossValidationResult,
+} from '../../src-shared/engine/crossValidation';
 import type { SparseModel } from '../../src-shared/engine/fitModel';
 import { chooseFromTable, tableFromOutcomes, type TuneResult } from '../../src-shared/engine/tuning';
 import type { FitSettings } from '../../src-shared/engine/types';
@@ -31,12 +38,25 @@ export async function evaluateOnPool(
 ): Promise<CrossValidationResult> {
   const folds = makeFolds(matrix, k, seed);
   const levels = opts.intervalLevels ?? [];
-  const outcomes = await run(pool, { matrix, folds, settings: [settings], reuse: false, keepHeldOut: opts.keepHeldOut, keepModels: levels.length > 0 });
+  const outcomes = await run(pool, {
+    matrix,
+    folds,
+    settings: [settings],
+    reuse: false,
+    keepHeldOut: opts.keepHeldOut,
+    keepModels: levels.length > 0,
+  });
   const first = outcomes.map((perFold) => perFold[0]);
   const result = summarizeFolds(first.map(scoreOrThrow));
-  if (opts.keepHeldOut) result.heldOut = gatherHeldOut(folds, first.map((o) => ('heldOut' in o ? o.heldOut : undefined)));
+  if (opts.keepHeldOut)
+    result.heldOut = gatherHeldOut(
+      folds,
+      first.map((o) => ('heldOut' in o ? o.heldOut : undefined)),
+    );
   if (levels.length) {
-    const models = first.map((o) => ('model' in o ? o.model : undefined)).filter((x): x is SparseModel => x !== undefined);
+    const models = first
+      .map((o) => ('model' in o ? o.model : undefined))
+      .filter((x): x is SparseModel => x !== undefined);
     const intervals = foldIntervals(matrix, folds, settings, models, levels);
     if (intervals) result.intervals = intervals;
   }

@@ -50,13 +50,17 @@ export class ApiRouter {
       reply = await handler(parsed.data);
     } catch (err) {
       const message = err instanceof Error ? err.message : String(err);
-      if (!(err instanceof UserFacingError)) this.log(`${method} failed: ${err instanceof Error ? err.stack : message}`);
+      if (!(err instanceof UserFacingError))
+        this.log(`${method} failed: ${err instanceof Error ? err.stack : message}`);
       return { ok: false, error: { code: 'failed', message } };
     }
     const checked = spec.reply.safeParse(reply);
     if (!checked.success) {
       this.log(`${method} produced an invalid reply: ${describeIssues(checked.error)}`);
-      return { ok: false, error: { code: 'bad-reply', message: `${method}: internal reply did not match the contract` } };
+      return {
+        ok: false,
+        error: { code: 'bad-reply', message: `${method}: internal reply did not match the contract` },
+      };
     }
     return { ok: true, data: checked.data };
   }
@@ -98,7 +102,7 @@ export class ApiRouter {
 }
 
 /** Whether an error is the engine's or V8's refusal to build something that large. */
-export function isTooLarge(err: unknown): boolean {
+function isTooLarge(err: unknown): boolean {
   const e = err as { name?: string; code?: string; message?: string } | null;
   return (
     e?.name === 'RangeError' ||

@@ -84,7 +84,7 @@ function refuseKind(st: fsSync.Stats, shown: string): void {
 }
 
 /** The path actually replaced: the target itself, or the file a link at the target points to. */
-export async function resolveWriteTarget(target: string): Promise<string> {
+async function resolveWriteTarget(target: string): Promise<string> {
   const abs = path.resolve(target);
   let st: fsSync.Stats;
   try {
@@ -101,14 +101,15 @@ export async function resolveWriteTarget(target: string): Promise<string> {
   try {
     real = await fs.realpath(abs);
   } catch (err) {
-    if ((err as NodeJS.ErrnoException).code === 'ENOENT') throw codedError('EDANGLING', `${abs} is a link to a file that does not exist`);
+    if ((err as NodeJS.ErrnoException).code === 'ENOENT')
+      throw codedError('EDANGLING', `${abs} is a link to a file that does not exist`);
     throw err;
   }
   refuseKind(await fs.stat(real), real);
   return real;
 }
 
-export function resolveWriteTargetSync(target: string): string {
+function resolveWriteTargetSync(target: string): string {
   const abs = path.resolve(target);
   let st: fsSync.Stats;
   try {
@@ -125,7 +126,8 @@ export function resolveWriteTargetSync(target: string): string {
   try {
     real = fsSync.realpathSync(abs);
   } catch (err) {
-    if ((err as NodeJS.ErrnoException).code === 'ENOENT') throw codedError('EDANGLING', `${abs} is a link to a file that does not exist`);
+    if ((err as NodeJS.ErrnoException).code === 'ENOENT')
+      throw codedError('EDANGLING', `${abs} is a link to a file that does not exist`);
     throw err;
   }
   refuseKind(fsSync.statSync(real), real);
@@ -185,7 +187,11 @@ async function keepBackup(realTarget: string, doSync: boolean): Promise<void> {
   }
 }
 
-export async function atomicWrite(target: string, data: string | Uint8Array, opts: AtomicWriteOptions = {}): Promise<void> {
+export async function atomicWrite(
+  target: string,
+  data: string | Uint8Array,
+  opts: AtomicWriteOptions = {},
+): Promise<void> {
   const doSync = opts.fsync ?? true;
   const real = await resolveWriteTarget(target);
   const dir = path.dirname(real);
@@ -209,7 +215,11 @@ export async function atomicWrite(target: string, data: string | Uint8Array, opt
 }
 
 /** The same steps, synchronously (the command line writes its one output this way). No backup. */
-export function atomicWriteSync(target: string, data: string | Uint8Array, opts: Omit<AtomicWriteOptions, 'backup'> = {}): void {
+export function atomicWriteSync(
+  target: string,
+  data: string | Uint8Array,
+  opts: Omit<AtomicWriteOptions, 'backup'> = {},
+): void {
   const doSync = opts.fsync ?? true;
   const real = resolveWriteTargetSync(target);
   const dir = path.dirname(real);
@@ -289,7 +299,7 @@ export async function removeLeftoverTemps(dir: string, opts: LeftoverOptions = {
   return removed;
 }
 
-export function removeLeftoverTempsSync(dir: string, opts: LeftoverOptions = {}): number {
+function removeLeftoverTempsSync(dir: string, opts: LeftoverOptions = {}): number {
   let removed = 0;
   let names: string[];
   try {

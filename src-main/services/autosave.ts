@@ -9,7 +9,10 @@ import { AutosaveSchedule } from '../../src-shared/project/autosaveSchedule';
 import type { ProjectDocument } from '../../src-shared/project/projectDocument';
 import type { RecoveryStore } from './recovery';
 
-const hostTimers = { set: (fn: () => void, ms: number) => setTimeout(fn, ms), clear: (h: unknown) => clearTimeout(h as ReturnType<typeof setTimeout>) };
+const hostTimers = {
+  set: (fn: () => void, ms: number) => setTimeout(fn, ms),
+  clear: (h: unknown) => clearTimeout(h as ReturnType<typeof setTimeout>),
+};
 
 export interface AutosaveOptions {
   /** Override the shared timings (tests only). */
@@ -42,7 +45,10 @@ export class Autosaver {
     const src = this.source;
     if (!src) return;
     try {
-      const entry = await this.store.writeSnapshot(this.id, src.doc(), { title: src.title, sourcePath: src.sourcePath });
+      const entry = await this.store.writeSnapshot(this.id, src.doc(), {
+        title: src.title,
+        sourcePath: src.sourcePath,
+      });
       this.opts.onSaved?.(entry.file);
     } catch (err) {
       this.opts.onError?.(err);

@@ -8,7 +8,10 @@
 import os from 'node:os';
 import path from 'node:path';
 
-export function defaultConfigDir(env: NodeJS.ProcessEnv = process.env, platform: NodeJS.Platform = process.platform): string {
+export function defaultConfigDir(
+  env: NodeJS.ProcessEnv = process.env,
+  platform: NodeJS.Platform = process.platform,
+): string {
   if (env.RANKFILL_CONFIG_DIR) return path.resolve(env.RANKFILL_CONFIG_DIR);
   const home = os.homedir();
   if (platform === 'win32') return path.join(env.APPDATA ?? path.join(home, 'AppData', 'Roaming'), 'Rankfill');

@@ -96,9 +96,12 @@ export function createServices(opts: CreateServicesOptions): MainServices {
       'app.info': async () => ({ name: 'Rankfill', version, apiVersion: API_VERSION, host: opts.host }),
       'samples.list': async () => ({ samples: await samples.list() }),
       'samples.open': async ({ id }) => samples.open(id),
-      'fit.start': async ({ matrix, settings, trust, warmStart, clientId }) => jobs.startFit(matrix, settings, { trust, warmStart, clientId }),
-      'fit.evaluate': async ({ matrix, settings, folds, seed, clientId }) => jobs.startEvaluate(matrix, settings, folds, seed, clientId),
-      'fit.tune': async ({ matrix, settingsList, folds, seed, clientId }) => jobs.startTune(matrix, settingsList, folds, seed, clientId),
+      'fit.start': async ({ matrix, settings, trust, warmStart, clientId }) =>
+        jobs.startFit(matrix, settings, { trust, warmStart, clientId }),
+      'fit.evaluate': async ({ matrix, settings, folds, seed, clientId }) =>
+        jobs.startEvaluate(matrix, settings, folds, seed, clientId),
+      'fit.tune': async ({ matrix, settingsList, folds, seed, clientId }) =>
+        jobs.startTune(matrix, settingsList, folds, seed, clientId),
       'fit.cancel': async ({ jobId }) => ({ cancelled: jobs.cancel(jobId) }),
       'export.suggestPath': async ({ fileName }) => ({ path: suggestExportPath(fileName) }),
       'export.write': async (req) => writeExport(req),

@@ -13,7 +13,13 @@ import os from 'node:os';
 import path from 'node:path';
 import type { ApiReply, ApiRequest } from '../../src-shared/api';
 import { matrixToPayload } from '../../src-shared/apiCodec';
-import { DEFAULT_MAX_BYTES, parseDelimited, utf8ByteLength, type ParseOptions, type ParseResult } from '../../src-shared/io/parseDelimited';
+import {
+  DEFAULT_MAX_BYTES,
+  parseDelimited,
+  utf8ByteLength,
+  type ParseOptions,
+  type ParseResult,
+} from '../../src-shared/io/parseDelimited';
 import { parseProject, serializeProject } from '../../src-shared/project/projectFile';
 import type { ParseWorkerClient } from './parseOffThread';
 import { openProjectFile, saveProjectFile, withProjectExtension } from './projectStore';
@@ -41,7 +47,7 @@ export interface DocumentHandlerDeps {
   log?: (line: string) => void;
 }
 
-export type DocumentMethod =
+type DocumentMethod =
   | 'document.previewImport'
   | 'project.open'
   | 'project.save'
@@ -59,7 +65,7 @@ export type DocumentMethod =
 export type DocumentHandlers = { [M in DocumentMethod]: (req: ApiRequest<M>) => Promise<ApiReply<M>> };
 
 /** Where the page's path dialog starts and relative paths resolve: ~/Documents when present, else home. */
-export function defaultProjectFolder(): string {
+function defaultProjectFolder(): string {
   const docs = path.join(os.homedir(), 'Documents');
   return existsSync(docs) ? docs : os.homedir();
 }
@@ -100,7 +106,17 @@ export function createDocumentHandlers(deps: DocumentHandlerDeps): DocumentHandl
       const bytes = utf8ByteLength(req.text);
       if (bytes > DEFAULT_MAX_BYTES) {
         const mb = (n: number) => `${(n / (1024 * 1024)).toFixed(1).replace(/\.0$/, '')} MB`;
-        return { ok: false, problems: [{ file: req.fileName, line: 1, column: 1, message: `file is too large to import (${mb(bytes)}; the limit is ${mb(DEFAULT_MAX_BYTES)})` }] };
+        return {
+          ok: false,
+          problems: [
+            {
+              file: req.fileName,
+              line: 1,
+              column: 1,
+              message: `file is too large to import (${mb(bytes)}; the limit is ${mb(DEFAULT_MAX_BYTES)})`,
+            },
+          ],
+        };
       }
       const client = deps.parser?.();
       let result: ParseResult;
@@ -139,7 +155,9 @@ export function createDocumentHandlers(deps: DocumentHandlerDeps): DocumentHandl
     'project.choosePath': async ({ purpose, suggestedName }) => {
       if (!deps.shell) return { supported: false };
       const chosen =
-        purpose === 'open-project' ? await deps.shell.chooseOpenPath() : await deps.shell.chooseSavePath(suggestedName ?? 'Untitled.rankfill');
+        purpose === 'open-project'
+          ? await deps.shell.chooseOpenPath()
+          : await deps.shell.chooseSavePath(suggestedName ?? 'Untitled.rankfill');
       return { supported: true, path: chosen };
     },
 
@@ -147,13 +165,20 @@ export function createDocumentHandlers(deps: DocumentHandlerDeps): DocumentHandl
 
     'recovery.write': async ({ id, title, sourcePath, projectText }) => {
       const parsed = parseProject(projectText, `${id}.rankfill-recovery`);
-      if (!parsed.ok) throw new Error(`the recovery snapshot was not written: ${parsed.problems[0]?.message ?? 'invalid project'}`);
+      if (!parsed.ok)
+        throw new Error(`the recovery snapshot was not written: ${parsed.problems[0]?.message ?? 'invalid project'}`);
       const entry = await deps.recovery.writeSnapshot(id, parsed.project, { title, sourcePath });
       return { file: entry.file };
     },
 
     'recovery.list': async () => ({
-      entries: (await deps.recovery.list()).map((e) => ({ id: e.id, title: e.title, sourcePath: e.sourcePath, savedAt: e.savedAt, bytes: e.bytes })),
+      entries: (await deps.recovery.list()).map((e) => ({
+        id: e.id,
+        title: e.title,
+        sourcePath: e.sourcePath,
+        savedAt: e.savedAt,
+        bytes: e.bytes,
+      })),
     }),
 
     'recovery.restore': async ({ id }) => {

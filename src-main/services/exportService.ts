@@ -21,7 +21,7 @@ function isFolder(p: string): boolean {
   }
 }
 
-export { sidecarPathFor, maskPathFor } from './exportPaths';
+export { sidecarPathFor } from './exportPaths';
 
 export function defaultExportDir(env: NodeJS.ProcessEnv = process.env): string {
   return env.RANKFILL_EXPORT_DIR ?? join(homedir(), 'Rankfill exports');
@@ -29,7 +29,11 @@ export function defaultExportDir(env: NodeJS.ProcessEnv = process.env): string {
 
 /** A path in the export folder that does not exist yet: name.csv, name-2.csv, … */
 export function suggestExportPath(fileName: string, dir = defaultExportDir()): string {
-  const safe = fileName.replace(/[\\/:*?"<>|]/g, '_').replace(/\p{Cc}/gu, '_').slice(0, 200) || 'export.csv';
+  const safe =
+    fileName
+      .replace(/[\\/:*?"<>|]/g, '_')
+      .replace(/\p{Cc}/gu, '_')
+      .slice(0, 200) || 'export.csv';
   const ext = extname(safe) || '.csv';
   const stem = basename(safe, extname(safe));
   for (let n = 1; n < 10_000; n++) {
@@ -44,7 +48,8 @@ export async function writeExport(req: ApiRequest<'export.write'>): Promise<ApiR
   if (!isAbsolute(path) || path.endsWith('/') || path.includes('\u0000')) {
     return { ok: false, reason: 'invalid-path', message: `“${path}” is not a full file path` };
   }
-  if (isFolder(path)) return { ok: false, reason: 'invalid-path', message: `${path} is a folder, not a file: add a file name` };
+  if (isFolder(path))
+    return { ok: false, reason: 'invalid-path', message: `${path} is a folder, not a file: add a file name` };
   const sidecarPath = req.sidecar === undefined ? null : sidecarPathFor(path);
   const maskPath = req.mask === undefined ? null : maskPathFor(path);
   if (!req.overwrite) {

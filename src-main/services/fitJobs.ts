@@ -8,7 +8,13 @@
  * the start call arrives — the live refit after an edit depends on that.
  */
 import type { ResourceLimits, Worker } from 'node:worker_threads';
-import { crossValidationToPayload, fitResultToPayload, matrixFromPayload, trustToPayload, tuneToPayload } from '../../src-shared/apiCodec';
+import {
+  crossValidationToPayload,
+  fitResultToPayload,
+  matrixFromPayload,
+  trustToPayload,
+  tuneToPayload,
+} from '../../src-shared/apiCodec';
 import type { MatrixPayload } from '../../src-shared/api';
 import type { CrossValidationResult } from '../../src-shared/engine/crossValidation';
 import type { TuneResult } from '../../src-shared/engine/tuning';
@@ -62,17 +68,44 @@ export class FitJobs {
       rowFactors: Float64Array.from(opts.warmStart.rowFactors),
       colFactors: Float64Array.from(opts.warmStart.colFactors),
     };
-    return this.track('fit', 'fit', this.fits.startFit(matrixFromPayload(matrix), settings, { trust: opts.trust, warmStart }), reserved);
+    return this.track(
+      'fit',
+      'fit',
+      this.fits.startFit(matrixFromPayload(matrix), settings, { trust: opts.trust, warmStart }),
+      reserved,
+    );
   }
 
-  startEvaluate(matrix: MatrixPayload, settings: FitSettings, folds: number, seed: number, clientId?: string): { jobId: string } {
+  startEvaluate(
+    matrix: MatrixPayload,
+    settings: FitSettings,
+    folds: number,
+    seed: number,
+    clientId?: string,
+  ): { jobId: string } {
     const reserved = this.reserve('eval', clientId);
-    return this.track('eval', 'evaluate', this.evaluations.startEvaluate(matrixFromPayload(matrix), settings, folds, seed), reserved);
+    return this.track(
+      'eval',
+      'evaluate',
+      this.evaluations.startEvaluate(matrixFromPayload(matrix), settings, folds, seed),
+      reserved,
+    );
   }
 
-  startTune(matrix: MatrixPayload, settingsList: FitSettings[], folds: number, seed: number, clientId?: string): { jobId: string } {
+  startTune(
+    matrix: MatrixPayload,
+    settingsList: FitSettings[],
+    folds: number,
+    seed: number,
+    clientId?: string,
+  ): { jobId: string } {
     const reserved = this.reserve('eval', clientId);
-    return this.track('eval', 'tune', this.evaluations.startTune(matrixFromPayload(matrix), settingsList, folds, seed), reserved);
+    return this.track(
+      'eval',
+      'tune',
+      this.evaluations.startTune(matrixFromPayload(matrix), settingsList, folds, seed),
+      reserved,
+    );
   }
 
   cancel(jobId: string): boolean {
@@ -96,7 +129,12 @@ export class FitJobs {
     svc.on('progress', (id: string, p: ProgressPayload) => {
       const jobId = this.external.get(`${lane}/${id}`) ?? `${lane}:${id}`;
       if ('iteration' in p) {
-        router.emit('fit.progress', { jobId, iteration: p.iteration, objective: Number.isFinite(p.objective) ? p.objective : null, elapsedMs: p.elapsedMs });
+        router.emit('fit.progress', {
+          jobId,
+          iteration: p.iteration,
+          objective: Number.isFinite(p.objective) ? p.objective : null,
+          elapsedMs: p.elapsedMs,
+        });
       } else {
         router.emit('fit.step', { jobId, done: p.done, total: p.total, elapsedMs: p.elapsedMs });
       }
@@ -106,19 +144,32 @@ export class FitJobs {
       // Building the wire form of a huge result can itself fail (memory, array limits):
       // the job then ends with one sentence for the page, and the host keeps running.
       try {
-        if (kind === 'evaluate') router.emit('fit.evaluated', { jobId, result: crossValidationToPayload(result as CrossValidationResult) });
+        if (kind === 'evaluate')
+          router.emit('fit.evaluated', { jobId, result: crossValidationToPayload(result as CrossValidationResult) });
         else if (kind === 'tune') router.emit('fit.tuned', { jobId, result: tuneToPayload(result as TuneResult) });
         else {
           const r = result as FitJobResult;
-          router.emit('fit.result', { jobId, result: fitResultToPayload(r), ...(r.trust ? { trust: trustToPayload(r.trust) } : {}) });
+          router.emit('fit.result', {
+            jobId,
+            result: fitResultToPayload(r),
+            ...(r.trust ? { trust: trustToPayload(r.trust) } : {}),
+          });
         }
       } catch (err) {
         const r = result as { rows?: number; cols?: number };
-        router.emit('fit.error', { jobId, message: undeliverableMessage({ event: 'fit.result', payload: { result: { rows: r?.rows, cols: r?.cols } } }, err) });
+        router.emit('fit.error', {
+          jobId,
+          message: undeliverableMessage(
+            { event: 'fit.result', payload: { result: { rows: r?.rows, cols: r?.cols } } },
+            err,
+          ),
+        });
       }
     });
     svc.on('cancelled', (id: string) => router.emit('fit.cancelled', { jobId: this.finish(lane, id).jobId }));
-    svc.on('error', (id: string, message: string) => router.emit('fit.error', { jobId: this.finish(lane, id).jobId, message }));
+    svc.on('error', (id: string, message: string) =>
+      router.emit('fit.error', { jobId: this.finish(lane, id).jobId, message }),
+    );
   }
 
   async dispose(): Promise<void> {

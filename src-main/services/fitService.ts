@@ -42,14 +42,14 @@ import type { JobMessage, JobRequest, MatrixMessage, TrustRequest, WorkerMessage
  * backing stores), so this bounds the engine's JS objects (result tables, label arrays,
  * temporary Matrix objects), not the matrix itself; 1 GiB leaves ample room for any grid.
  */
-export const FIT_WORKER_RESOURCE_LIMITS: ResourceLimits = {
+const FIT_WORKER_RESOURCE_LIMITS: ResourceLimits = {
   maxOldGenerationSizeMb: 1024,
   maxYoungGenerationSizeMb: 64,
   stackSizeMb: 4,
 };
 
 /** How long a cancelled job may keep the worker busy before the worker is replaced. */
-export const CANCEL_GRACE_MS = 1000;
+const CANCEL_GRACE_MS = 1000;
 
 export interface FitServiceOptions {
   /** Builds a worker running fit.worker; receives the limits to pass as `resourceLimits`. */
@@ -84,8 +84,18 @@ export class FitService extends EventEmitter {
     this.limits = opts.resourceLimits ?? FIT_WORKER_RESOURCE_LIMITS;
   }
 
-  startFit(matrix: RatingMatrix, settings: FitSettings, opts: { warmStart?: { rowFactors: Float64Array; colFactors: Float64Array }; trust?: TrustRequest } = {}): string {
-    return this.enqueue({ kind: 'fit', matrix: toMessageMatrix(matrix), settings, warmStart: opts.warmStart, trust: opts.trust });
+  startFit(
+    matrix: RatingMatrix,
+    settings: FitSettings,
+    opts: { warmStart?: { rowFactors: Float64Array; colFactors: Float64Array }; trust?: TrustRequest } = {},
+  ): string {
+    return this.enqueue({
+      kind: 'fit',
+      matrix: toMessageMatrix(matrix),
+      settings,
+      warmStart: opts.warmStart,
+      trust: opts.trust,
+    });
   }
 
   startEvaluate(matrix: RatingMatrix, settings: FitSettings, k: number, seed: number): string {

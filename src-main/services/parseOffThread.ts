@@ -30,7 +30,10 @@ export class ParseWorkerClient {
     const failAll = (why: string) => {
       for (const [id, p] of this.pending) {
         this.pending.delete(id);
-        p.resolve({ ok: false, problems: [{ file: p.name, line: 1, column: 1, message: `the import stopped: ${why}` }] });
+        p.resolve({
+          ok: false,
+          problems: [{ file: p.name, line: 1, column: 1, message: `the import stopped: ${why}` }],
+        });
       }
     };
     worker.on('error', (err) => failAll(err instanceof Error ? err.message : String(err)));

@@ -9,7 +9,12 @@
 import path from 'node:path';
 import { existsSync } from 'node:fs';
 import type { Problem } from '../../src-shared/io/problem';
-import { DEFAULT_MAX_BYTES, parseDelimited, type ParseOptions, type ParseResult } from '../../src-shared/io/parseDelimited';
+import {
+  DEFAULT_MAX_BYTES,
+  parseDelimited,
+  type ParseOptions,
+  type ParseResult,
+} from '../../src-shared/io/parseDelimited';
 import type { ProjectDocument } from '../../src-shared/project/projectDocument';
 import { parseProject, serializeProject } from '../../src-shared/project/projectFile';
 import { PROJECT_FILE_EXTENSION } from '../../src-shared/project/projectSchema';
@@ -19,8 +24,10 @@ import { describeFsError, readTextFile } from './readTextFile';
 /** Largest project file opened: 200 MB. */
 export const MAX_PROJECT_BYTES = 200 * 1024 * 1024;
 
-export type OpenProjectResult = { ok: true; project: ProjectDocument; path: string } | { ok: false; problems: Problem[] };
-export type SaveProjectResult = { ok: true; path: string; bytes: number; backupKept: boolean } | { ok: false; problems: Problem[] };
+export type OpenProjectResult =
+  { ok: true; project: ProjectDocument; path: string } | { ok: false; problems: Problem[] };
+export type SaveProjectResult =
+  { ok: true; path: string; bytes: number; backupKept: boolean } | { ok: false; problems: Problem[] };
 
 export interface SaveOptions {
   /** Keep the previous version as NAME.bak (default true). */
@@ -49,7 +56,11 @@ export async function openProjectFile(filePath: string, maxBytes = MAX_PROJECT_B
  * Saves a document atomically. The returned document time is written into the file;
  * the caller's object is not modified.
  */
-export async function saveProjectFile(filePath: string, doc: ProjectDocument, opts: SaveOptions = {}): Promise<SaveProjectResult> {
+export async function saveProjectFile(
+  filePath: string,
+  doc: ProjectDocument,
+  opts: SaveOptions = {},
+): Promise<SaveProjectResult> {
   const abs = path.resolve(filePath);
   const stamped: ProjectDocument =
     opts.now === null ? doc : { ...doc, modifiedAt: (opts.now ?? new Date()).toISOString() };
@@ -57,7 +68,17 @@ export async function saveProjectFile(filePath: string, doc: ProjectDocument, op
   try {
     text = serializeProject(stamped);
   } catch (err) {
-    return { ok: false, problems: [{ file: path.basename(abs), line: 1, column: 1, message: `cannot prepare the project for saving: ${describeFsError(err)}` }] };
+    return {
+      ok: false,
+      problems: [
+        {
+          file: path.basename(abs),
+          line: 1,
+          column: 1,
+          message: `cannot prepare the project for saving: ${describeFsError(err)}`,
+        },
+      ],
+    };
   }
   const bytes = Buffer.byteLength(text, 'utf8');
   try {
@@ -75,7 +96,10 @@ export async function saveProjectFile(filePath: string, doc: ProjectDocument, op
 }
 
 /** Imports a CSV/TSV/semicolon file; the size limit (default 50 MB) is checked before reading. */
-export async function importDelimitedFile(filePath: string, opts: Omit<ParseOptions, 'fileName'> = {}): Promise<ParseResult> {
+export async function importDelimitedFile(
+  filePath: string,
+  opts: Omit<ParseOptions, 'fileName'> = {},
+): Promise<ParseResult> {
   const abs = path.resolve(filePath);
   const maxBytes = opts.maxBytes ?? DEFAULT_MAX_BYTES;
   const read = await readTextFile(abs, maxBytes);

@@ -68,7 +68,8 @@ function refusedKind(st: Stats): string | null {
   if (st.isFile()) return null;
   if (st.isDirectory()) return 'this is a folder, not a file';
   if (st.isFIFO()) return 'this is a pipe (FIFO), not a file; only regular files are opened';
-  if (st.isCharacterDevice() || st.isBlockDevice()) return 'this is a device, not a file; only regular files are opened';
+  if (st.isCharacterDevice() || st.isBlockDevice())
+    return 'this is a device, not a file; only regular files are opened';
   return 'this is not a regular file; only regular files are opened';
 }
 
@@ -98,7 +99,9 @@ export async function readBoundedFile(filePath: string, maxBytes: number): Promi
     const chunks: Buffer[] = [];
     let total = 0;
     for (;;) {
-      const chunk = Buffer.allocUnsafe(Math.min(Math.max(st.size - total, 64 * 1024), 16 * 1024 * 1024, maxBytes - total + 1));
+      const chunk = Buffer.allocUnsafe(
+        Math.min(Math.max(st.size - total, 64 * 1024), 16 * 1024 * 1024, maxBytes - total + 1),
+      );
       const { bytesRead } = await handle.read(chunk, 0, chunk.length, null);
       if (bytesRead === 0) break;
       total += bytesRead;
@@ -117,7 +120,9 @@ function readLoopSync(fd: number, maxBytes: number, sizeHint: number): ReadBytes
   const chunks: Buffer[] = [];
   let total = 0;
   for (;;) {
-    const chunk = Buffer.allocUnsafe(Math.min(Math.max(sizeHint - total, 64 * 1024), 16 * 1024 * 1024, maxBytes - total + 1));
+    const chunk = Buffer.allocUnsafe(
+      Math.min(Math.max(sizeHint - total, 64 * 1024), 16 * 1024 * 1024, maxBytes - total + 1),
+    );
     let bytesRead: number;
     try {
       bytesRead = readSync(fd, chunk, 0, chunk.length, null);
@@ -167,7 +172,7 @@ export function readBoundedFileSync(filePath: string, maxBytes: number): ReadByt
  * Where the first byte that is not valid UTF-8 sits, as line and column (characters of
  * that line before it, plus one); null when the bytes are valid UTF-8.
  */
-export function locateInvalidUtf8(buf: Uint8Array): { byte: number; line: number; column: number } | null {
+function locateInvalidUtf8(buf: Uint8Array): { byte: number; line: number; column: number } | null {
   try {
     new TextDecoder('utf-8', { fatal: true }).decode(buf);
     return null;
@@ -216,7 +221,11 @@ export interface ReadTextOptions {
   strictUtf8?: boolean;
 }
 
-export async function readTextFile(filePath: string, maxBytes: number, opts: ReadTextOptions = {}): Promise<ReadTextResult> {
+export async function readTextFile(
+  filePath: string,
+  maxBytes: number,
+  opts: ReadTextOptions = {},
+): Promise<ReadTextResult> {
   const file = path.basename(filePath);
   const read = await readBoundedFile(filePath, maxBytes);
   if (!read.ok) return { ok: false, problems: [{ file, line: 1, column: 1, message: read.reason }] };
@@ -227,7 +236,14 @@ export async function readTextFile(filePath: string, maxBytes: number, opts: Rea
     if (bad) {
       return {
         ok: false,
-        problems: [{ file, line: bad.line, column: bad.column, message: `byte ${bad.byte + 1} is not valid UTF-8 text; the file may be damaged or saved in another encoding` }],
+        problems: [
+          {
+            file,
+            line: bad.line,
+            column: bad.column,
+            message: `byte ${bad.byte + 1} is not valid UTF-8 text; the file may be damaged or saved in another encoding`,
+          },
+        ],
       };
     }
   }

@@ -50,7 +50,10 @@ export class RecentFiles {
   /** Moves (or adds) a file to the top. */
   async add(filePath: string, now: Date = new Date()): Promise<RecentFile[]> {
     const abs = path.resolve(filePath);
-    const files = [{ path: abs, openedAt: now.toISOString() }, ...(await this.list()).filter((f) => f.path !== abs)].slice(0, this.max);
+    const files = [
+      { path: abs, openedAt: now.toISOString() },
+      ...(await this.list()).filter((f) => f.path !== abs),
+    ].slice(0, this.max);
     await this.write(files);
     return files;
   }

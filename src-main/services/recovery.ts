@@ -28,10 +28,10 @@ async function readRecoveryText(file: string): Promise<string> {
   return read.bytes.toString('utf8');
 }
 
-export const RECOVERY_FORMAT_TAG = 'rankfill-recovery';
-export const RECOVERY_EXTENSION = '.rankfill-recovery';
+const RECOVERY_FORMAT_TAG = 'rankfill-recovery';
+const RECOVERY_EXTENSION = '.rankfill-recovery';
 
-export interface RecoveryMeta {
+interface RecoveryMeta {
   id: string;
   title: string;
   /** The project file the work belongs to; null for a never-saved document. */
@@ -46,7 +46,8 @@ export interface RecoveryEntry extends RecoveryMeta {
   bytes: number;
 }
 
-export type RestoreResult = { ok: true; project: ProjectDocument; meta: RecoveryMeta } | { ok: false; problems: Problem[] };
+export type RestoreResult =
+  { ok: true; project: ProjectDocument; meta: RecoveryMeta } | { ok: false; problems: Problem[] };
 
 const SAFE_ID = /^[A-Za-z0-9_-]{1,100}$/;
 
@@ -67,7 +68,11 @@ export class RecoveryStore {
   }
 
   /** Writes (replaces) the snapshot for this document. Throws on disk errors (callers log them). */
-  async writeSnapshot(id: string, doc: ProjectDocument, meta: { title?: string; sourcePath?: string | null; now?: Date } = {}): Promise<RecoveryEntry> {
+  async writeSnapshot(
+    id: string,
+    doc: ProjectDocument,
+    meta: { title?: string; sourcePath?: string | null; now?: Date } = {},
+  ): Promise<RecoveryEntry> {
     const file = this.fileFor(id);
     await fs.mkdir(this.dir, { recursive: true });
     const m: RecoveryMeta = {
@@ -121,13 +126,26 @@ export class RecoveryStore {
     try {
       text = await readRecoveryText(file);
     } catch (err) {
-      return { ok: false, problems: [{ file: name, line: 1, column: 1, message: `cannot read the recovery file: ${err instanceof Error ? err.message : String(err)}` }] };
+      return {
+        ok: false,
+        problems: [
+          {
+            file: name,
+            line: 1,
+            column: 1,
+            message: `cannot read the recovery file: ${err instanceof Error ? err.message : String(err)}`,
+          },
+        ],
+      };
     }
     let data: { format?: unknown; meta?: unknown; project?: unknown };
     try {
       data = JSON.parse(text);
     } catch {
-      return { ok: false, problems: [{ file: name, line: 1, column: 1, message: 'the recovery file is damaged (not valid JSON)' }] };
+      return {
+        ok: false,
+        problems: [{ file: name, line: 1, column: 1, message: 'the recovery file is damaged (not valid JSON)' }],
+      };
     }
     const meta = readMeta(text, data);
     if (!meta) {

@@ -51,7 +51,7 @@ export type ProgressPayload = FitProgress | StepProgress;
 /** Result of a fit job; `trust` is present when it was requested (and `spread` is set). */
 export type FitJobResult = FitResult & { trust?: CellTrust };
 
-export type ResultPayload = FitJobResult | CrossValidationResult | TuneResult;
+type ResultPayload = FitJobResult | CrossValidationResult | TuneResult;
 
 export type WorkerMessage =
   | { type: 'progress'; jobId: string; payload: ProgressPayload }

@@ -21,7 +21,17 @@ parentPort?.on('message', async (req: ParseRequest) => {
   } catch (err) {
     reply = {
       id: req.id,
-      result: { ok: false, problems: [{ file: req.kind === 'text' ? req.fileName : req.path, line: 1, column: 1, message: `could not read this file (${err instanceof Error ? err.message : String(err)})` }] },
+      result: {
+        ok: false,
+        problems: [
+          {
+            file: req.kind === 'text' ? req.fileName : req.path,
+            line: 1,
+            column: 1,
+            message: `could not read this file (${err instanceof Error ? err.message : String(err)})`,
+          },
+        ],
+      },
     };
   }
   parentPort?.postMessage(reply);

@@ -12,7 +12,7 @@ import type { RatingMatrix } from '../../src-shared/matrix/ratingMatrix';
 import { toSparseMatrix } from '../../src-shared/matrix/sparseRatings';
 import type { FitJobResult, JobMessage, ProgressPayload, WorkerMessage } from './fitProtocol';
 
-export const PROGRESS_INTERVAL_MS = 50;
+const PROGRESS_INTERVAL_MS = 50;
 
 function transferables(value: unknown): ArrayBuffer[] {
   const out: ArrayBuffer[] = [];
@@ -45,7 +45,8 @@ export function runJob(msg: JobMessage, post: (m: WorkerMessage, transfer?: Arra
     last = now;
     post({ type: 'progress', jobId, payload });
   };
-  const steps = (p: { done: number; total: number }): void => progress({ done: p.done, total: p.total, elapsedMs: performance.now() - t0 });
+  const steps = (p: { done: number; total: number }): void =>
+    progress({ done: p.done, total: p.total, elapsedMs: performance.now() - t0 });
   const matrix: RatingMatrix = request.matrix;
   try {
     if (request.kind === 'fit') {
@@ -74,7 +75,9 @@ export function runJob(msg: JobMessage, post: (m: WorkerMessage, transfer?: Arra
       const folds = makeFolds(sparse, request.k, request.seed);
       const cv = crossValidate(sparse, request.settings, folds, {
         shouldStop,
-        onProgress: (p) => { if (p.fit === undefined) steps(p); },
+        onProgress: (p) => {
+          if (p.fit === undefined) steps(p);
+        },
       });
       if (shouldStop()) throw new FitCancelledError();
       post({ type: 'result', jobId, payload: cv });
@@ -88,7 +91,6 @@ export function runJob(msg: JobMessage, post: (m: WorkerMessage, transfer?: Arra
       const requested = new Float64Array(msg.cancelFlag, 8, 1)[0];
       const stopLatencyMs = requested > 0 ? performance.timeOrigin + performance.now() - requested : undefined;
       post({ type: 'cancelled', jobId, stopLatencyMs });
-    }
-    else post({ type: 'error', jobId, message: err instanceof Error ? err.message : String(err) });
+    } else post({ type: 'error', jobId, message: err instanceof Error ? err.message : String(err) });
   }
 }

@@ -68,7 +68,11 @@ async function readToken(): Promise<string> {
   }
   if (nonce) {
     try {
-      const res = await fetch('/api/launch', { method: 'POST', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify({ nonce }) });
+      const res = await fetch('/api/launch', {
+        method: 'POST',
+        headers: { 'Content-Type': 'application/json' },
+        body: JSON.stringify({ nonce }),
+      });
       const reply = (await res.json()) as { ok?: boolean; data?: { token?: unknown } };
       if (reply.ok && typeof reply.data?.token === 'string') {
         sessionStorage.setItem('rankfill.token', reply.data.token);
@@ -112,7 +116,10 @@ export class HostBridge {
   private readonly listeners = new Map<ApiEventName, Set<(payload: unknown) => void>>();
   readonly kind: 'electron' | 'browser';
 
-  constructor(private readonly transport: Transport, kind: 'electron' | 'browser') {
+  constructor(
+    private readonly transport: Transport,
+    kind: 'electron' | 'browser',
+  ) {
     this.kind = kind;
     transport.subscribe((raw) => this.dispatch(raw));
   }
@@ -122,10 +129,15 @@ export class HostBridge {
     try {
       raw = await this.transport.call(method, request);
     } catch (err) {
-      throw new ApiCallError(method, 'transport', `Rankfill lost contact with its main side (${err instanceof Error ? err.message : String(err)}).`);
+      throw new ApiCallError(
+        method,
+        'transport',
+        `Rankfill lost contact with its main side (${err instanceof Error ? err.message : String(err)}).`,
+      );
     }
     const envelope = apiResultSchema.safeParse(raw);
-    if (!envelope.success) throw new ApiCallError(method, 'bad-reply', `${method}: the reply did not match the contract`);
+    if (!envelope.success)
+      throw new ApiCallError(method, 'bad-reply', `${method}: the reply did not match the contract`);
     const result = envelope.data as ApiResult<unknown>;
     if (!result.ok) throw new ApiCallError(method, result.error.code, result.error.message);
     const reply = apiMethods[method].reply.safeParse(result.data);

@@ -3,7 +3,14 @@
  * arrive before the call that started the job has answered, so events for
  * unknown ids are kept briefly and replayed when the job is followed.
  */
-import type { ApiEventName, ApiEventPayload, CrossValidationPayload, FitResultPayload, TrustPayload, TunePayload } from '../../src-shared/api';
+import type {
+  ApiEventName,
+  ApiEventPayload,
+  CrossValidationPayload,
+  FitResultPayload,
+  TrustPayload,
+  TunePayload,
+} from '../../src-shared/api';
 import type { HostBridge } from './hostBridge';
 
 export interface JobHandlers {
@@ -34,7 +41,15 @@ export class JobTracker {
   private early: Early[] = [];
 
   constructor(bridge: HostBridge) {
-    const names: ApiEventName[] = ['fit.progress', 'fit.step', 'fit.result', 'fit.evaluated', 'fit.tuned', 'fit.cancelled', 'fit.error'];
+    const names: ApiEventName[] = [
+      'fit.progress',
+      'fit.step',
+      'fit.result',
+      'fit.evaluated',
+      'fit.tuned',
+      'fit.cancelled',
+      'fit.error',
+    ];
     for (const name of names) bridge.on(name, (payload) => this.deliver(name, payload as { jobId: string }));
   }
 

@@ -33,7 +33,10 @@ export class ErrorBarChart {
     this.items = items;
     this.host.setAttribute(
       'aria-label',
-      `${this.yLabel} per setting: ` + items.map((i) => `${i.label} ${Number.isFinite(i.mean) ? i.mean.toFixed(3) : 'failed'}${i.best ? ' (best)' : ''}`).join(', '),
+      `${this.yLabel} per setting: ` +
+        items
+          .map((i) => `${i.label} ${Number.isFinite(i.mean) ? i.mean.toFixed(3) : 'failed'}${i.best ? ' (best)' : ''}`)
+          .join(', '),
     );
     this.plot?.destroy();
     const width = Math.max(220, this.host.clientWidth || 300);
@@ -71,7 +74,11 @@ export class ErrorBarChart {
     let lo = Infinity;
     let hi = -Infinity;
     for (const it of this.items) {
-      const vals = [...it.folds, it.mean - (Number.isFinite(it.sd) ? it.sd : 0), it.mean + (Number.isFinite(it.sd) ? it.sd : 0)];
+      const vals = [
+        ...it.folds,
+        it.mean - (Number.isFinite(it.sd) ? it.sd : 0),
+        it.mean + (Number.isFinite(it.sd) ? it.sd : 0),
+      ];
       for (const v of vals) {
         if (!Number.isFinite(v)) continue;
         lo = Math.min(lo, v);
@@ -135,7 +142,10 @@ export class ErrorBarChart {
         ctx.stroke();
         ctx.font = chartFont.replace(/^(\d+)px/, (_m, n: string) => `bold ${Number(n) * px}px`);
         // Label above the upper whisker cap (or the ring when there is no whisker).
-        const top = Number.isFinite(it.sd) && it.sd > 0 ? Math.min(u.valToPos(it.mean + it.sd, 'y', true), y - 8.5 * px) : y - 8.5 * px;
+        const top =
+          Number.isFinite(it.sd) && it.sd > 0
+            ? Math.min(u.valToPos(it.mean + it.sd, 'y', true), y - 8.5 * px)
+            : y - 8.5 * px;
         ctx.textAlign = 'center';
         ctx.textBaseline = 'bottom';
         ctx.fillText('best', x, top - 3 * px);

@@ -11,7 +11,6 @@ import 'uplot/dist/uPlot.min.css';
 import { axisStyle, chartColours } from './chartStyle';
 import { relativeChanges } from './relativeChange';
 
-
 export class ObjectiveChart {
   private plot: uPlot;
 
@@ -34,7 +33,12 @@ export class ObjectiveChart {
         scales: { x: { time: false }, y: { distr: 3 } },
         axes: [
           { ...axisStyle, label: 'iteration', size: 36 },
-          { ...axisStyle, label: 'relative change', size: 52, values: (_u, vals) => vals.map((v) => (v === null ? '' : v.toExponential(0))) },
+          {
+            ...axisStyle,
+            label: 'relative change',
+            size: 52,
+            values: (_u, vals) => vals.map((v) => (v === null ? '' : v.toExponential(0))),
+          },
         ],
         series: [{}, { stroke: chartColours.accent, width: 2, points: { show: false } }],
       },
@@ -52,11 +56,4 @@ export class ObjectiveChart {
   destroy(): void {
     this.plot.destroy();
   }
-}
-
-export function formatCompact(v: number): string {
-  const a = Math.abs(v);
-  if (a >= 1e6) return `${(v / 1e6).toPrecision(3)}M`;
-  if (a >= 1e3) return `${(v / 1e3).toPrecision(3)}k`;
-  return v.toPrecision(3);
 }

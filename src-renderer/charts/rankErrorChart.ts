@@ -10,7 +10,7 @@ import 'uplot/dist/uPlot.min.css';
 import { LINE_DASHES } from '../../src-shared/report/palette';
 import { axisStyle, chartColours, chartFont } from './chartStyle';
 
-export interface RankLine {
+interface RankLine {
   label: string;
   /** Index into the colour list (e.g. the λ's position). */
   colour: number;
@@ -20,7 +20,7 @@ export interface RankLine {
   values: number[];
 }
 
-export interface RankMark {
+interface RankMark {
   rank: number;
   value: number;
 }
@@ -35,11 +35,11 @@ export interface RankChartInput {
 
 const DASHES = LINE_DASHES;
 
-export function lineColour(i: number): string {
+function lineColour(i: number): string {
   return chartColours.series[i % chartColours.series.length];
 }
 
-export function lineDash(i: number): number[] {
+function lineDash(i: number): number[] {
   return [...DASHES[i % DASHES.length]];
 }
 
@@ -83,7 +83,14 @@ export class RankErrorChart {
           y: { range: () => this.yRange() },
         },
         axes: [
-          { ...axisStyle, label: 'rank', size: 26, labelSize: 16, splits: () => ranks, values: (_u, s) => s.map((v) => String(v)) },
+          {
+            ...axisStyle,
+            label: 'rank',
+            size: 26,
+            labelSize: 16,
+            splits: () => ranks,
+            values: (_u, s) => s.map((v) => String(v)),
+          },
           { ...axisStyle, label: 'mean RMSE', size: 48, values: (_u, vals) => vals.map((v) => v.toFixed(2)) },
         ],
         series: [
@@ -148,7 +155,8 @@ export class RankErrorChart {
       ctx.setLineDash([]);
       ctx.globalAlpha = 1;
     }
-    const same = input.best && input.oneSE && input.best.rank === input.oneSE.rank && input.best.value === input.oneSE.value;
+    const same =
+      input.best && input.oneSE && input.best.rank === input.oneSE.rank && input.best.value === input.oneSE.value;
     if (input.best && Number.isFinite(input.best.value)) {
       const x = u.valToPos(input.best.rank, 'x', true);
       const y = u.valToPos(input.best.value, 'y', true);
@@ -162,7 +170,11 @@ export class RankErrorChart {
       ctx.textAlign = 'center';
       const below = y + 22 * px < top + height;
       ctx.textBaseline = below ? 'top' : 'bottom';
-      ctx.fillText(same ? 'best = 1-SE' : 'best', Math.min(Math.max(x, left + 30 * px), left + width - 30 * px), below ? y + 9 * px : y - 9 * px);
+      ctx.fillText(
+        same ? 'best = 1-SE' : 'best',
+        Math.min(Math.max(x, left + 30 * px), left + width - 30 * px),
+        below ? y + 9 * px : y - 9 * px,
+      );
     }
     if (input.oneSE && Number.isFinite(input.oneSE.value)) {
       const x = u.valToPos(input.oneSE.rank, 'x', true);

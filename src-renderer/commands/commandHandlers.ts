@@ -7,7 +7,7 @@
  */
 import type { CommandId } from '../../src-shared/commands';
 
-export type CommandHandler = (index?: number) => unknown;
+type CommandHandler = (index?: number) => unknown;
 export type CommandHandlers = Record<CommandId, CommandHandler>;
 
 /** What the handlers act on; each is a narrow function so the table is testable without a page. */

@@ -13,15 +13,18 @@ export function installShortcuts(registry: CommandRegistry, isEditing: () => boo
   window.addEventListener(
     'keydown',
     (e) => {
-    if (modalOpen()) return;
-    const id = commandForKey({ key: e.key, ctrlOrCmd: e.ctrlKey || e.metaKey, shift: e.shiftKey, alt: e.altKey });
-    if (!id) return;
-    const inField = e.target instanceof HTMLInputElement || e.target instanceof HTMLTextAreaElement || e.target instanceof HTMLSelectElement;
-    if ((id === 'edit.undo' || id === 'edit.redo') && (isEditing() || inField)) return;
-    if (id === 'model.fill' && isEditing()) return;
-    e.preventDefault();
-    e.stopPropagation();
-    registry.run(id);
+      if (modalOpen()) return;
+      const id = commandForKey({ key: e.key, ctrlOrCmd: e.ctrlKey || e.metaKey, shift: e.shiftKey, alt: e.altKey });
+      if (!id) return;
+      const inField =
+        e.target instanceof HTMLInputElement ||
+        e.target instanceof HTMLTextAreaElement ||
+        e.target instanceof HTMLSelectElement;
+      if ((id === 'edit.undo' || id === 'edit.redo') && (isEditing() || inField)) return;
+      if (id === 'model.fill' && isEditing()) return;
+      e.preventDefault();
+      e.stopPropagation();
+      registry.run(id);
     },
     true,
   );

@@ -6,7 +6,7 @@
 
 import { el } from '../panels/dom';
 
-export interface ModalButton<T> {
+interface ModalButton<T> {
   label: string;
   value: T;
   primary?: boolean;
@@ -32,7 +32,10 @@ export function modalOpen(): boolean {
 }
 
 export function showModal<T>(opts: ModalOptions<T>): Promise<T> {
-  const dialog = el('dialog', { className: `rf-dialog${opts.wide ? ' rf-dialog-wide' : ''}`, testid: opts.testId ?? 'dialog' });
+  const dialog = el('dialog', {
+    className: `rf-dialog${opts.wide ? ' rf-dialog-wide' : ''}`,
+    testid: opts.testId ?? 'dialog',
+  });
   const body = typeof opts.body === 'string' ? el('p', { text: opts.body }) : opts.body;
   const error = el('div', { className: 'rf-dialog-error', testid: 'dialog-error', attrs: { role: 'alert' } });
   error.hidden = true;
@@ -59,7 +62,12 @@ export function showModal<T>(opts: ModalOptions<T>): Promise<T> {
       resolve(value);
     };
     for (const b of opts.buttons) {
-      const btn = el('button', { className: `rf-button${b.primary ? ' rf-primary' : ''}${b.danger ? ' rf-danger' : ''}`, text: b.label, testid: b.testId, attrs: { type: 'button' } });
+      const btn = el('button', {
+        className: `rf-button${b.primary ? ' rf-primary' : ''}${b.danger ? ' rf-danger' : ''}`,
+        text: b.label,
+        testid: b.testId,
+        attrs: { type: 'button' },
+      });
       btn.addEventListener('click', () => finish(b.value));
       buttons.append(btn);
     }
@@ -79,7 +87,8 @@ export function showModal<T>(opts: ModalOptions<T>): Promise<T> {
       e.stopPropagation();
     });
     dialog.showModal();
-    const first = dialog.querySelector<HTMLElement>('input, select, textarea') ?? dialog.querySelector<HTMLElement>('.rf-primary');
+    const first =
+      dialog.querySelector<HTMLElement>('input, select, textarea') ?? dialog.querySelector<HTMLElement>('.rf-primary');
     first?.focus();
   });
 }
@@ -123,7 +132,9 @@ export async function promptDialog(opts: {
 }): Promise<string | null> {
   const input = el('input', { testid: 'prompt-input', attrs: { type: 'text', spellcheck: 'false' } });
   input.value = opts.initial ?? '';
-  const body = el('div', {}, [el('label', { className: 'rf-dialog-field' }, [el('span', { text: opts.label }), input])]);
+  const body = el('div', {}, [
+    el('label', { className: 'rf-dialog-field' }, [el('span', { text: opts.label }), input]),
+  ]);
   if (opts.hint) body.append(el('p', { className: 'rf-hint', text: opts.hint }));
   if (opts.extra) body.append(opts.extra);
   const ok = await showModal<boolean>({

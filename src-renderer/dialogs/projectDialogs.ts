@@ -29,10 +29,19 @@ export type RestoreChoice = { action: 'restore'; id: string } | { action: 'disca
 export function restoreDialog(entries: readonly RecoveryEntryPayload[]): Promise<RestoreChoice> {
   const newest = entries[0];
   const when = (iso: string) => new Date(iso).toLocaleString('en-GB');
-  const body = el('div', {}, [el('p', { text: 'Rankfill found unsaved work from a session that did not close normally.' }), listBlock(
-      entries.slice(0, 8).map((e) => `${e.title}${e.sourcePath ? ` (${e.sourcePath})` : ' (never kept)'} — ${when(e.savedAt)}`),
+  const body = el('div', {}, [
+    el('p', { text: 'Rankfill found unsaved work from a session that did not close normally.' }),
+    listBlock(
+      entries
+        .slice(0, 8)
+        .map((e) => `${e.title}${e.sourcePath ? ` (${e.sourcePath})` : ' (never kept)'} — ${when(e.savedAt)}`),
       'restore-list',
-    ), el('p', { className: 'rf-hint', text: entries.length > 1 ? 'Restore brings back the newest; the others stay offered next time.' : '' })]);
+    ),
+    el('p', {
+      className: 'rf-hint',
+      text: entries.length > 1 ? 'Restore brings back the newest; the others stay offered next time.' : '',
+    }),
+  ]);
   return showModal<RestoreChoice>({
     title: 'Bring back unsaved work?',
     body,
@@ -41,7 +50,12 @@ export function restoreDialog(entries: readonly RecoveryEntryPayload[]): Promise
     buttons: [
       { label: 'Not now', value: { action: 'later' }, testId: 'dialog-cancel' },
       { label: 'Throw it away', value: { action: 'discard-all' }, danger: true, testId: 'restore-discard' },
-      { label: `Restore “${newest.title}”`, value: { action: 'restore', id: newest.id }, primary: true, testId: 'restore-accept' },
+      {
+        label: `Restore “${newest.title}”`,
+        value: { action: 'restore', id: newest.id },
+        primary: true,
+        testId: 'restore-accept',
+      },
     ],
   });
 }
@@ -56,7 +70,9 @@ export async function pathDialog(opts: {
 }): Promise<string | null> {
   const extra = el('div');
   if (opts.recent.length) {
-    const list = el('div', { className: 'rf-path-recent', testid: 'path-recent' }, [el('span', { className: 'rf-hint', text: 'Recent:' })]);
+    const list = el('div', { className: 'rf-path-recent', testid: 'path-recent' }, [
+      el('span', { className: 'rf-hint', text: 'Recent:' }),
+    ]);
     for (const p of opts.recent.slice(0, 6)) {
       const b = el('button', { className: 'rf-linklike', text: p, attrs: { type: 'button' } });
       b.addEventListener('click', () => {

@@ -12,7 +12,11 @@ export interface SampleChoice {
 export function sampleDialog(samples: readonly SampleChoice[], openId: string): Promise<string | null> {
   const body = el('div', {}, [el('p', { text: 'Invented demo data sets, each with blank cells to fill:' })]);
   const list = el('dl', { className: 'rf-facts rf-sample-facts' });
-  for (const s of samples) list.append(el('dt', { text: s.title + (s.id === openId ? ' (open now)' : '') }), el('dd', { text: s.description }));
+  for (const s of samples)
+    list.append(
+      el('dt', { text: s.title + (s.id === openId ? ' (open now)' : '') }),
+      el('dd', { text: s.description }),
+    );
   body.append(list);
   return showModal<string | null>({
     title: 'Open a sample set',

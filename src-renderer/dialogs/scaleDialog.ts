@@ -19,7 +19,15 @@ const readNumber = (s: string) => (s.trim() === '' ? NaN : Number(s.trim().repla
 
 /** Ask for a new scale; resolves with it (after confirming any values it would clear) or null. */
 export async function scaleDialog(m: RatingMatrix): Promise<RatingScale | null> {
-  const form = el('div', { className: 'rf-scale-form' }, [numberField('min', 'Lowest rating', m.scale.min), numberField('max', 'Highest rating', m.scale.max), numberField('step', 'Step (0 = any value)', m.scale.step), el('p', { className: 'rf-hint', text: `Now: ${describeScale(m.scale)}. Examples: 1–5 step 1, 0.5–5 step 0.5, 0–10 step 0.1.` })]);
+  const form = el('div', { className: 'rf-scale-form' }, [
+    numberField('min', 'Lowest rating', m.scale.min),
+    numberField('max', 'Highest rating', m.scale.max),
+    numberField('step', 'Step (0 = any value)', m.scale.step),
+    el('p', {
+      className: 'rf-hint',
+      text: `Now: ${describeScale(m.scale)}. Examples: 1–5 step 1, 0.5–5 step 0.5, 0–10 step 0.1.`,
+    }),
+  ]);
   const read = (): RatingScale => {
     const v = (n: string) => readNumber((form.querySelector(`[name="${n}"]`) as HTMLInputElement).value);
     return { min: v('min'), max: v('max'), step: v('step') };
@@ -41,7 +49,20 @@ export async function scaleDialog(m: RatingMatrix): Promise<RatingScale | null> 
   if (outside.length === 0) return next;
   const lines = outside.slice(0, 30).map((o) => `${m.rowLabels[o.row]} × ${m.colLabels[o.col]}: ${o.value}`);
   if (outside.length > 30) lines.push(`and ${outside.length - 30} more`);
-  const body = el('div', {}, [el('p', { text: `${outside.length} observed value${outside.length === 1 ? ' lies' : 's lie'} outside ${describeScale(next)}:` }), listBlock(lines, 'scale-outside'), el('p', { text: 'Changing the scale makes these cells blank. You can take this back with Undo.' })]);
-  const confirmed = await confirmDialog('Values outside the new scale', body, `Clear ${outside.length} and change the scale`, 'Keep the old scale', 'scale-confirm-dialog', { destructive: true });
+  const body = el('div', {}, [
+    el('p', {
+      text: `${outside.length} observed value${outside.length === 1 ? ' lies' : 's lie'} outside ${describeScale(next)}:`,
+    }),
+    listBlock(lines, 'scale-outside'),
+    el('p', { text: 'Changing the scale makes these cells blank. You can take this back with Undo.' }),
+  ]);
+  const confirmed = await confirmDialog(
+    'Values outside the new scale',
+    body,
+    `Clear ${outside.length} and change the scale`,
+    'Keep the old scale',
+    'scale-confirm-dialog',
+    { destructive: true },
+  );
   return confirmed ? next : null;
 }

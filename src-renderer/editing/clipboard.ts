@@ -56,28 +56,55 @@ export async function pasteText(deps: ClipboardDeps, text: string): Promise<bool
     return false;
   }
   if (plan.overwrites > 0) {
-    const body = el('div', {}, [el('p', { text: `Pasting this ${plan.rows} × ${plan.cols} block changes ${plan.changes} cell${plan.changes === 1 ? '' : 's'}, and ${plan.overwrites} of them already hold an observed rating that would be replaced or cleared.` }), listBlock([`from ${m.rowLabels[r.r0]} × ${m.colLabels[r.c0]} to ${m.rowLabels[r.r0 + plan.rows - 1]} × ${m.colLabels[r.c0 + plan.cols - 1]}`], 'paste-range')]);
-    const ok = await confirmDialog('Replace observed ratings?', body, `Paste and change ${plan.changes} cells`, 'Cancel', 'paste-confirm-dialog');
+    const body = el('div', {}, [
+      el('p', {
+        text: `Pasting this ${plan.rows} × ${plan.cols} block changes ${plan.changes} cell${plan.changes === 1 ? '' : 's'}, and ${plan.overwrites} of them already hold an observed rating that would be replaced or cleared.`,
+      }),
+      listBlock(
+        [
+          `from ${m.rowLabels[r.r0]} × ${m.colLabels[r.c0]} to ${m.rowLabels[r.r0 + plan.rows - 1]} × ${m.colLabels[r.c0 + plan.cols - 1]}`,
+        ],
+        'paste-range',
+      ),
+    ]);
+    const ok = await confirmDialog(
+      'Replace observed ratings?',
+      body,
+      `Paste and change ${plan.changes} cells`,
+      'Cancel',
+      'paste-confirm-dialog',
+    );
     if (!ok) return false;
   }
   deps.store.setCells(`Paste ${plan.rows} × ${plan.cols} block`, plan.indices, plan.values);
   deps.selection.select(r.r0, r.c0, { row: r.r0 + plan.rows - 1, col: r.c0 + plan.cols - 1 });
-  deps.notice.show(`Pasted ${plan.rows} × ${plan.cols} block: ${plan.changes} cell${plan.changes === 1 ? '' : 's'} changed.`, 'info');
+  deps.notice.show(
+    `Pasted ${plan.rows} × ${plan.cols} block: ${plan.changes} cell${plan.changes === 1 ? '' : 's'} changed.`,
+    'info',
+  );
   return true;
 }
 
 /** Blank every selected cell as one change. */
-export function clearSelection(deps: ClipboardDeps, label = 'Clear cells'): boolean {
+function clearSelection(deps: ClipboardDeps, label = 'Clear cells'): boolean {
   const r = deps.selection.rect;
   if (!r) return false;
   const cols = deps.store.current.colLabels.length;
   const idx: number[] = [];
   for (let i = r.r0; i <= r.r1; i++) for (let j = r.c0; j <= r.c1; j++) idx.push(i * cols + j);
-  return deps.store.setCells(idx.length === 1 ? 'Clear cell' : `${label} (${idx.length})`, idx, new Float64Array(idx.length).fill(NaN));
+  return deps.store.setCells(
+    idx.length === 1 ? 'Clear cell' : `${label} (${idx.length})`,
+    idx,
+    new Float64Array(idx.length).fill(NaN),
+  );
 }
 
 export function installClipboard(deps: ClipboardDeps): void {
-  const ours = (e: Event) => !modalOpen() && !deps.isEditing() && (deps.gridHost.contains(document.activeElement) || document.activeElement === document.body) && !(e.target instanceof HTMLInputElement || e.target instanceof HTMLTextAreaElement);
+  const ours = (e: Event) =>
+    !modalOpen() &&
+    !deps.isEditing() &&
+    (deps.gridHost.contains(document.activeElement) || document.activeElement === document.body) &&
+    !(e.target instanceof HTMLInputElement || e.target instanceof HTMLTextAreaElement);
   document.addEventListener('copy', (e) => {
     if (!ours(e)) return;
     const text = selectionText(deps);

@@ -10,15 +10,29 @@ import type { DocumentStore } from '../state/documentStore';
 import type { CommandId } from '../../src-shared/commands';
 
 function button(label: string, testId: string, onClick: () => void, title = ''): HTMLButtonElement {
-  const b = el('button', { className: 'rf-button rf-edit-button', testid: testId, text: label, title: title, attrs: { type: 'button' } });
+  const b = el('button', {
+    className: 'rf-button rf-edit-button',
+    testid: testId,
+    text: label,
+    title: title,
+    attrs: { type: 'button' },
+  });
   b.addEventListener('click', onClick);
   return b;
 }
 
 /** A small drop-down menu built on <details>; closes after a choice. */
-function menu(label: string, testId: string, items: ([string, string, () => void] | 'sep')[], onOpen?: (list: HTMLElement) => void): HTMLDetailsElement {
+function menu(
+  label: string,
+  testId: string,
+  items: ([string, string, () => void] | 'sep')[],
+  onOpen?: (list: HTMLElement) => void,
+): HTMLDetailsElement {
   const list = el('div', { className: 'rf-menu-list', attrs: { role: 'menu' } });
-  const details = el('details', { className: 'rf-menu', testid: testId }, [el('summary', { className: 'rf-button rf-edit-button', text: label }), list]);
+  const details = el('details', { className: 'rf-menu', testid: testId }, [
+    el('summary', { className: 'rf-button rf-edit-button', text: label }),
+    list,
+  ]);
   const fill = () => {
     list.replaceChildren();
     for (const it of items) {
@@ -46,7 +60,10 @@ function menu(label: string, testId: string, items: ([string, string, () => void
   return details;
 }
 
-export function mountEditBar(root: HTMLElement, deps: { store: DocumentStore; bridge: HostBridge; run: (id: CommandId, index?: number) => void }): void {
+export function mountEditBar(
+  root: HTMLElement,
+  deps: { store: DocumentStore; bridge: HostBridge; run: (id: CommandId, index?: number) => void },
+): void {
   const { store, bridge, run } = deps;
   const cmd = (id: CommandId) => () => run(id);
   const undo = button('Undo', 'undo-button', cmd('edit.undo'));
@@ -70,7 +87,12 @@ export function mountEditBar(root: HTMLElement, deps: { store: DocumentStore; br
     ['Sort rows by this column, low → high', 'cmd-sort-col-asc', cmd('edit.sortByColumnAsc')],
     ['Sort rows by this column, high → low', 'cmd-sort-col-desc', cmd('edit.sortByColumnDesc')],
   ]);
-  const swap = button('Swap rows ⇄ columns', 'transpose-button', cmd('edit.transpose'), 'Rows become columns and columns become rows (one undoable change)');
+  const swap = button(
+    'Swap rows ⇄ columns',
+    'transpose-button',
+    cmd('edit.transpose'),
+    'Rows become columns and columns become rows (one undoable change)',
+  );
 
   const recentItems: [string, string, () => void][] = [];
   const recent = menu('Recent ▾', 'recent-menu', [], (list) => {
@@ -82,7 +104,12 @@ export function mountEditBar(root: HTMLElement, deps: { store: DocumentStore; br
         recentItems.length = 0;
         if (rf.length === 0) list.append(el('span', { className: 'rf-hint', text: 'No recent projects yet' }));
         rf.forEach((f, i) => {
-          const b = el('button', { testid: `recent-${i}`, text: f.path, title: `last opened ${new Date(f.openedAt).toLocaleString('en-GB')}`, attrs: { type: 'button', role: 'menuitem' } });
+          const b = el('button', {
+            testid: `recent-${i}`,
+            text: f.path,
+            title: `last opened ${new Date(f.openedAt).toLocaleString('en-GB')}`,
+            attrs: { type: 'button', role: 'menuitem' },
+          });
           b.addEventListener('click', () => {
             (list.parentElement as HTMLDetailsElement).open = false;
             run('file.openRecent', i);
@@ -97,7 +124,17 @@ export function mountEditBar(root: HTMLElement, deps: { store: DocumentStore; br
     el('div', { className: 'rf-edit-group' }, [undo, redo]),
     el('div', { className: 'rf-edit-group' }, [rowsCols, swap, scale]),
     el('div', { className: 'rf-edit-spacer' }),
-    el('div', { className: 'rf-edit-group' }, [button('Open project…', 'open-project-button', cmd('file.openProject'), 'Open a .rankfill project file (Ctrl+Shift+O)'), recent, button('Keep', 'save-button', cmd('file.save'), 'Keep the project in its file (Ctrl+S)'), button('Keep as…', 'save-as-button', cmd('file.saveAs'), 'Keep the project in a new file (Ctrl+Shift+S)')]),
+    el('div', { className: 'rf-edit-group' }, [
+      button(
+        'Open project…',
+        'open-project-button',
+        cmd('file.openProject'),
+        'Open a .rankfill project file (Ctrl+Shift+O)',
+      ),
+      recent,
+      button('Keep', 'save-button', cmd('file.save'), 'Keep the project in its file (Ctrl+S)'),
+      button('Keep as…', 'save-as-button', cmd('file.saveAs'), 'Keep the project in a new file (Ctrl+Shift+S)'),
+    ]),
   );
 
   const refresh = () => {

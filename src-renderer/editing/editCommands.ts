@@ -69,20 +69,28 @@ export class EditCommands {
   addRow(): void {
     const h = this.here();
     const at = this.m.rowLabels.length ? h.r1 + 1 : 0;
-    this.commit('Add row', insertRow(this.m, at, freshLabel(this.m.rowLabels, 'Row')), () => this.d.selection.select(at, h.col));
+    this.commit('Add row', insertRow(this.m, at, freshLabel(this.m.rowLabels, 'Row')), () =>
+      this.d.selection.select(at, h.col),
+    );
   }
 
   addColumn(): void {
     const h = this.here();
     const at = this.m.colLabels.length ? h.c1 + 1 : 0;
-    this.commit('Add column', insertColumn(this.m, at, freshLabel(this.m.colLabels, 'Item')), () => this.d.selection.select(h.row, at));
+    this.commit('Add column', insertColumn(this.m, at, freshLabel(this.m.colLabels, 'Item')), () =>
+      this.d.selection.select(h.row, at),
+    );
   }
 
   async deleteRows(): Promise<void> {
     const h = this.here();
     const idx = Array.from({ length: h.r1 - h.row + 1 }, (_, k) => h.row + k);
     const names = idx.map((i) => this.m.rowLabels[i]);
-    const ok = await confirmDialog('Delete rows', `Delete ${idx.length === 1 ? `the row “${names[0]}”` : `${idx.length} rows (${names[0]} … ${names[names.length - 1]})`} and its ratings? Undo brings it back.`, 'Delete');
+    const ok = await confirmDialog(
+      'Delete rows',
+      `Delete ${idx.length === 1 ? `the row “${names[0]}”` : `${idx.length} rows (${names[0]} … ${names[names.length - 1]})`} and its ratings? Undo brings it back.`,
+      'Delete',
+    );
     if (ok) this.commit(idx.length === 1 ? 'Delete row' : `Delete ${idx.length} rows`, deleteRows(this.m, idx));
   }
 
@@ -90,8 +98,13 @@ export class EditCommands {
     const h = this.here();
     const idx = Array.from({ length: h.c1 - h.col + 1 }, (_, k) => h.col + k);
     const names = idx.map((j) => this.m.colLabels[j]);
-    const ok = await confirmDialog('Delete columns', `Delete ${idx.length === 1 ? `the column “${names[0]}”` : `${idx.length} columns (${names[0]} … ${names[names.length - 1]})`} and its ratings? Undo brings it back.`, 'Delete');
-    if (ok) this.commit(idx.length === 1 ? 'Delete column' : `Delete ${idx.length} columns`, deleteColumns(this.m, idx));
+    const ok = await confirmDialog(
+      'Delete columns',
+      `Delete ${idx.length === 1 ? `the column “${names[0]}”` : `${idx.length} columns (${names[0]} … ${names[names.length - 1]})`} and its ratings? Undo brings it back.`,
+      'Delete',
+    );
+    if (ok)
+      this.commit(idx.length === 1 ? 'Delete column' : `Delete ${idx.length} columns`, deleteColumns(this.m, idx));
   }
 
   async renameRow(): Promise<void> {
@@ -103,9 +116,15 @@ export class EditCommands {
       label: `New label for “${old}”`,
       initial: old,
       confirmLabel: 'Rename',
-      check: (v) => labelProblem(v, this.m.rowLabels.filter((_, i) => i !== row), 'row'),
+      check: (v) =>
+        labelProblem(
+          v,
+          this.m.rowLabels.filter((_, i) => i !== row),
+          'row',
+        ),
     });
-    if (name !== null && name.trim() !== old) this.commit(`Rename row “${old}”`, renameRow(this.m, row, name), undefined, true);
+    if (name !== null && name.trim() !== old)
+      this.commit(`Rename row “${old}”`, renameRow(this.m, row, name), undefined, true);
   }
 
   async renameColumn(): Promise<void> {
@@ -117,30 +136,46 @@ export class EditCommands {
       label: `New label for “${old}”`,
       initial: old,
       confirmLabel: 'Rename',
-      check: (v) => labelProblem(v, this.m.colLabels.filter((_, j) => j !== col), 'column'),
+      check: (v) =>
+        labelProblem(
+          v,
+          this.m.colLabels.filter((_, j) => j !== col),
+          'column',
+        ),
     });
-    if (name !== null && name.trim() !== old) this.commit(`Rename column “${old}”`, renameColumn(this.m, col, name), undefined, true);
+    if (name !== null && name.trim() !== old)
+      this.commit(`Rename column “${old}”`, renameColumn(this.m, col, name), undefined, true);
   }
 
   moveRow(delta: number): void {
     const { row, col } = this.here();
-    this.commit(delta < 0 ? 'Move row up' : 'Move row down', moveRow(this.m, row, delta), () => this.d.selection.select(row + delta, col));
+    this.commit(delta < 0 ? 'Move row up' : 'Move row down', moveRow(this.m, row, delta), () =>
+      this.d.selection.select(row + delta, col),
+    );
   }
 
   moveColumn(delta: number): void {
     const { row, col } = this.here();
-    this.commit(delta < 0 ? 'Move column left' : 'Move column right', moveColumn(this.m, col, delta), () => this.d.selection.select(row, col + delta));
+    this.commit(delta < 0 ? 'Move column left' : 'Move column right', moveColumn(this.m, col, delta), () =>
+      this.d.selection.select(row, col + delta),
+    );
   }
 
   sortByLabel(direction: 'asc' | 'desc'): void {
-    this.commit(`Sort rows by label (${direction === 'asc' ? 'A→Z' : 'Z→A'})`, { ok: true, matrix: sortRows(this.m, { by: 'label' }, direction) });
+    this.commit(`Sort rows by label (${direction === 'asc' ? 'A→Z' : 'Z→A'})`, {
+      ok: true,
+      matrix: sortRows(this.m, { by: 'label' }, direction),
+    });
   }
 
   sortByColumn(direction: 'asc' | 'desc'): void {
     const { col } = this.here();
     const name = this.m.colLabels[col];
     if (name === undefined) return;
-    this.commit(`Sort rows by “${name}” (${direction === 'asc' ? 'low→high' : 'high→low'})`, { ok: true, matrix: sortRows(this.m, { by: 'column', col }, direction) });
+    this.commit(`Sort rows by “${name}” (${direction === 'asc' ? 'low→high' : 'high→low'})`, {
+      ok: true,
+      matrix: sortRows(this.m, { by: 'column', col }, direction),
+    });
   }
 
   transpose(): void {
@@ -151,7 +186,12 @@ export class EditCommands {
     const next = await scaleDialog(this.m);
     if (!next) return;
     const { matrix, cleared } = applyScale(this.m, next);
-    this.d.store.swapMatrix(`Change scale to ${describeScale(next)}${cleared ? ` (${cleared} cleared)` : ''}`, matrix, { keepsCells: true });
-    this.d.notice.show(`Scale is now ${describeScale(next)}${cleared ? `; ${cleared} value${cleared === 1 ? '' : 's'} outside it cleared (Undo brings them back)` : ''}.`, 'info');
+    this.d.store.swapMatrix(`Change scale to ${describeScale(next)}${cleared ? ` (${cleared} cleared)` : ''}`, matrix, {
+      keepsCells: true,
+    });
+    this.d.notice.show(
+      `Scale is now ${describeScale(next)}${cleared ? `; ${cleared} value${cleared === 1 ? '' : 's'} outside it cleared (Undo brings them back)` : ''}.`,
+      'info',
+    );
   }
 }

@@ -18,7 +18,6 @@ import { mountEditBar } from './editBar';
 import { EditCommands } from './editCommands';
 import { ProjectFiles } from './projectFiles';
 
-
 export interface EditingDeps {
   bridge: HostBridge;
   store: DocumentStore;
@@ -70,13 +69,19 @@ export function installEditing(d: EditingDeps): Editing {
     if (!file) return;
     // The same limit the main side checks (src-shared/io/parseDelimited.ts).
     if (file.size > DEFAULT_MAX_BYTES) {
-      d.notice.show(`${file.name} is too large to import (${formatBytes(file.size)}; the limit is ${formatBytes(DEFAULT_MAX_BYTES)}). Nothing was opened.`, 'error', 0);
+      d.notice.show(
+        `${file.name} is too large to import (${formatBytes(file.size)}; the limit is ${formatBytes(DEFAULT_MAX_BYTES)}). Nothing was opened.`,
+        'error',
+        0,
+      );
       return;
     }
     void file
       .text()
       .then((text) => importWithPreview(file.name, text, file.size))
-      .catch((err: unknown) => d.notice.show(`${file.name} could not be read: ${err instanceof Error ? err.message : String(err)}`, 'error'));
+      .catch((err: unknown) =>
+        d.notice.show(`${file.name} could not be read: ${err instanceof Error ? err.message : String(err)}`, 'error'),
+      );
   });
 
   // The desktop Edit menu names what Undo and Redo would do.
@@ -86,7 +91,9 @@ export function installEditing(d: EditingDeps): Editing {
       if (e.type !== 'history') return;
       clearTimeout(timer);
       timer = setTimeout(() => {
-        void d.bridge.call('app.setEditLabels', { undo: d.store.undoLabel() ?? null, redo: d.store.redoLabel() ?? null }).catch(() => undefined);
+        void d.bridge
+          .call('app.setEditLabels', { undo: d.store.undoLabel() ?? null, redo: d.store.redoLabel() ?? null })
+          .catch(() => undefined);
       }, 150);
     });
   }

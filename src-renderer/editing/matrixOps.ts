@@ -27,7 +27,12 @@ export function labelProblem(label: string, others: readonly string[], what: 'ro
   return undefined;
 }
 
-function build(m: RatingMatrix, rowLabels: string[], colLabels: string[], get: (i: number, j: number) => number): RatingMatrix {
+function build(
+  m: RatingMatrix,
+  rowLabels: string[],
+  colLabels: string[],
+  get: (i: number, j: number) => number,
+): RatingMatrix {
   const rows = rowLabels.length;
   const cols = colLabels.length;
   const values = new Float64Array(rows * cols);
@@ -43,7 +48,12 @@ export function insertRow(m: RatingMatrix, index: number, label: string): OpResu
   if (problem) return refuse(problem);
   if (index < 0 || index > m.rowLabels.length) return refuse('no such row position');
   const rowLabels = [...m.rowLabels.slice(0, index), label.trim(), ...m.rowLabels.slice(index)];
-  return { ok: true, matrix: build(m, rowLabels, m.colLabels.slice(), (i, j) => (i < index ? at(m, i, j) : i === index ? NaN : at(m, i - 1, j))) };
+  return {
+    ok: true,
+    matrix: build(m, rowLabels, m.colLabels.slice(), (i, j) =>
+      i < index ? at(m, i, j) : i === index ? NaN : at(m, i - 1, j),
+    ),
+  };
 }
 
 /** Insert a blank column before index `at` (at = cols appends). */
@@ -52,7 +62,12 @@ export function insertColumn(m: RatingMatrix, index: number, label: string): OpR
   if (problem) return refuse(problem);
   if (index < 0 || index > m.colLabels.length) return refuse('no such column position');
   const colLabels = [...m.colLabels.slice(0, index), label.trim(), ...m.colLabels.slice(index)];
-  return { ok: true, matrix: build(m, m.rowLabels.slice(), colLabels, (i, j) => (j < index ? at(m, i, j) : j === index ? NaN : at(m, i, j - 1))) };
+  return {
+    ok: true,
+    matrix: build(m, m.rowLabels.slice(), colLabels, (i, j) =>
+      j < index ? at(m, i, j) : j === index ? NaN : at(m, i, j - 1),
+    ),
+  };
 }
 
 export function deleteRows(m: RatingMatrix, indices: readonly number[]): OpResult {
@@ -60,7 +75,15 @@ export function deleteRows(m: RatingMatrix, indices: readonly number[]): OpResul
   if (drop.size === 0) return refuse('no rows chosen');
   if (drop.size >= m.rowLabels.length) return refuse('a project keeps at least one row');
   const keep = m.rowLabels.map((_, i) => i).filter((i) => !drop.has(i));
-  return { ok: true, matrix: build(m, keep.map((i) => m.rowLabels[i]), m.colLabels.slice(), (i, j) => at(m, keep[i], j)) };
+  return {
+    ok: true,
+    matrix: build(
+      m,
+      keep.map((i) => m.rowLabels[i]),
+      m.colLabels.slice(),
+      (i, j) => at(m, keep[i], j),
+    ),
+  };
 }
 
 export function deleteColumns(m: RatingMatrix, indices: readonly number[]): OpResult {
@@ -68,34 +91,66 @@ export function deleteColumns(m: RatingMatrix, indices: readonly number[]): OpRe
   if (drop.size === 0) return refuse('no columns chosen');
   if (drop.size >= m.colLabels.length) return refuse('a project keeps at least one column');
   const keep = m.colLabels.map((_, j) => j).filter((j) => !drop.has(j));
-  return { ok: true, matrix: build(m, m.rowLabels.slice(), keep.map((j) => m.colLabels[j]), (i, j) => at(m, i, keep[j])) };
+  return {
+    ok: true,
+    matrix: build(
+      m,
+      m.rowLabels.slice(),
+      keep.map((j) => m.colLabels[j]),
+      (i, j) => at(m, i, keep[j]),
+    ),
+  };
 }
 
 export function renameRow(m: RatingMatrix, index: number, label: string): OpResult {
   if (index < 0 || index >= m.rowLabels.length) return refuse('no such row');
-  const problem = labelProblem(label, m.rowLabels.filter((_, i) => i !== index), 'row');
+  const problem = labelProblem(
+    label,
+    m.rowLabels.filter((_, i) => i !== index),
+    'row',
+  );
   if (problem) return refuse(problem);
   const rowLabels = m.rowLabels.slice();
   rowLabels[index] = label.trim();
-  return { ok: true, matrix: { rowLabels, colLabels: m.colLabels.slice(), values: new Float64Array(m.values), scale: { ...m.scale } } };
+  return {
+    ok: true,
+    matrix: { rowLabels, colLabels: m.colLabels.slice(), values: new Float64Array(m.values), scale: { ...m.scale } },
+  };
 }
 
 export function renameColumn(m: RatingMatrix, index: number, label: string): OpResult {
   if (index < 0 || index >= m.colLabels.length) return refuse('no such column');
-  const problem = labelProblem(label, m.colLabels.filter((_, j) => j !== index), 'column');
+  const problem = labelProblem(
+    label,
+    m.colLabels.filter((_, j) => j !== index),
+    'column',
+  );
   if (problem) return refuse(problem);
   const colLabels = m.colLabels.slice();
   colLabels[index] = label.trim();
-  return { ok: true, matrix: { rowLabels: m.rowLabels.slice(), colLabels, values: new Float64Array(m.values), scale: { ...m.scale } } };
+  return {
+    ok: true,
+    matrix: { rowLabels: m.rowLabels.slice(), colLabels, values: new Float64Array(m.values), scale: { ...m.scale } },
+  };
 }
 
 /** Rows in a new order: `order[k]` is the old index of the row placed at k (a permutation). */
-export function reorderRows(m: RatingMatrix, order: readonly number[]): RatingMatrix {
-  return build(m, order.map((i) => m.rowLabels[i]), m.colLabels.slice(), (i, j) => at(m, order[i], j));
+function reorderRows(m: RatingMatrix, order: readonly number[]): RatingMatrix {
+  return build(
+    m,
+    order.map((i) => m.rowLabels[i]),
+    m.colLabels.slice(),
+    (i, j) => at(m, order[i], j),
+  );
 }
 
-export function reorderColumns(m: RatingMatrix, order: readonly number[]): RatingMatrix {
-  return build(m, m.rowLabels.slice(), order.map((j) => m.colLabels[j]), (i, j) => at(m, i, order[j]));
+function reorderColumns(m: RatingMatrix, order: readonly number[]): RatingMatrix {
+  return build(
+    m,
+    m.rowLabels.slice(),
+    order.map((j) => m.colLabels[j]),
+    (i, j) => at(m, i, order[j]),
+  );
 }
 
 function moveOrder(n: number, index: number, delta: number): number[] | undefined {
@@ -110,12 +165,16 @@ function moveOrder(n: number, index: number, delta: number): number[] | undefine
 /** Move row `index` by `delta` places (−1 = up). */
 export function moveRow(m: RatingMatrix, index: number, delta: number): OpResult {
   const order = moveOrder(m.rowLabels.length, index, delta);
-  return order ? { ok: true, matrix: reorderRows(m, order) } : refuse(delta < 0 ? 'this row is already at the top' : 'this row is already at the bottom');
+  return order
+    ? { ok: true, matrix: reorderRows(m, order) }
+    : refuse(delta < 0 ? 'this row is already at the top' : 'this row is already at the bottom');
 }
 
 export function moveColumn(m: RatingMatrix, index: number, delta: number): OpResult {
   const order = moveOrder(m.colLabels.length, index, delta);
-  return order ? { ok: true, matrix: reorderColumns(m, order) } : refuse(delta < 0 ? 'this column is already first' : 'this column is already last');
+  return order
+    ? { ok: true, matrix: reorderColumns(m, order) }
+    : refuse(delta < 0 ? 'this column is already first' : 'this column is already last');
 }
 
 export type RowSortKey = { by: 'label' } | { by: 'column'; col: number };

@@ -75,7 +75,11 @@ export function planPaste(m: RatingMatrix, text: string, anchorRow: number, anch
     }
   }
   if (refused.length > 0) {
-    return { ok: false, message: `${refused.length} pasted ${refused.length === 1 ? 'entry was' : 'entries were'} refused; nothing was pasted`, refused };
+    return {
+      ok: false,
+      message: `${refused.length} pasted ${refused.length === 1 ? 'entry was' : 'entries were'} refused; nothing was pasted`,
+      refused,
+    };
   }
   return { ok: true, rows, cols, indices, values, changes, overwrites };
 }

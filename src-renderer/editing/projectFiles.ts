@@ -12,7 +12,6 @@ import { pathDialog, restoreDialog, unsavedChangesDialog } from '../dialogs/proj
 import type { Notice } from '../panels/notice';
 import type { DocumentStore } from '../state/documentStore';
 
-
 const baseName = (p: string) => p.split(/[\\/]/).pop() ?? p;
 const titleOf = (p: string) => baseName(p).replace(/\.rankfill$/i, '') || 'Untitled';
 const describe = (err: unknown) => (err instanceof Error ? err.message : String(err));
@@ -81,7 +80,10 @@ export class ProjectFiles {
       await this.bridge.call('recovery.write', req);
       this.snapshotOnDisk = true;
     } catch (err) {
-      this.notice.show(`Autosave failed: ${describe(err)}. Your changes are still here; keep the project to be safe.`, 'error');
+      this.notice.show(
+        `Autosave failed: ${describe(err)}. Your changes are still here; keep the project to be safe.`,
+        'error',
+      );
     }
   }
 
@@ -110,21 +112,38 @@ export class ProjectFiles {
     }
     const reply = await this.bridge.call('recovery.restore', { id: choice.id });
     if (!reply.ok) {
-      this.notice.show(['The unsaved work could not be restored:', ...reply.problems.map(formatProblem)].join('\n'), 'error', 0);
+      this.notice.show(
+        ['The unsaved work could not be restored:', ...reply.problems.map(formatProblem)].join('\n'),
+        'error',
+        0,
+      );
       return;
     }
     const parsed = parseProject(reply.projectText, reply.entry.title);
     if (!parsed.ok) {
-      this.notice.show(['The unsaved work could not be restored:', ...parsed.problems.map(formatProblem)].join('\n'), 'error', 0);
+      this.notice.show(
+        ['The unsaved work could not be restored:', ...parsed.problems.map(formatProblem)].join('\n'),
+        'error',
+        0,
+      );
       return;
     }
     const src = reply.entry.sourcePath;
-    this.store.replaceProject(parsed.project, reply.entry.title, src ? { kind: 'file', name: src } : { kind: 'new', name: '' }, src);
+    this.store.replaceProject(
+      parsed.project,
+      reply.entry.title,
+      src ? { kind: 'file', name: src } : { kind: 'new', name: '' },
+      src,
+    );
     // Adopt the snapshot: the next autosave overwrites it, a save removes it.
     this.recoveryId = choice.id;
     this.snapshotOnDisk = true;
     this.store.markUnsaved();
-    this.notice.show(`Restored unsaved work “${reply.entry.title}”. Keep the project to make it permanent.`, 'info', 10000);
+    this.notice.show(
+      `Restored unsaved work “${reply.entry.title}”. Keep the project to make it permanent.`,
+      'info',
+      10000,
+    );
   }
 
   // ----- asking before leaving unsaved work -------------------------------------------
@@ -160,7 +179,10 @@ export class ProjectFiles {
     if (!this.folder) this.folder = (await this.bridge.call('project.defaultFolder', {})).folder;
     const recent = (await this.bridge.call('recent.list', {})).files.map((f) => f.path);
     const sep = this.folder.includes('\\') && !this.folder.includes('/') ? '\\' : '/';
-    const initial = purpose === 'save' ? this.store.filePath ?? `${this.folder}${this.folder.endsWith(sep) ? '' : sep}${suggested}` : recent[0] ?? `${this.folder}${sep}`;
+    const initial =
+      purpose === 'save'
+        ? (this.store.filePath ?? `${this.folder}${this.folder.endsWith(sep) ? '' : sep}${suggested}`)
+        : (recent[0] ?? `${this.folder}${sep}`);
     return pathDialog({ purpose, initial, folder: this.folder, recent: purpose === 'open' ? recent : [] });
   }
 
@@ -190,7 +212,10 @@ export class ProjectFiles {
       this.store.source = { kind: 'file', name: reply.path };
       this.cancelAutosave();
       if (!this.store.dirty) await this.discardSnapshot();
-      this.notice.show(`Kept in ${reply.path} (${(reply.bytes / 1024).toFixed(1)} KB; the previous version, if any, is kept as ${baseName(reply.path)}.bak).`, 'info');
+      this.notice.show(
+        `Kept in ${reply.path} (${(reply.bytes / 1024).toFixed(1)} KB; the previous version, if any, is kept as ${baseName(reply.path)}.bak).`,
+        'info',
+      );
       return true;
     } catch (err) {
       this.notice.show(`The project was not kept: ${describe(err)}`, 'error', 0);
@@ -205,12 +230,22 @@ export class ProjectFiles {
     try {
       const reply = await this.bridge.call('project.open', { path: p });
       if (!reply.ok) {
-        this.notice.show([`${baseName(p)} was not opened (the open project is unchanged):`, ...reply.problems.map(formatProblem)].join('\n'), 'error', 0);
+        this.notice.show(
+          [`${baseName(p)} was not opened (the open project is unchanged):`, ...reply.problems.map(formatProblem)].join(
+            '\n',
+          ),
+          'error',
+          0,
+        );
         return false;
       }
       const parsed = parseProject(reply.projectText, baseName(reply.path));
       if (!parsed.ok) {
-        this.notice.show([`${baseName(p)} was not opened:`, ...parsed.problems.map(formatProblem)].join('\n'), 'error', 0);
+        this.notice.show(
+          [`${baseName(p)} was not opened:`, ...parsed.problems.map(formatProblem)].join('\n'),
+          'error',
+          0,
+        );
         return false;
       }
       this.store.replaceProject(parsed.project, titleOf(reply.path), { kind: 'file', name: reply.path }, reply.path);

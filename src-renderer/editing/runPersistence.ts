@@ -15,7 +15,7 @@ import type { Run } from '../runs/runStore';
 
 const MAX_SAVED_PREDICTION_CELLS = 250_000;
 
-export function toSavedRun(run: Run, cells: number): SavedRun {
+function toSavedRun(run: Run, cells: number): SavedRun {
   const e = run.evaluation;
   const trace = run.result.objectiveTrace;
   return {
@@ -35,7 +35,9 @@ export function toSavedRun(run: Run, cells: number): SavedRun {
       cvMae: e?.meanMae ?? null,
       cvMaeSd: e?.sdMae ?? null,
     },
-    ...(cells <= MAX_SAVED_PREDICTION_CELLS && run.result.predictions.length === cells ? { predictions: run.result.predictions } : {}),
+    ...(cells <= MAX_SAVED_PREDICTION_CELLS && run.result.predictions.length === cells
+      ? { predictions: run.result.predictions }
+      : {}),
   };
 }
 
@@ -61,9 +63,16 @@ export function installRunPersistence(ctx: PanelContext): void {
     for (const s of saved) {
       if (token !== restoring) return;
       const fitted = Date.parse(s.fittedAt);
-      const run = await ctx.controller.fill(s.settings, { number: s.number, name: s.name, createdAt: Number.isFinite(fitted) ? fitted : Date.now() });
+      const run = await ctx.controller.fill(s.settings, {
+        number: s.number,
+        name: s.name,
+        createdAt: Number.isFinite(fitted) ? fitted : Date.now(),
+      });
       if (!run) {
-        ctx.notice.show(`A saved run (Run ${s.number}${s.name ? ` “${s.name}”` : ''}: ${describeSettings(s.settings)}) could not be restored; its settings are in the file.`, 'error');
+        ctx.notice.show(
+          `A saved run (Run ${s.number}${s.name ? ` “${s.name}”` : ''}: ${describeSettings(s.settings)}) could not be restored; its settings are in the file.`,
+          'error',
+        );
         continue;
       }
       const m = s.metrics;

@@ -45,5 +45,8 @@ export function applyScale(m: RatingMatrix, s: RatingScale): { matrix: RatingMat
       cleared++;
     }
   }
-  return { matrix: { rowLabels: m.rowLabels.slice(), colLabels: m.colLabels.slice(), values, scale: { ...s } }, cleared };
+  return {
+    matrix: { rowLabels: m.rowLabels.slice(), colLabels: m.colLabels.slice(), values, scale: { ...s } },
+    cleared,
+  };
 }

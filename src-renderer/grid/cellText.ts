@@ -35,7 +35,10 @@ export function parseEntry(text: unknown, scale: RatingScale): ParsedEntry {
   const normal = /^[+-]?\d+,\d+$/.test(raw) ? raw.replace(',', '.') : raw;
   const value = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(normal) ? Number(normal) : NaN;
   if (!Number.isFinite(value)) {
-    return { kind: 'refused', reason: `“${raw.slice(0, 40)}” is not a number; this scale runs ${describeScale(scale)}` };
+    return {
+      kind: 'refused',
+      reason: `“${raw.slice(0, 40)}” is not a number; this scale runs ${describeScale(scale)}`,
+    };
   }
   const refusal = scaleRefusal(value, scale, raw);
   if (refusal !== undefined) return { kind: 'refused', reason: refusal };

@@ -15,19 +15,23 @@ import { runFitsDocument } from '../runs/runMatch';
 import { intervalsOfRun } from '../runs/runIntervals';
 import type { Run } from '../runs/runStore';
 
-export function baselineLayer(result: FitResult): BaselineLayer {
+function baselineLayer(result: FitResult): BaselineLayer {
   const s = result.settings;
   if (s.model === 'gaussian') {
     return {
       row: null,
       col: result.colBaseline,
       colLabel: 'Column mean (μ)',
-      colTooltip: 'The Gaussian model’s estimate of each column’s mean μ. A filled value is μ plus the regression on the observed cells of its row (Cell tab).',
+      colTooltip:
+        'The Gaussian model’s estimate of each column’s mean μ. A filled value is μ plus the regression on the observed cells of its row (Cell tab).',
     };
   }
   const usesRow = s.centering === 'row' || s.centering === 'both';
   const usesCol = s.centering === 'column' || s.centering === 'both';
-  const words: Record<typeof s.centering, { rowLabel: string; rowTooltip: string; colLabel: string; colTooltip: string }> = {
+  const words: Record<
+    typeof s.centering,
+    { rowLabel: string; rowTooltip: string; colLabel: string; colTooltip: string }
+  > = {
     none: {
       rowLabel: 'Baseline',
       rowTooltip: 'Centering none: every baseline is 0, so a filled value is the interaction term alone.',
@@ -36,7 +40,8 @@ export function baselineLayer(result: FitResult): BaselineLayer {
     },
     row: {
       rowLabel: 'Row mean',
-      rowTooltip: 'The mean of the row’s observed ratings: the baseline of every cell in the row. A filled value is this plus the interaction term.',
+      rowTooltip:
+        'The mean of the row’s observed ratings: the baseline of every cell in the row. A filled value is this plus the interaction term.',
       colLabel: 'Column baseline',
       colTooltip: '',
     },
@@ -44,13 +49,16 @@ export function baselineLayer(result: FitResult): BaselineLayer {
       rowLabel: 'Baseline',
       rowTooltip: 'Centering by column: the baseline is in the bottom row.',
       colLabel: 'Column mean',
-      colTooltip: 'The mean of the column’s observed ratings: the baseline of every cell in the column. A filled value is this plus the interaction term.',
+      colTooltip:
+        'The mean of the column’s observed ratings: the baseline of every cell in the column. A filled value is this plus the interaction term.',
     },
     both: {
       rowLabel: 'Row part',
-      rowTooltip: 'The row’s part of the baseline: global mean + the row’s offset. A cell’s baseline adds its column’s offset (bottom row); a filled value adds the interaction term to that.',
+      rowTooltip:
+        'The row’s part of the baseline: global mean + the row’s offset. A cell’s baseline adds its column’s offset (bottom row); a filled value adds the interaction term to that.',
       colLabel: 'Column offset',
-      colTooltip: 'The column’s offset from the global mean (shrunk toward 0). A cell’s baseline is the row part (right-hand column) + this offset.',
+      colTooltip:
+        'The column’s offset from the global mean (shrunk toward 0). A cell’s baseline is the row part (right-hand column) + this offset.',
     },
   };
   const w = words[s.centering];
@@ -68,10 +76,11 @@ export function baselineLayer(result: FitResult): BaselineLayer {
  * Rows and columns with fewer observed values than the rank, counted on the
  * matrix as it is now (so a new, empty row is marked together with its estimates).
  */
-export function weakMarks(run: Run, m: RatingMatrix): WeakMarks {
+function weakMarks(run: Run, m: RatingMatrix): WeakMarks {
   const k = run.result.rank;
   const s = supportOf(m.values, m.rowLabels.length, m.colLabels.length, weakThreshold(run.settings));
-  const why = (n: number, what: string) => `Weakly determined: ${n} observed value${n === 1 ? '' : 's'} in this ${what}, fewer than the rank (${k}); its estimates rest mostly on the baseline.`;
+  const why = (n: number, what: string) =>
+    `Weakly determined: ${n} observed value${n === 1 ? '' : 's'} in this ${what}, fewer than the rank (${k}); its estimates rest mostly on the baseline.`;
   return {
     rows: new Map(s.weakRows.map((i) => [i, why(s.rowSupport[i], 'row')])),
     cols: new Map(s.weakCols.map((j) => [j, why(s.colSupport[j], 'column')])),
@@ -79,12 +88,13 @@ export function weakMarks(run: Run, m: RatingMatrix): WeakMarks {
 }
 
 /** The layers for a run the caller has checked with runFitsDocument, or empty layers. */
-export function layersForRun(run: Run | undefined, m: RatingMatrix, level = DEFAULT_INTERVAL_LEVEL): Partial<GridLayers> {
+function layersForRun(run: Run | undefined, m: RatingMatrix, level = DEFAULT_INTERVAL_LEVEL): Partial<GridLayers> {
   const values = m.values;
   if (!run) return { overlay: null, baselines: null, weak: null };
   const spread = run.trust?.spread ?? run.result.spread;
   let maxSpread = 0;
-  if (spread) for (let c = 0; c < values.length; c++) if (values[c] !== values[c] && spread[c] > maxSpread) maxSpread = spread[c];
+  if (spread)
+    for (let c = 0; c < values.length; c++) if (values[c] !== values[c] && spread[c] > maxSpread) maxSpread = spread[c];
   const iv = intervalsOfRun(run, m.scale, level);
   let width: Float64Array | undefined;
   let maxWidth = 0;
@@ -99,7 +109,12 @@ export function layersForRun(run: Run | undefined, m: RatingMatrix, level = DEFA
     }
   }
   return {
-    overlay: { predictions: run.result.predictions, spread, maxSpread, ...(width ? { width, maxWidth, minWidth: Number.isFinite(minWidth) ? minWidth : 0 } : {}) },
+    overlay: {
+      predictions: run.result.predictions,
+      spread,
+      maxSpread,
+      ...(width ? { width, maxWidth, minWidth: Number.isFinite(minWidth) ? minWidth : 0 } : {}),
+    },
     baselines: baselineLayer(run.result),
     weak: weakMarks(run, m),
   };
@@ -143,7 +158,8 @@ export function syncGridWithRuns(ctx: PanelContext): void {
     else if (e.type === 'cells' && runFitsDocument(ctx.runs.shown, ctx.store)) {
       const weak = weakMarks(ctx.runs.shown!, ctx.store.current);
       const before = ctx.grid.currentLayers.weak;
-      if (!before || !sameKeys(before.rows, weak.rows) || !sameKeys(before.cols, weak.cols)) ctx.grid.setLayers({ weak });
+      if (!before || !sameKeys(before.rows, weak.rows) || !sameKeys(before.cols, weak.cols))
+        ctx.grid.setLayers({ weak });
     }
   });
 }

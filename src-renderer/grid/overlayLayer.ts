@@ -17,7 +17,7 @@ export interface OverlayLayer {
   minWidth?: number;
 }
 
-export interface DiffLayer {
+interface DiffLayer {
   /** Row-major B − A on cells blank in the document; NaN elsewhere. */
   values: Float64Array;
   maxAbs: number;
@@ -59,7 +59,8 @@ export function estimateTint(layer: OverlayLayer, index: number): string {
   const low = byWidth ? Math.min(layer.minWidth ?? 0, layer.maxWidth!) : 0;
   const s = byWidth ? layer.width![index] - low : layer.spread?.[index];
   const top = byWidth ? layer.maxWidth! - low : layer.maxSpread;
-  const strength = s === undefined || !Number.isFinite(s) || !(top > 0) ? 0.1 : 0.06 + 0.36 * Math.max(0, Math.min(1, s / top));
+  const strength =
+    s === undefined || !Number.isFinite(s) || !(top > 0) ? 0.1 : 0.06 + 0.36 * Math.max(0, Math.min(1, s / top));
   return `rgba(214, 138, 54, ${strength.toFixed(3)})`;
 }
 

@@ -43,11 +43,12 @@ export interface RatingGridOptions {
   onCellFocused?: (row: number, col: number) => void;
 }
 
-export const LABEL_COL_ID = 'rowLabel';
-export const BASELINE_COL_ID = 'rowBaseline';
-export const COUNT_COL_ID = 'rowCount';
+const LABEL_COL_ID = 'rowLabel';
+const BASELINE_COL_ID = 'rowBaseline';
+const COUNT_COL_ID = 'rowCount';
 export const colIdFor = (j: number) => `c${j}`;
-export const colIndexOf = (colId: string | undefined): number => (colId && /^c\d+$/.test(colId) ? Number(colId.slice(1)) : -1);
+export const colIndexOf = (colId: string | undefined): number =>
+  colId && /^c\d+$/.test(colId) ? Number(colId.slice(1)) : -1;
 const BASELINE_ROW = -1;
 const NO_TINT = { backgroundColor: '' };
 /** Narrow enough that 8 data columns fit beside the side panel at 1024 px. */
@@ -96,7 +97,8 @@ export class RatingGrid {
       },
       onCellFocused: (e) => {
         const j = colIndexOf(typeof e.column === 'string' ? e.column : e.column?.getColId());
-        if (e.rowIndex !== null && e.rowIndex !== undefined && e.rowPinned == null && j >= 0) opts.onCellFocused?.(e.rowIndex, j);
+        if (e.rowIndex !== null && e.rowIndex !== undefined && e.rowPinned == null && j >= 0)
+          opts.onCellFocused?.(e.rowIndex, j);
       },
     });
     opts.store.subscribe((e) => {
@@ -147,7 +149,8 @@ export class RatingGrid {
       colId: colIdFor(j),
       headerName: label,
       headerTooltip: label,
-      headerClass: () => (this.layers.weak?.cols.has(j) ? 'ag-right-aligned-header rf-weak-col' : 'ag-right-aligned-header'),
+      headerClass: () =>
+        this.layers.weak?.cols.has(j) ? 'ag-right-aligned-header rf-weak-col' : 'ag-right-aligned-header',
       headerTooltipValueGetter: () => this.layers.weak?.cols.get(j) ?? label,
       width: VALUE_WIDTH,
       editable: (p) => p.data?.i !== BASELINE_ROW,
@@ -183,8 +186,12 @@ export class RatingGrid {
       cellStyle: (p) => {
         if (!p.data || p.data.i === BASELINE_ROW || (p.value !== null && p.value !== undefined)) return NO_TINT;
         const diff = this.diffAt(p.data.i, j);
-        if (diff !== undefined && this.layers.diff) return { backgroundColor: diffColour(diff, this.layers.diff.maxAbs) };
-        const tint = this.estimateAt(p.data.i, j) !== undefined ? estimateTint(this.layers.overlay!, p.data.i * this.doc.colLabels.length + j) : undefined;
+        if (diff !== undefined && this.layers.diff)
+          return { backgroundColor: diffColour(diff, this.layers.diff.maxAbs) };
+        const tint =
+          this.estimateAt(p.data.i, j) !== undefined
+            ? estimateTint(this.layers.overlay!, p.data.i * this.doc.colLabels.length + j)
+            : undefined;
         return tint === undefined ? NO_TINT : { backgroundColor: tint };
       },
     }));
@@ -195,13 +202,14 @@ export class RatingGrid {
             colId: BASELINE_COL_ID,
             hide: !showRowBaseline,
             headerName: this.layers.baselines.rowLabel ?? 'Baseline',
-            headerTooltip: this.layers.baselines.rowTooltip ?? 'The row’s part of the baseline under the run’s centering',
+            headerTooltip:
+              this.layers.baselines.rowTooltip ?? 'The row’s part of the baseline under the run’s centering',
             pinned: this.compact ? null : 'right',
             width: 84,
             editable: false,
             type: 'rightAligned',
             cellClass: 'ag-right-aligned-cell rf-baseline-cell',
-            valueGetter: (p) => (p.data && p.data.i >= 0 ? this.layers.baselines?.row?.[p.data.i] ?? null : null),
+            valueGetter: (p) => (p.data && p.data.i >= 0 ? (this.layers.baselines?.row?.[p.data.i] ?? null) : null),
             valueFormatter: (p) => formatRating(p.value as number | null, 2),
           },
           {
@@ -261,11 +269,17 @@ export class RatingGrid {
     const doc = this.doc;
     const entry = parseEntry(p.newValue, doc.scale);
     if (entry.kind === 'refused') {
-      this.opts.onRefused(`${doc.rowLabels[p.data.i]} × ${doc.colLabels[j]}: ${entry.reason}. The cell keeps its previous value.`);
+      this.opts.onRefused(
+        `${doc.rowLabels[p.data.i]} × ${doc.colLabels[j]}: ${entry.reason}. The cell keeps its previous value.`,
+      );
       return false;
     }
     const value = entry.kind === 'missing' ? NaN : entry.value;
-    this.opts.store.setCells(entry.kind === 'missing' ? 'Clear cell' : 'Enter rating', [p.data.i * doc.colLabels.length + j], [value]);
+    this.opts.store.setCells(
+      entry.kind === 'missing' ? 'Clear cell' : 'Enter rating',
+      [p.data.i * doc.colLabels.length + j],
+      [value],
+    );
     // The store's change event refreshes the cell; tell the grid nothing changed on its side.
     return false;
   }
@@ -294,12 +308,17 @@ export class RatingGrid {
     const hadSide = !!before.baselines;
     const hadRowBaseline = !!before.baselines?.row;
     this.layers = { ...before, ...patch };
-    if (hadSide !== !!this.layers.baselines || hadRowBaseline !== !!this.layers.baselines?.row || before.baselines?.rowLabel !== this.layers.baselines?.rowLabel) {
+    if (
+      hadSide !== !!this.layers.baselines ||
+      hadRowBaseline !== !!this.layers.baselines?.row ||
+      before.baselines?.rowLabel !== this.layers.baselines?.rowLabel
+    ) {
       this.rebuild();
       return;
     }
     const hadBottom = !!before.baselines?.col;
-    if (hadBottom !== !!this.layers.baselines?.col || before.baselines?.colLabel !== this.layers.baselines?.colLabel) this.updatePinnedRows();
+    if (hadBottom !== !!this.layers.baselines?.col || before.baselines?.colLabel !== this.layers.baselines?.colLabel)
+      this.updatePinnedRows();
     // Headers only carry the weak-column marks: redraw them only when those change.
     if (weakKey(before.weak?.cols) !== weakKey(this.layers.weak?.cols)) this.api.refreshHeader();
     this.api.refreshCells({ force: true });

@@ -23,9 +23,13 @@ function intervalBlock(estimate: number, iv: IntervalsAtLevel, idx: number, scal
   const hi = iv.upper[idx];
   const level = levelText(iv.level);
   const inside = ratingsInside(lo, hi, scale);
-  const measured = Number.isFinite(iv.heldOut.coverage) ? ` On the held-out folds such intervals held the hidden rating ${(iv.heldOut.coverage * 100).toFixed(1)} % of the time.` : '';
+  const measured = Number.isFinite(iv.heldOut.coverage)
+    ? ` On the held-out folds such intervals held the hidden rating ${(iv.heldOut.coverage * 100).toFixed(1)} % of the time.`
+    : '';
   return [
-    el('p', { className: 'rf-cell-interval', testid: 'cell-interval' }, [`estimate ${fmt(estimate, 1)}, ${level} interval ${fmt(lo, 1)}–${fmt(hi, 1)}`]),
+    el('p', { className: 'rf-cell-interval', testid: 'cell-interval' }, [
+      `estimate ${fmt(estimate, 1)}, ${level} interval ${fmt(lo, 1)}–${fmt(hi, 1)}`,
+    ]),
     el('p', { className: 'rf-hint', testid: 'cell-interval-meaning' }, [
       `Among blank cells like this one, the true rating lies inside such an interval about ${level} of the time; ` +
         'this holds on average over cells like the ones hidden during cross-validation, not as a promise for this cell. ' +
@@ -37,7 +41,9 @@ function intervalBlock(estimate: number, iv: IntervalsAtLevel, idx: number, scal
 }
 
 export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(row: number, col: number): void } {
-  const body = el('div', { testid: 'cell-details' }, [el('p', { className: 'rf-hint' }, ['Select a cell to see where its value comes from.'])]);
+  const body = el('div', { testid: 'cell-details' }, [
+    el('p', { className: 'rf-hint' }, ['Select a cell to see where its value comes from.']),
+  ]);
   root.append(el('h2', {}, ['Cell details']), body);
   let focused: { row: number; col: number } | null = null;
 
@@ -80,12 +86,32 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
       const shares = d?.shares;
       const ex = r.settings.model === 'lowrank' ? explainCell(m.values, r, row, col) : undefined;
       const top = shares
-        ? shares.slice(0, 5).map((c) => ({ label: r.settings.model === 'gaussian' && r.settings.transpose ? m.rowLabels[c.row] : m.colLabels[c.col], value: c.value, contribution: c.contribution }))
-        : (ex?.contributions.slice(0, 5).map((c) => ({ label: m.colLabels[c.col], value: c.value, contribution: c.contribution })) ?? []);
+        ? shares.slice(0, 5).map((c) => ({
+            label: r.settings.model === 'gaussian' && r.settings.transpose ? m.rowLabels[c.row] : m.colLabels[c.col],
+            value: c.value,
+            contribution: c.contribution,
+          }))
+        : (ex?.contributions
+            .slice(0, 5)
+            .map((c) => ({ label: m.colLabels[c.col], value: c.value, contribution: c.contribution })) ?? []);
       if (top.length) {
         const table = el('table', { className: 'rf-table', testid: 'cell-contributors' }, [
-          el('tr', {}, [el('th', {}, [shares && r.settings.model === 'gaussian' && r.settings.transpose ? 'Observed in this column' : 'Observed in this row']), el('th', {}, ['value']), el('th', {}, ['adds'])]),
-          ...top.map((c) => el('tr', {}, [el('td', {}, [c.label]), el('td', {}, [formatObserved(c.value, m.scale)]), el('td', {}, [(c.contribution >= 0 ? '+' : '') + c.contribution.toFixed(3)])])),
+          el('tr', {}, [
+            el('th', {}, [
+              shares && r.settings.model === 'gaussian' && r.settings.transpose
+                ? 'Observed in this column'
+                : 'Observed in this row',
+            ]),
+            el('th', {}, ['value']),
+            el('th', {}, ['adds']),
+          ]),
+          ...top.map((c) =>
+            el('tr', {}, [
+              el('td', {}, [c.label]),
+              el('td', {}, [formatObserved(c.value, m.scale)]),
+              el('td', {}, [(c.contribution >= 0 ? '+' : '') + c.contribution.toFixed(3)]),
+            ]),
+          ),
         ]);
         parts.push(
           el('h3', {}, ['What moved it most']),
@@ -108,10 +134,16 @@ export function mountCellPanel(root: HTMLElement, ctx: PanelContext): { focus(ro
     }
     rows.push(['Support', `${rowObs} observed in the row, ${colObs} in the column`]);
     if (matches && run.trust) {
-      if (run.trust.weakRows.includes(row)) rows.push(['Caution', `row has fewer observed values than the rank (${run.result.rank})`]);
-      if (run.trust.weakCols.includes(col)) rows.push(['Caution', `column has fewer observed values than the rank (${run.result.rank})`]);
+      if (run.trust.weakRows.includes(row))
+        rows.push(['Caution', `row has fewer observed values than the rank (${run.result.rank})`]);
+      if (run.trust.weakCols.includes(col))
+        rows.push(['Caution', `column has fewer observed values than the rank (${run.result.rank})`]);
     }
-    const dl = el('table', { className: 'rf-table rf-kv', testid: 'cell-facts' }, rows.map(([k, v]) => el('tr', {}, [el('td', {}, [k]), el('td', {}, [v])])));
+    const dl = el(
+      'table',
+      { className: 'rf-table rf-kv', testid: 'cell-facts' },
+      rows.map(([k, v]) => el('tr', {}, [el('td', {}, [k]), el('td', {}, [v])])),
+    );
     // The exact terms, for whoever checks that they add up (the end-to-end tests do).
     if (termValues) dl.dataset.terms = JSON.stringify(termValues);
     parts.splice(1, 0, dl);

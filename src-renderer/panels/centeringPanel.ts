@@ -22,7 +22,11 @@ export function mountCenteringPanel(root: HTMLElement, ctx: PanelContext): void 
     const form = ctx.settings.value;
     const base = form.model === 'lowrank' ? form : planCenteringComparison(form).settingsList[0];
     ctx.settings.set({ ...base, centering: c });
-    ctx.notice.show(`Model settings: centering set to “${CENTERING_SHORT[c]}”. Fill again to see the estimates.`, 'info', 4000);
+    ctx.notice.show(
+      `Model settings: centering set to “${CENTERING_SHORT[c]}”. Fill again to see the estimates.`,
+      'info',
+      4000,
+    );
   };
 
   let chart: ErrorBarChart | undefined;
@@ -56,13 +60,24 @@ export function mountCenteringPanel(root: HTMLElement, ctx: PanelContext): void 
         : `${settingsText}: every mode failed to fit.`;
       tableWrap.replaceChildren(buildTable(rows, reply.k, useCentering));
       chart?.set(
-        rows.map((r) => ({ label: CENTERING_SHORT[r.centering], mean: r.meanRmse, sd: r.sdRmse, folds: r.foldRmse, best: r.best })),
+        rows.map((r) => ({
+          label: CENTERING_SHORT[r.centering],
+          mean: r.meanRmse,
+          sd: r.sdRmse,
+          folds: r.foldRmse,
+          best: r.best,
+        })),
       );
     },
   });
-  runner.results.append(summary, tableWrap, chartHost, el('p', { className: 'rf-hint' }, [
-    'Dot: mean RMSE over the folds; whisker: ± one standard deviation of the folds; small circles: each fold. Lower is better.',
-  ]));
+  runner.results.append(
+    summary,
+    tableWrap,
+    chartHost,
+    el('p', { className: 'rf-hint' }, [
+      'Dot: mean RMSE over the folds; whisker: ± one standard deviation of the folds; small circles: each fold. Lower is better.',
+    ]),
+  );
 
   root.append(
     el('h2', {}, ['Compare centering']),
@@ -86,20 +101,28 @@ function buildTable(rows: CenteringRow[], k: number, use: (c: Centering) => void
   table.append(el('thead', {}, [head]));
   const body = el('tbody');
   for (const r of rows) {
-    const useButton = el('button', { className: 'rf-button rf-small', testid: `centering-use-${r.centering}`, title: 'Put this centering into the model settings' }, ['Use']);
+    const useButton = el(
+      'button',
+      {
+        className: 'rf-button rf-small',
+        testid: `centering-use-${r.centering}`,
+        title: 'Put this centering into the model settings',
+      },
+      ['Use'],
+    );
     useButton.addEventListener('click', () => use(r.centering));
     const mode = el('td', {}, [CENTERING_SHORT[r.centering]]);
     if (r.best) mode.append(el('span', { className: 'rf-best-mark', testid: 'centering-best-mark' }, [' ★ best']));
     const tr = el('tr', { testid: 'centering-row', className: r.best ? 'rf-best' : undefined }, [
       mode,
-      el('td', { className: 'rf-num', testid: 'centering-rmse' }, [r.error ? 'failed' : `${fmt(r.meanRmse)} ± ${fmt(r.sdRmse)}`]),
+      el('td', { className: 'rf-num', testid: 'centering-rmse' }, [
+        r.error ? 'failed' : `${fmt(r.meanRmse)} ± ${fmt(r.sdRmse)}`,
+      ]),
       el('td', { className: 'rf-num' }, [fmt(r.meanMae)]),
       el('td', {}, [useButton]),
     ]);
     tr.dataset.centering = r.centering;
-    const foldText = r.error
-      ? r.error
-      : `fold RMSE: ${r.foldRmse.map((v) => fmt(v, 2)).join('  ')}`;
+    const foldText = r.error ? r.error : `fold RMSE: ${r.foldRmse.map((v) => fmt(v, 2)).join('  ')}`;
     const sub = el('tr', { className: 'rf-fold-line', testid: 'centering-folds' }, [el('td', {}, [foldText])]);
     (sub.firstChild as HTMLTableCellElement).colSpan = 4;
     body.append(tr, sub);

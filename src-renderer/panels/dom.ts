@@ -33,7 +33,11 @@ export function el<K extends keyof HTMLElementTagNameMap>(
   return node;
 }
 
-export function numberInput(testid: string, value: number, o: { min?: number; max?: number; step?: number } = {}): HTMLInputElement {
+export function numberInput(
+  testid: string,
+  value: number,
+  o: { min?: number; max?: number; step?: number } = {},
+): HTMLInputElement {
   const input = el('input', { testid });
   input.type = 'number';
   if (o.min !== undefined) input.min = String(o.min);
@@ -45,7 +49,10 @@ export function numberInput(testid: string, value: number, o: { min?: number; ma
 
 /** A labelled control with an optional one-line explanation under it. */
 export function field(label: string, control: HTMLElement, explanation?: string): HTMLElement {
-  const wrap = el('label', { className: 'rf-form-field' }, [el('span', { className: 'rf-form-label' }, [label]), control]);
+  const wrap = el('label', { className: 'rf-form-field' }, [
+    el('span', { className: 'rf-form-label' }, [label]),
+    control,
+  ]);
   if (explanation) wrap.append(el('span', { className: 'rf-hint' }, [explanation]));
   return wrap;
 }

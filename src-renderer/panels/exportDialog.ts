@@ -23,11 +23,13 @@ import { el, field, numberInput } from './dom';
 import type { PanelContext } from './panelContext';
 import { sha256Hex } from './sha256';
 
-
 const KIND_WORDS: Record<ExportKind, [string, string]> = {
   'filled-wide': ['Filled matrix', 'observed ratings plus estimates in the blank cells, one row per row label'],
   'estimates-wide': ['Estimates only', 'only the filled cells; observed cells left blank'],
-  long: ['Long layout', 'one line per cell: row, column, value, source (observed or filled), baseline, spread, and the interval’s lower and upper bounds at the level set in the Model tab'],
+  long: [
+    'Long layout',
+    'one line per cell: row, column, value, source (observed or filled), baseline, spread, and the interval’s lower and upper bounds at the level set in the Model tab',
+  ],
 };
 
 const DECIMALS_KEY = 'rankfill.export.decimals';
@@ -93,15 +95,27 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
     field('Layout', kind),
     kindNote,
     field('Round estimates to the scale step', roundStep),
-    field('Decimals for estimates', decimals, 'Blank keeps full precision. Observed ratings are always written as they are.'),
+    field(
+      'Decimals for estimates',
+      decimals,
+      'Blank keeps full precision. Observed ratings are always written as they are.',
+    ),
     field('Delimiter', delimiter),
     field(
       'Protect labels from spreadsheet formulas',
       formulaGuard,
       'A label starting with = + - or @ gets a leading apostrophe, so a spreadsheet shows it as text instead of running it. Numbers are never changed.',
     ),
-    field('Also write a mask file (wide layouts)', mask, 'NAME.mask.csv beside the export: the same rows and columns, each cell “observed” or “filled”, so every estimate is marked cell by cell.'),
-    field('Also write a settings file', sidecar, 'NAME.settings.json beside the export: settings, seed, errors, app version, time and a hash of the input.'),
+    field(
+      'Also write a mask file (wide layouts)',
+      mask,
+      'NAME.mask.csv beside the export: the same rows and columns, each cell “observed” or “filled”, so every estimate is marked cell by cell.',
+    ),
+    field(
+      'Also write a settings file',
+      sidecar,
+      'NAME.settings.json beside the export: settings, seed, errors, app version, time and a hash of the input.',
+    ),
     el('label', { className: 'rf-form-field rf-wide' }, [el('span', { className: 'rf-form-label' }, ['File']), path]),
     status,
     el('div', { className: 'rf-row' }, [write, cancel]),
@@ -135,16 +149,31 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
           exportedAt: new Date(),
           file: path.value,
           options,
-          document: { title: ctx.store.title, rows: m.rowLabels.length, cols: m.colLabels.length, observed, filled: m.values.length - observed },
+          document: {
+            title: ctx.store.title,
+            rows: m.rowLabels.length,
+            cols: m.colLabels.length,
+            observed,
+            filled: m.values.length - observed,
+          },
           settings: run.settings,
           run: {
             iterations: run.result.iterations,
             converged: run.result.converged,
-            finalObjective: run.result.objectiveTrace.length ? run.result.objectiveTrace[run.result.objectiveTrace.length - 1] : null,
+            finalObjective: run.result.objectiveTrace.length
+              ? run.result.objectiveTrace[run.result.objectiveTrace.length - 1]
+              : null,
             refitsAfterEdits: run.refits,
           },
           metrics: run.evaluation
-            ? { folds: run.evaluation.k, seed: run.evaluation.seed, meanRmse: run.evaluation.meanRmse, sdRmse: run.evaluation.sdRmse, meanMae: run.evaluation.meanMae, sdMae: run.evaluation.sdMae }
+            ? {
+                folds: run.evaluation.k,
+                seed: run.evaluation.seed,
+                meanRmse: run.evaluation.meanRmse,
+                sdRmse: run.evaluation.sdRmse,
+                meanMae: run.evaluation.meanMae,
+                sdMae: run.evaluation.sdMae,
+              }
             : null,
           ...(iv ? { intervals: sidecarIntervals(iv) } : {}),
           inputSha256: await sha256Hex(matrixFingerprintText(m)),
@@ -152,13 +181,32 @@ export function createExportDialog(ctx: PanelContext, appVersion: string): { ope
       : undefined;
     write.disabled = true;
     try {
-      const reply = await ctx.bridge.call('export.write', { path: path.value.trim(), text, overwrite, ...(sidecarText ? { sidecar: sidecarText } : {}), ...(mask.checked && options.kind !== 'long' ? { mask: buildMask(m, options.delimiter) } : {}) });
+      const reply = await ctx.bridge.call('export.write', {
+        path: path.value.trim(),
+        text,
+        overwrite,
+        ...(sidecarText ? { sidecar: sidecarText } : {}),
+        ...(mask.checked && options.kind !== 'long' ? { mask: buildMask(m, options.delimiter) } : {}),
+      });
       if (reply.ok) {
         status.textContent = `Written: ${reply.path}${reply.sidecarPath ? ` and ${reply.sidecarPath}` : ''}${reply.maskPath ? ` and ${reply.maskPath}` : ''}.`;
-        ctx.record.addExport(run.id, { path: reply.path, sidecarPath: reply.sidecarPath, writtenAt: new Date().toISOString() });
+        ctx.record.addExport(run.id, {
+          path: reply.path,
+          sidecarPath: reply.sidecarPath,
+          writtenAt: new Date().toISOString(),
+        });
         ctx.notice.show(`Exported to ${reply.path}. Filled values in it are model estimates.`);
       } else if (reply.reason === 'exists') {
-        if (await confirmDialog('Replace the file?', `${reply.message}. Replace it (and its settings file)?`, 'Replace', 'Keep it', 'export-overwrite-dialog')) await doWrite(true);
+        if (
+          await confirmDialog(
+            'Replace the file?',
+            `${reply.message}. Replace it (and its settings file)?`,
+            'Replace',
+            'Keep it',
+            'export-overwrite-dialog',
+          )
+        )
+          await doWrite(true);
         else status.textContent = 'Not written: choose another file name.';
       } else status.textContent = reply.message;
     } catch (err) {

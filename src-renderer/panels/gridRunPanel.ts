@@ -85,7 +85,14 @@ export class GridRunPanel<P extends GridRunPlan> {
 
   /** Run / Stop, progress, errors and results, in display order. */
   controls(): HTMLElement[] {
-    return [el('div', { className: 'rf-row' }, [this.runButton, this.stopButton]), this.bar, this.progressText, this.error, this.stale, this.results];
+    return [
+      el('div', { className: 'rf-row' }, [this.runButton, this.stopButton]),
+      this.bar,
+      this.progressText,
+      this.error,
+      this.stale,
+      this.results,
+    ];
   }
 
   showError(message: string | null): void {
@@ -108,7 +115,8 @@ export class GridRunPanel<P extends GridRunPlan> {
 
   private renderStale(): void {
     this.stale.hidden = this.dataChanged === null || this.results.hidden;
-    this.stale.textContent = this.dataChanged === 'replaced' ? this.spec.staleText.replaced : this.spec.staleText.edited;
+    this.stale.textContent =
+      this.dataChanged === 'replaced' ? this.spec.staleText.replaced : this.spec.staleText.edited;
   }
 
   private async run(): Promise<void> {
@@ -154,7 +162,8 @@ export class GridRunPanel<P extends GridRunPlan> {
       this.results.hidden = false;
     } catch (err) {
       if (token !== this.runToken) return;
-      if (err instanceof JobEndedError && err.cancelled) this.progressText.textContent = 'Stopped. Earlier results, if any, stay shown.';
+      if (err instanceof JobEndedError && err.cancelled)
+        this.progressText.textContent = 'Stopped. Earlier results, if any, stay shown.';
       else {
         this.progressText.textContent = this.spec.failedText;
         this.showError(`${this.spec.errorPrefix}: ${err instanceof Error ? err.message : String(err)}`);

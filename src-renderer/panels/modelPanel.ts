@@ -7,7 +7,13 @@
 import type { Centering, ModelFamily } from '../../src-shared/engine/types';
 import { ObjectiveChart } from '../charts/objectiveChart';
 import type { FillState, FitController } from '../runs/fitController';
-import { MAX_ITERATIONS, MAX_RANK, MAX_SHRINKAGE, type SettingsPatch, type SettingsStore } from '../state/settingsStore';
+import {
+  MAX_ITERATIONS,
+  MAX_RANK,
+  MAX_SHRINKAGE,
+  type SettingsPatch,
+  type SettingsStore,
+} from '../state/settingsStore';
 import type { ViewStore } from '../state/viewStore';
 import { el, field, numberInput } from './dom';
 
@@ -41,11 +47,17 @@ export class ModelPanel {
   private cancelChoosing: (() => void) | null = null;
   private readonly chart: ObjectiveChart;
 
-  constructor(root: HTMLElement, private readonly hooks: ModelPanelHooks) {
+  constructor(
+    root: HTMLElement,
+    private readonly hooks: ModelPanelHooks,
+  ) {
     const d = hooks.settings.state.lowRank;
     const g = hooks.settings.state.gaussian;
     this.family = el('select', { testid: 'model-family' }) as HTMLSelectElement;
-    this.family.append(new Option('Low-rank with centering', 'lowrank'), new Option('Gaussian, for tall panels', 'gaussian'));
+    this.family.append(
+      new Option('Low-rank with centering', 'lowrank'),
+      new Option('Gaussian, for tall panels', 'gaussian'),
+    );
     this.rank = numberInput('model-rank', d.rank, { min: 0, max: MAX_RANK, step: 1 });
     this.lambda = numberInput('model-lambda', d.lambda, { min: 0, step: 0.1 });
     this.centering = el('select', { testid: 'model-centering' }) as HTMLSelectElement;
@@ -67,11 +79,23 @@ export class ModelPanel {
 
     this.lowRankBox = el('div', { className: 'rf-fields' }, [
       field('Rank', this.rank, 'How many hidden traits explain the ratings. 0 = baselines only.'),
-      field('Regularization λ', this.lambda, 'Pulls the traits toward zero; larger is more cautious with sparse rows and columns.'),
-      field('Centering', this.centering, 'What is taken out before the traits are fitted: each row’s mean, each column’s mean, both, or nothing.'),
+      field(
+        'Regularization λ',
+        this.lambda,
+        'Pulls the traits toward zero; larger is more cautious with sparse rows and columns.',
+      ),
+      field(
+        'Centering',
+        this.centering,
+        'What is taken out before the traits are fitted: each row’s mean, each column’s mean, both, or nothing.',
+      ),
     ]);
     this.gaussianBox = el('div', { className: 'rf-fields', hidden: true }, [
-      field('Shrinkage', this.shrinkage, 'Pulls the correlations between columns toward zero (0–0.95); helps small panels.'),
+      field(
+        'Shrinkage',
+        this.shrinkage,
+        'Pulls the correlations between columns toward zero (0–0.95); helps small panels.',
+      ),
       field('Variables are rows', this.transpose, 'Treat rows, not columns, as the measured variables.'),
       el('p', { className: 'rf-hint', testid: 'gaussian-centering-note' }, [
         'Centering does not apply: this model estimates each variable’s mean itself.',
@@ -81,10 +105,18 @@ export class ModelPanel {
     this.choiceNote = el('p', { className: 'rf-hint rf-note', testid: 'model-choice', hidden: true });
     this.wireInputs();
 
-    this.fillButton = el('button', { className: 'rf-button rf-primary', testid: 'fill-button' }, ['Fill blank cells']) as HTMLButtonElement;
-    this.stopButton = el('button', { className: 'rf-button', testid: 'cancel-button', disabled: true }, ['Stop']) as HTMLButtonElement;
-    this.fillButton.addEventListener('click', () => (this.hooks.fill ? this.hooks.fill() : void this.hooks.controller.fill(this.hooks.settings.value)));
-    this.stopButton.addEventListener('click', () => (this.cancelChoosing ? this.cancelChoosing() : void this.hooks.controller.cancelFill()));
+    this.fillButton = el('button', { className: 'rf-button rf-primary', testid: 'fill-button' }, [
+      'Fill blank cells',
+    ]) as HTMLButtonElement;
+    this.stopButton = el('button', { className: 'rf-button', testid: 'cancel-button', disabled: true }, [
+      'Stop',
+    ]) as HTMLButtonElement;
+    this.fillButton.addEventListener('click', () =>
+      this.hooks.fill ? this.hooks.fill() : void this.hooks.controller.fill(this.hooks.settings.value),
+    );
+    this.stopButton.addEventListener('click', () =>
+      this.cancelChoosing ? this.cancelChoosing() : void this.hooks.controller.cancelFill(),
+    );
     this.bar = el('progress', { testid: 'fill-progress' }) as HTMLProgressElement;
     this.bar.max = 1;
     this.bar.value = 0;
@@ -103,7 +135,11 @@ export class ModelPanel {
     liveToggle.type = 'checkbox';
     liveToggle.checked = hooks.controller.liveRefit;
     liveToggle.addEventListener('change', () => (hooks.controller.liveRefit = liveToggle.checked));
-    const levelInput = numberInput('interval-level', Math.round(hooks.view.state.intervalLevel * 100), { min: 50, max: 99, step: 1 });
+    const levelInput = numberInput('interval-level', Math.round(hooks.view.state.intervalLevel * 100), {
+      min: 50,
+      max: 99,
+      step: 1,
+    });
     levelInput.addEventListener('change', () => {
       const x = Number(levelInput.value);
       if (Number.isInteger(x) && x >= 50 && x <= 99) hooks.view.set({ intervalLevel: x / 100 });

@@ -12,7 +12,11 @@ import type { StudyRecord } from '../report/studyRecord';
 import { el } from './dom';
 import type { PanelContext } from './panelContext';
 
-export function createReportDialog(ctx: PanelContext, record: StudyRecord, appVersion: string): { open(): Promise<void> } {
+export function createReportDialog(
+  ctx: PanelContext,
+  record: StudyRecord,
+  appVersion: string,
+): { open(): Promise<void> } {
   const dialog = el('dialog', { className: 'rf-dialog', testid: 'report-dialog' });
   document.body.append(dialog);
   const runLine = el('p', { className: 'rf-hint', testid: 'report-run' });
@@ -47,7 +51,8 @@ export function createReportDialog(ctx: PanelContext, record: StudyRecord, appVe
         const input = await gatherReport(ctx, record, run, {
           appVersion,
           reportPath: path.value.trim(),
-          onStep: (done, total) => (status.textContent = `Cross-validating this run and the baselines alone: ${done} of ${total} fold fits done…`),
+          onStep: (done, total) =>
+            (status.textContent = `Cross-validating this run and the baselines alone: ${done} of ${total} fold fits done…`),
         });
         text = buildReport(input);
       }
@@ -56,7 +61,16 @@ export function createReportDialog(ctx: PanelContext, record: StudyRecord, appVe
         status.textContent = `Written: ${reply.path} (${Math.ceil(reply.bytes / 1024)} KB).`;
         ctx.notice.show(`Study report written to ${reply.path}.`);
       } else if (reply.reason === 'exists') {
-        if (await confirmDialog('Replace the file?', `${reply.message}. Replace it?`, 'Replace', 'Keep it', 'report-overwrite-dialog')) await doWrite(true, text);
+        if (
+          await confirmDialog(
+            'Replace the file?',
+            `${reply.message}. Replace it?`,
+            'Replace',
+            'Keep it',
+            'report-overwrite-dialog',
+          )
+        )
+          await doWrite(true, text);
         else status.textContent = 'Not written: choose another file name.';
       } else status.textContent = reply.message;
     } catch (err) {
@@ -77,9 +91,13 @@ export function createReportDialog(ctx: PanelContext, record: StudyRecord, appVe
       runLine.textContent = `Run ${run.id}: the run shown in the grid.`;
       const parts = ['the cross-validated errors beside the baselines alone'];
       const note: string[] = [];
-      for (const [kind, words] of [['centering', 'the centering comparison'], ['tuning', 'the tuning chart']] as const) {
+      for (const [kind, words] of [
+        ['centering', 'the centering comparison'],
+        ['tuning', 'the tuning chart'],
+      ] as const) {
         if (record.grid(kind)) parts.push(words);
-        else if (record.gridIsStale(kind)) note.push(`${words} was run before the latest edits and is left out (run it again to include it)`);
+        else if (record.gridIsStale(kind))
+          note.push(`${words} was run before the latest edits and is left out (run it again to include it)`);
       }
       const exports = record.exportsOf(run.id).length;
       contents.textContent =

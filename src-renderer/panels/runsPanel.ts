@@ -18,7 +18,9 @@ function timeOf(ms: number): string {
   const d = new Date(ms);
   const time = d.toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit', second: '2-digit' });
   // A run kept in a project may come from another day: then the date is said too.
-  return d.toDateString() === new Date().toDateString() ? time : `${d.toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric' })} ${time}`;
+  return d.toDateString() === new Date().toDateString()
+    ? time
+    : `${d.toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric' })} ${time}`;
 }
 
 /** "Run 11" or "Run 11 “tasting pick”". */
@@ -51,12 +53,16 @@ export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
   const selA = el('select', { testid: 'compare-a' });
   const selB = el('select', { testid: 'compare-b' });
   const compareButton = el('button', { className: 'rf-button', testid: 'compare-button' }, ['Show B − A in the grid']);
-  const clearButton = el('button', { className: 'rf-button', testid: 'compare-clear', hidden: true }, ['Back to estimates']);
+  const clearButton = el('button', { className: 'rf-button', testid: 'compare-clear', hidden: true }, [
+    'Back to estimates',
+  ]);
   const summary = el('div', { testid: 'compare-summary' });
 
   root.append(
     el('h2', {}, ['Runs']),
-    el('p', { className: 'rf-hint' }, ['Every Fill is kept here. Show a run to put its estimates back in the grid; evaluate it to get cross-validated errors.']),
+    el('p', { className: 'rf-hint' }, [
+      'Every Fill is kept here. Show a run to put its estimates back in the grid; evaluate it to get cross-validated errors.',
+    ]),
     list,
     el('h3', {}, ['Compare two runs']),
     el('div', { className: 'rf-compare-pick' }, [el('label', {}, ['A ', selA]), el('label', {}, ['B ', selB])]),
@@ -72,7 +78,9 @@ export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
       list.replaceChildren(
         ...runs.map((r) => {
           const shown = ctx.runs.shownId === r.id;
-          const show = el('button', { className: 'rf-button', testid: `run-show-${r.id}`, disabled: shown }, [shown ? 'Shown' : 'Show']);
+          const show = el('button', { className: 'rf-button', testid: `run-show-${r.id}`, disabled: shown }, [
+            shown ? 'Shown' : 'Show',
+          ]);
           show.addEventListener('click', () => ctx.runs.show(r.id));
           const evaluate = el('button', { className: 'rf-button', testid: `run-evaluate-${r.id}` }, ['Evaluate']);
           evaluate.addEventListener('click', () => {
@@ -80,10 +88,14 @@ export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
             evaluate.textContent = 'Evaluating…';
             ctx.controller
               .evaluate(r, (done, total) => (evaluate.textContent = `Fold ${done}/${total}`))
-              .catch((err: unknown) => ctx.notice.show(`Evaluation stopped: ${err instanceof Error ? err.message : String(err)}`, 'error'))
+              .catch((err: unknown) =>
+                ctx.notice.show(`Evaluation stopped: ${err instanceof Error ? err.message : String(err)}`, 'error'),
+              )
               .finally(() => renderList());
           });
-          const rename = el('button', { className: 'rf-button', testid: `run-rename-${r.id}` }, [r.name ? 'Rename…' : 'Name…']);
+          const rename = el('button', { className: 'rf-button', testid: `run-rename-${r.id}` }, [
+            r.name ? 'Rename…' : 'Name…',
+          ]);
           rename.addEventListener('click', () => {
             void promptDialog({
               title: `Name run ${r.id}`,
@@ -98,7 +110,10 @@ export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
           });
           const last = r.result.objectiveTrace[r.result.objectiveTrace.length - 1];
           return el('div', { className: `rf-run${shown ? ' rf-run-shown' : ''}`, testid: `run-${r.id}` }, [
-            el('div', { className: 'rf-run-head', testid: `run-head-${r.id}` }, [el('strong', {}, [runTitle(r)]), ` · ${timeOf(r.createdAt)}`]),
+            el('div', { className: 'rf-run-head', testid: `run-head-${r.id}` }, [
+              el('strong', {}, [runTitle(r)]),
+              ` · ${timeOf(r.createdAt)}`,
+            ]),
             el('div', {}, [describeSettings(r.settings)]),
             el('div', { className: 'rf-hint' }, [
               `${r.result.iterations} iterations${r.result.converged ? '' : ' (not settled)'} · ${r.settings.model === 'gaussian' ? 'log-likelihood' : 'objective'} ${fmt(last, 4)}` +
@@ -116,7 +131,9 @@ export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
       [selB, (p: { a: number; b: number } | null) => p?.b],
     ] as const) {
       const current = sel.value;
-      sel.replaceChildren(...ctx.runs.runs.map((r) => new Option(`${runTitle(r)}: ${describeSettings(r.settings)}`, String(r.id))));
+      sel.replaceChildren(
+        ...ctx.runs.runs.map((r) => new Option(`${runTitle(r)}: ${describeSettings(r.settings)}`, String(r.id))),
+      );
       const want = pick(ctx.runs.compare) ?? (current ? Number(current) : undefined);
       if (want !== undefined && ctx.runs.get(want)) sel.value = String(want);
     }
@@ -139,7 +156,11 @@ export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
     const b = ctx.runs.get(pair.b);
     const m = ctx.store.current;
     if (!runFitsDocument(a, ctx.store) || !runFitsDocument(b, ctx.store)) {
-      summary.replaceChildren(el('p', { className: 'rf-panel-error' }, ['These runs no longer match the matrix’s shape; fill again to compare.']));
+      summary.replaceChildren(
+        el('p', { className: 'rf-panel-error' }, [
+          'These runs no longer match the matrix’s shape; fill again to compare.',
+        ]),
+      );
       ctx.grid.setLayers({ diff: null });
       return;
     }
@@ -152,9 +173,21 @@ export function mountRunsPanel(root: HTMLElement, ctx: PanelContext): void {
       el('p', { className: 'rf-hint' }, [`Largest change ${fmt(d.maxAbs, 2)}, mean change ${fmt(d.meanAbs, 2)}.`]),
       el('table', { className: 'rf-table', testid: 'compare-errors' }, [
         el('tr', {}, [el('th', {}, ['']), el('th', {}, ['A']), el('th', {}, ['B'])]),
-        el('tr', {}, [el('td', {}, ['settings']), el('td', {}, [describeSettings(a.settings)]), el('td', {}, [describeSettings(b.settings)])]),
-        el('tr', {}, [el('td', {}, ['cross-validated RMSE']), el('td', {}, [fmt(a.evaluation?.meanRmse)]), el('td', {}, [fmt(b.evaluation?.meanRmse)])]),
-        el('tr', {}, [el('td', {}, ['cross-validated MAE']), el('td', {}, [fmt(a.evaluation?.meanMae)]), el('td', {}, [fmt(b.evaluation?.meanMae)])]),
+        el('tr', {}, [
+          el('td', {}, ['settings']),
+          el('td', {}, [describeSettings(a.settings)]),
+          el('td', {}, [describeSettings(b.settings)]),
+        ]),
+        el('tr', {}, [
+          el('td', {}, ['cross-validated RMSE']),
+          el('td', {}, [fmt(a.evaluation?.meanRmse)]),
+          el('td', {}, [fmt(b.evaluation?.meanRmse)]),
+        ]),
+        el('tr', {}, [
+          el('td', {}, ['cross-validated MAE']),
+          el('td', {}, [fmt(a.evaluation?.meanMae)]),
+          el('td', {}, [fmt(b.evaluation?.meanMae)]),
+        ]),
       ]),
       el('div', { className: 'rf-legend' }, [
         el('span', { className: 'rf-legend-diff-neg' }, ['−1.0']),

@@ -144,7 +144,15 @@ export class SidePanel {
     const ids = [...this.sections.keys()];
     const at = ids.indexOf(this.current);
     const next =
-      e.key === 'ArrowRight' ? (at + 1) % ids.length : e.key === 'ArrowLeft' ? (at - 1 + ids.length) % ids.length : e.key === 'Home' ? 0 : e.key === 'End' ? ids.length - 1 : -1;
+      e.key === 'ArrowRight'
+        ? (at + 1) % ids.length
+        : e.key === 'ArrowLeft'
+          ? (at - 1 + ids.length) % ids.length
+          : e.key === 'Home'
+            ? 0
+            : e.key === 'End'
+              ? ids.length - 1
+              : -1;
     if (next < 0) return;
     e.preventDefault();
     this.select(ids[next]);

@@ -36,7 +36,8 @@ export function parseNumberList(text: string, rules: ListRules): ListResult {
   for (const p of parts) {
     const v = Number(p);
     if (!Number.isFinite(v)) return { ok: false, message: `${rules.name}: “${p}” is not a number.` };
-    if (rules.integer && !Number.isInteger(v)) return { ok: false, message: `${rules.name}: “${p}” is not a whole number.` };
+    if (rules.integer && !Number.isInteger(v))
+      return { ok: false, message: `${rules.name}: “${p}” is not a whole number.` };
     if (v < rules.min || v > rules.max)
       return { ok: false, message: `${rules.name}: ${p} is outside ${rules.min}–${rules.max}.` };
     seen.add(v);
@@ -55,7 +56,15 @@ export interface TuningRequest {
 }
 
 export type TuningPlan =
-  | { ok: true; settingsList: LowRankSettings[]; folds: number; seed: number; ranks: number[]; lambdas: number[]; centerings: Centering[] }
+  | {
+      ok: true;
+      settingsList: LowRankSettings[];
+      folds: number;
+      seed: number;
+      ranks: number[];
+      lambdas: number[];
+      centerings: Centering[];
+    }
   | { ok: false; message: string };
 
 /**
@@ -77,19 +86,38 @@ export function planTuning(req: TuningRequest, form: FitSettings): TuningPlan {
       ok: false,
       message: `That grid has ${count} settings (${ranks.values.length} ranks × ${lambdas.values.length} λ × ${req.centerings.length} centering); the limit is ${MAX_GRID_SETTINGS}. Use fewer values.`,
     };
-  const shared: Partial<LowRankSettings> = { ...base, maxIterations: form.maxIterations, seed: form.seed, clipToScale: form.clipToScale, snapToStep: form.snapToStep };
-  const settingsList = expandLowRankGrid({ ranks: ranks.values, lambdas: lambdas.values, centerings: req.centerings, base: shared });
-  return { ok: true, settingsList, folds: req.folds, seed: form.seed, ranks: ranks.values, lambdas: lambdas.values, centerings: req.centerings };
+  const shared: Partial<LowRankSettings> = {
+    ...base,
+    maxIterations: form.maxIterations,
+    seed: form.seed,
+    clipToScale: form.clipToScale,
+    snapToStep: form.snapToStep,
+  };
+  const settingsList = expandLowRankGrid({
+    ranks: ranks.values,
+    lambdas: lambdas.values,
+    centerings: req.centerings,
+    base: shared,
+  });
+  return {
+    ok: true,
+    settingsList,
+    folds: req.folds,
+    seed: form.seed,
+    ranks: ranks.values,
+    lambdas: lambdas.values,
+    centerings: req.centerings,
+  };
 }
 
-export interface RankSeries {
+interface RankSeries {
   lambda: number;
   centering: Centering;
   /** Mean RMSE at each of `ranks` (NaN where the grid has no such point or the fit failed). */
   values: number[];
 }
 
-export interface ChartPoint {
+interface ChartPoint {
   rank: number;
   meanRmse: number;
   series: number;
@@ -124,12 +152,22 @@ export function rankChartData(reply: TunePayload): RankChartData {
   const pointOf = (index: number): ChartPoint | null => {
     const row = reply.table[index];
     if (!row || row.settings.model !== 'lowrank') return null;
-    return { rank: row.settings.rank, meanRmse: num(row.meanRmse), series: keys.indexOf(`${row.settings.lambda}|${row.settings.centering}`) };
+    return {
+      rank: row.settings.rank,
+      meanRmse: num(row.meanRmse),
+      series: keys.indexOf(`${row.settings.lambda}|${row.settings.centering}`),
+    };
   };
   for (const row of reply.table) {
     if (row.settings.model !== 'lowrank') continue;
     const s = keys.indexOf(`${row.settings.lambda}|${row.settings.centering}`);
     series[s].values[ranks.indexOf(row.settings.rank)] = num(row.meanRmse);
   }
-  return { ranks, series, best: pointOf(reply.bestIndex), oneSE: pointOf(reply.oneStandardErrorIndex), threshold: num(reply.threshold) };
+  return {
+    ranks,
+    series,
+    best: pointOf(reply.bestIndex),
+    oneSE: pointOf(reply.oneStandardErrorIndex),
+    threshold: num(reply.threshold),
+  };
 }

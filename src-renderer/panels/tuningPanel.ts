@@ -49,10 +49,11 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
       `Suggested from this data: ranks up to ${Math.max(...g.ranks)} (what ${g.summary.observed} ratings support); ` +
       `λ ×2 apart up to half of ${fmt(2 * g.topLambda, 1)}, the strength of the data’s strongest pattern (at λ above it no trait survives).`;
   };
-  for (const input of [ranksInput, lambdasInput]) input.addEventListener('input', () => {
-    gridTouched = true;
-    gridNote.textContent = '';
-  });
+  for (const input of [ranksInput, lambdasInput])
+    input.addEventListener('input', () => {
+      gridTouched = true;
+      gridNote.textContent = '';
+    });
   const checks = new Map<Centering, HTMLInputElement>();
   const checkRow = el('div', { className: 'rf-check-row' });
   for (const c of CENTERING_MODES) {
@@ -79,11 +80,11 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
   const familyNote = el('p', { className: 'rf-hint rf-note', testid: 'tuning-family-note', hidden: true });
   const summary = el('div', { className: 'rf-tune-summary', testid: 'tuning-summary' });
   const applyBest = el('button', { className: 'rf-button', testid: 'tuning-apply-best' }, ['Apply best']);
-  const applyOneSE = el('button', { className: 'rf-button', testid: 'tuning-apply-onese' }, ['Apply simpler choice (one-SE)']);
+  const applyOneSE = el('button', { className: 'rf-button', testid: 'tuning-apply-onese' }, [
+    'Apply simpler choice (one-SE)',
+  ]);
   const chartHost = el('div', { className: 'rf-chart', testid: 'tuning-chart' });
   const tableWrap = el('div', { className: 'rf-table-wrap rf-table-scroll' });
-
-
 
   let chart: RankErrorChart | undefined;
   let last: TunePayload | null = null;
@@ -124,10 +125,13 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
   syncCenteringFromForm();
   ctx.settings.subscribe(syncCenteringFromForm);
 
-
   const apply = (settings: FitSettings, what: string) => {
     ctx.settings.set(settings);
-    ctx.notice.show(`Model settings: ${what} applied (${describe(settings)}). Fill again to see the estimates.`, 'info', 5000);
+    ctx.notice.show(
+      `Model settings: ${what} applied (${describe(settings)}). Fill again to see the estimates.`,
+      'info',
+      5000,
+    );
   };
   applyBest.addEventListener('click', () => {
     if (last) apply(last.table[last.bestIndex].settings, 'best');
@@ -157,7 +161,10 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
     const best = reply.table[reply.bestIndex];
     const one = reply.table[reply.oneStandardErrorIndex];
     summary.replaceChildren(
-      el('div', { testid: 'tuning-best' }, [el('b', {}, ['Best: ']), `${describe(best.settings)} — RMSE ${fmt(best.meanRmse)} ± ${fmt(best.sdRmse)}`]),
+      el('div', { testid: 'tuning-best' }, [
+        el('b', {}, ['Best: ']),
+        `${describe(best.settings)} — RMSE ${fmt(best.meanRmse)} ± ${fmt(best.sdRmse)}`,
+      ]),
       el('div', { testid: 'tuning-onese' }, [
         el('b', {}, ['Simpler choice (one-SE): ']),
         `${describe(one.settings)} — RMSE ${fmt(one.meanRmse)}`,
@@ -168,7 +175,12 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
       ]),
     );
     const failed = reply.table.filter((r) => r.error).length;
-    if (failed > 0) summary.append(el('div', { className: 'rf-warn-text' }, [`${failed} setting${failed === 1 ? '' : 's'} failed to fit (see the table).`]));
+    if (failed > 0)
+      summary.append(
+        el('div', { className: 'rf-warn-text' }, [
+          `${failed} setting${failed === 1 ? '' : 's'} failed to fit (see the table).`,
+        ]),
+      );
     tableWrap.replaceChildren(buildTable(reply, severalCenterings));
   };
 
@@ -183,7 +195,8 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
       const plan = planTuning(request(), form);
       if (!plan.ok) return { error: plan.message };
       familyNote.hidden = form.model === 'lowrank';
-      familyNote.textContent = 'The Model tab is on the Gaussian family; tuning searches the low-rank family (rank, λ, centering).';
+      familyNote.textContent =
+        'The Model tab is on the Gaussian family; tuning searches the low-rank family (rank, λ, centering).';
       return plan;
     },
     startText: (plan) => `Starting ${plan.settingsList.length} settings…`,
@@ -218,7 +231,9 @@ export function mountTuningPanel(root: HTMLElement, ctx: PanelContext): void {
 }
 
 function describe(s: FitSettings): string {
-  return s.model === 'lowrank' ? `rank ${s.rank}, λ ${s.lambda}, centering ${CENTERING_SHORT[s.centering]}` : 'Gaussian model';
+  return s.model === 'lowrank'
+    ? `rank ${s.rank}, λ ${s.lambda}, centering ${CENTERING_SHORT[s.centering]}`
+    : 'Gaussian model';
 }
 
 function buildTable(reply: TunePayload, showCentering: boolean): HTMLTableElement {
@@ -241,7 +256,9 @@ function buildTable(reply: TunePayload, showCentering: boolean): HTMLTableElemen
     const marks: string[] = [];
     if (i === reply.bestIndex) marks.push('★ best');
     if (i === reply.oneStandardErrorIndex) marks.push('◇ 1-SE');
-    const classes = [i === reply.bestIndex ? 'rf-best' : '', i === reply.oneStandardErrorIndex ? 'rf-onese' : ''].filter(Boolean).join(' ');
+    const classes = [i === reply.bestIndex ? 'rf-best' : '', i === reply.oneStandardErrorIndex ? 'rf-onese' : '']
+      .filter(Boolean)
+      .join(' ');
     const tr = el('tr', { testid: 'tuning-row', className: classes || undefined, title: row.error }, [
       el('td', {}, [s.model === 'lowrank' ? String(s.rank) : '—']),
       el('td', {}, [s.model === 'lowrank' ? String(s.lambda) : '—']),

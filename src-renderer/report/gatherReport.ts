@@ -21,22 +21,36 @@ export interface GatherOptions {
   onStep?: (done: number, total: number) => void;
 }
 
-export async function gatherReport(ctx: PanelContext, record: StudyRecord, run: Run, o: GatherOptions): Promise<ReportInput> {
+export async function gatherReport(
+  ctx: PanelContext,
+  record: StudyRecord,
+  run: Run,
+  o: GatherOptions,
+): Promise<ReportInput> {
   const m = ctx.store.current;
   let evaluation = record.evaluation(run.id);
   if (!evaluation) {
     const revision = ctx.store.revision;
-    evaluation = await ctx.controller.evaluateGrid(reportEvaluationSettings(run.settings), REPORT_FOLDS, run.settings.seed, o.onStep);
-    if (ctx.store.revision !== revision) throw new Error('The data changed while the report was being prepared; write the report again.');
+    evaluation = await ctx.controller.evaluateGrid(
+      reportEvaluationSettings(run.settings),
+      REPORT_FOLDS,
+      run.settings.seed,
+      o.onStep,
+    );
+    if (ctx.store.revision !== revision)
+      throw new Error('The data changed while the report was being prepared; write the report again.');
     record.setEvaluation(run.id, evaluation, revision);
   }
   const trace = run.result.objectiveTrace;
   // The run's intervals at the level chosen in the page, when its trust carries a calibration.
   const intervals = intervalsOfRun(run, m.scale, ctx.view.state.intervalLevel);
   // The first Fill may have chosen its settings from the data (runs/firstFill.ts): say so when this run uses them.
-  const chosen = ctx.settings.origin === 'chosen' && JSON.stringify(ctx.settings.value) === JSON.stringify(run.settings);
+  const chosen =
+    ctx.settings.origin === 'chosen' && JSON.stringify(ctx.settings.value) === JSON.stringify(run.settings);
   const candidates = /of (\d+) settings/.exec(ctx.settings.reason)?.[1];
-  const source = ctx.store.filePath ?? (ctx.store.source.kind === 'sample' ? `sample “${ctx.store.source.name}”` : ctx.store.source.name || undefined);
+  const source =
+    ctx.store.filePath ??
+    (ctx.store.source.kind === 'sample' ? `sample “${ctx.store.source.name}”` : ctx.store.source.name || undefined);
   return {
     title: ctx.store.title,
     ...(source ? { source } : {}),
@@ -54,7 +68,15 @@ export async function gatherReport(ctx: PanelContext, record: StudyRecord, run: 
       refitsAfterEdits: run.refits,
     },
     evaluation,
-    choice: chosen ? { reason: ctx.settings.reason, folds: AUTO_FOLDS, candidates: candidates ? Number(candidates) : null, meanRmse: null, baselineMeanRmse: null } : null,
+    choice: chosen
+      ? {
+          reason: ctx.settings.reason,
+          folds: AUTO_FOLDS,
+          candidates: candidates ? Number(candidates) : null,
+          meanRmse: null,
+          baselineMeanRmse: null,
+        }
+      : null,
     intervals: intervals ? reportIntervals(intervals) : null,
     centering: record.grid('centering'),
     tuning: record.grid('tuning'),

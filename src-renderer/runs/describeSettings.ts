@@ -1,2 +1,2 @@
 /** Plain-words names for model settings (shared with the study report: src-shared/report/settingsWords.ts). */
-export { CENTERING_SHORT, CENTERING_WORDS, describeSettings } from '../../src-shared/report/settingsWords';
+export { CENTERING_SHORT, describeSettings } from '../../src-shared/report/settingsWords';

@@ -8,7 +8,13 @@
  * Every later Fill, and every Fill after the user changed a setting, uses the settings as
  * they stand.
  */
-import { AUTO_FOLDS, baselineCandidates, bestBaselineCentering, chooseAuto, factorCandidates } from '../../src-shared/engine/autoSettings';
+import {
+  AUTO_FOLDS,
+  baselineCandidates,
+  bestBaselineCentering,
+  chooseAuto,
+  factorCandidates,
+} from '../../src-shared/engine/autoSettings';
 import type { TuneRow } from '../../src-shared/engine/tuning';
 import type { FitSettings, LowRankSettings } from '../../src-shared/engine/types';
 import { summarizeForGrid } from '../../src-shared/engine/tuningGrid';
@@ -18,7 +24,7 @@ import type { SettingsStore } from '../state/settingsStore';
 import type { FitController } from './fitController';
 import type { RunStore } from './runStore';
 
-export interface ChoosingState {
+interface ChoosingState {
   done: number;
   total: number;
 }
@@ -34,7 +40,7 @@ export interface FirstFillDeps {
 }
 
 /** True when a Fill now should choose its settings first. */
-export function shouldChoose(settings: SettingsStore, runs: RunStore): boolean {
+function shouldChoose(settings: SettingsStore, runs: RunStore): boolean {
   return settings.origin !== 'user' && settings.value.model === 'lowrank' && runs.runs.length === 0;
 }
 
@@ -79,14 +85,28 @@ export async function fillAdaptively(d: FirstFillDeps): Promise<void> {
   try {
     d.onChoosing({ done: 0, total }, cancel);
     const stage1 = rowsOf(
-      await d.controller.evaluateGrid(first, AUTO_FOLDS, base.seed, (done) => d.onChoosing({ done, total }, cancel), (id) => (job = id)),
+      await d.controller.evaluateGrid(
+        first,
+        AUTO_FOLDS,
+        base.seed,
+        (done) => d.onChoosing({ done, total }, cancel),
+        (id) => (job = id),
+      ),
     );
     if (stopped) return;
     const second = factorCandidates(matrix, bestBaselineCentering(stage1), base, summary);
     const offset = first.length * AUTO_FOLDS;
     const stage2 =
       second.length > 0
-        ? rowsOf(await d.controller.evaluateGrid(second, AUTO_FOLDS, base.seed, (done) => d.onChoosing({ done: offset + done, total }, cancel), (id) => (job = id)))
+        ? rowsOf(
+            await d.controller.evaluateGrid(
+              second,
+              AUTO_FOLDS,
+              base.seed,
+              (done) => d.onChoosing({ done: offset + done, total }, cancel),
+              (id) => (job = id),
+            ),
+          )
         : [];
     if (stopped || d.store.revision !== revision || d.settings.origin === 'user') {
       // Stopped, the data changed, or the user set the settings meanwhile: theirs win.

@@ -17,8 +17,8 @@ import { runIsCurrent } from './runMatch';
 import { compareSeedFits } from '../../src-shared/engine/seedStability';
 
 /** Ensemble used for the per-cell spread: the k fold models. */
-export const TRUST_FOLDS = DEFAULT_FOLDS;
-export const EVALUATION_FOLDS = DEFAULT_FOLDS;
+const TRUST_FOLDS = DEFAULT_FOLDS;
+const EVALUATION_FOLDS = DEFAULT_FOLDS;
 
 export type FillState =
   | { phase: 'idle' }
@@ -112,19 +112,22 @@ export class FitController {
         return undefined;
       }
       const result = fitResultFromPayload(outcome.result);
-      const run = this.runs.add({
-        settings,
-        result,
-        trust: outcome.trust ? trustFromPayload(outcome.trust) : undefined,
-        createdAt: identity?.createdAt ?? Date.now(),
-        docRevision: revision,
-        dataSet,
-        layout,
-        rows: result.rows,
-        cols: result.cols,
-        refits: 0,
-        ...(identity?.name ? { name: identity.name } : {}),
-      }, identity?.number);
+      const run = this.runs.add(
+        {
+          settings,
+          result,
+          trust: outcome.trust ? trustFromPayload(outcome.trust) : undefined,
+          createdAt: identity?.createdAt ?? Date.now(),
+          docRevision: revision,
+          dataSet,
+          layout,
+          rows: result.rows,
+          cols: result.cols,
+          refits: 0,
+          ...(identity?.name ? { name: identity.name } : {}),
+        },
+        identity?.number,
+      );
       this.setFill({ phase: 'idle' });
       // Edits made while the fit ran are caught up by a live refit.
       if (this.doc.revision !== revision) this.scheduleLiveRefit();
@@ -163,7 +166,8 @@ export class FitController {
     const { dataSet, layout } = this.doc;
     const matrix = this.doc.current;
     // The run's factors are a good start only for the same cells in the same places.
-    const sameLayout = run.layout === layout && matrix.rowLabels.length === run.rows && matrix.colLabels.length === run.cols;
+    const sameLayout =
+      run.layout === layout && matrix.rowLabels.length === run.rows && matrix.colLabels.length === run.cols;
     const previous = this.liveJob;
     if (previous) void this.bridge.call('fit.cancel', { jobId: previous }).catch(() => undefined);
     // The page names the job itself and follows it before sending, so the result
@@ -178,13 +182,19 @@ export class FitController {
         settings: run.settings,
         clientId,
         ...(sameLayout && run.result.rank > 0
-          ? { warmStart: { rowFactors: Array.from(run.result.rowFactors), colFactors: Array.from(run.result.colFactors) } }
+          ? {
+              warmStart: {
+                rowFactors: Array.from(run.result.rowFactors),
+                colFactors: Array.from(run.result.colFactors),
+              },
+            }
           : {}),
       })
       .catch((err: unknown) => this.jobs.abandon(jobId, err instanceof Error ? err : new Error(String(err))));
     try {
       const outcome = await outcomePromise;
-      if (outcome.kind !== 'fit' || this.liveJob !== jobId || this.doc.dataSet !== dataSet || !this.runs.get(run.id)) return;
+      if (outcome.kind !== 'fit' || this.liveJob !== jobId || this.doc.dataSet !== dataSet || !this.runs.get(run.id))
+        return;
       const result = fitResultFromPayload(outcome.result);
       if (result.rows !== matrix.rowLabels.length || result.cols !== matrix.colLabels.length) return;
       // The refit itself is drawn first (fast, warm-started); the ensemble spread follows in a second job.
@@ -214,7 +224,14 @@ export class FitController {
     this.liveJob = jobId;
     try {
       const outcome = await this.jobs.follow(jobId);
-      if (outcome.kind !== 'fit' || this.liveJob !== jobId || this.doc.revision !== revision || !outcome.trust || !this.runs.get(run.id)) return;
+      if (
+        outcome.kind !== 'fit' ||
+        this.liveJob !== jobId ||
+        this.doc.revision !== revision ||
+        !outcome.trust ||
+        !this.runs.get(run.id)
+      )
+        return;
       this.runs.setTrust(run.id, trustFromPayload(outcome.trust));
     } catch {
       // Superseded by a newer edit.
@@ -245,11 +262,17 @@ export class FitController {
     const matrix = this.doc.current;
     const revision = this.doc.revision;
     try {
-      const { jobId } = await this.bridge.call('fit.start', { matrix: matrixToPayload(matrix), settings: { ...run.settings, seed: run.settings.seed + 1 } });
+      const { jobId } = await this.bridge.call('fit.start', {
+        matrix: matrixToPayload(matrix),
+        settings: { ...run.settings, seed: run.settings.seed + 1 },
+      });
       const outcome = await this.jobs.follow(jobId);
       if (outcome.kind !== 'fit' || this.doc.revision !== revision || !runIsCurrent(run, this.doc)) return;
       const other = fitResultFromPayload(outcome.result).predictions;
-      this.runs.setSeedStability(run.id, compareSeedFits(matrix, run.result.predictions, other, [run.settings.seed, run.settings.seed + 1]));
+      this.runs.setSeedStability(
+        run.id,
+        compareSeedFits(matrix, run.result.predictions, other, [run.settings.seed, run.settings.seed + 1]),
+      );
     } catch {
       // The check is an addition to the evaluation; its failure leaves the errors shown.
     }
@@ -263,7 +286,12 @@ export class FitController {
     onStep?: (done: number, total: number) => void,
     onJob?: (jobId: string) => void,
   ): Promise<TunePayload> {
-    const { jobId } = await this.bridge.call('fit.tune', { matrix: matrixToPayload(this.doc.current), settingsList, folds, seed });
+    const { jobId } = await this.bridge.call('fit.tune', {
+      matrix: matrixToPayload(this.doc.current),
+      settingsList,
+      folds,
+      seed,
+    });
     onJob?.(jobId);
     const outcome = await this.jobs.follow(jobId, { onStep: (p) => onStep?.(p.done, p.total) });
     if (outcome.kind !== 'tuned') throw new Error('unexpected reply to a settings grid');

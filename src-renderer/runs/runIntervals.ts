@@ -7,13 +7,23 @@ import { intervalsAtLevel, type IntervalsAtLevel } from '../../src-shared/engine
 import type { RatingScale } from '../../src-shared/matrix/ratingMatrix';
 import type { Run } from './runStore';
 
-const cache = new WeakMap<object, { level: number; predictions: Float64Array; scale: RatingScale; value: IntervalsAtLevel }>();
+const cache = new WeakMap<
+  object,
+  { level: number; predictions: Float64Array; scale: RatingScale; value: IntervalsAtLevel }
+>();
 
 export function intervalsOfRun(run: Run | undefined, scale: RatingScale, level: number): IntervalsAtLevel | undefined {
   const cal = run?.trust?.intervals;
   if (!run || !cal || cal.errorScale.length !== run.result.predictions.length) return undefined;
   const hit = cache.get(cal);
-  if (hit && hit.level === level && hit.predictions === run.result.predictions && hit.scale.min === scale.min && hit.scale.max === scale.max) return hit.value;
+  if (
+    hit &&
+    hit.level === level &&
+    hit.predictions === run.result.predictions &&
+    hit.scale.min === scale.min &&
+    hit.scale.max === scale.max
+  )
+    return hit.value;
   const value = intervalsAtLevel(cal, run.result.predictions, scale, level);
   cache.set(cal, { level, predictions: run.result.predictions, scale, value });
   return value;

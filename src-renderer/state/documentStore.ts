@@ -31,7 +31,7 @@ export interface ProjectContributor {
   load?(parts: Readonly<ProjectParts>): void;
 }
 
-export interface CellPatch {
+interface CellPatch {
   kind: 'cells';
   label: string;
   indices: Int32Array;
@@ -39,7 +39,7 @@ export interface CellPatch {
   after: Float64Array;
 }
 
-export interface MatrixSwap {
+interface MatrixSwap {
   kind: 'matrix';
   label: string;
   before: RatingMatrix;
@@ -52,10 +52,7 @@ export interface MatrixSwap {
 export type Change = CellPatch | MatrixSwap;
 
 export type DocumentEvent =
-  | { type: 'replaced' }
-  | { type: 'cells'; indices: Int32Array }
-  | { type: 'shape' }
-  | { type: 'history' };
+  { type: 'replaced' } | { type: 'cells'; indices: Int32Array } | { type: 'shape' } | { type: 'history' };
 
 export interface DocumentSource {
   kind: 'sample' | 'file' | 'upload' | 'new';
@@ -107,7 +104,7 @@ export class DocumentStore {
   }
 
   private topSeq(): number {
-    return this.undoStack.length ? this.seqOf.get(this.undoStack[this.undoStack.length - 1]) ?? -1 : 0;
+    return this.undoStack.length ? (this.seqOf.get(this.undoStack[this.undoStack.length - 1]) ?? -1) : 0;
   }
 
   subscribe(listener: (e: DocumentEvent) => void): () => void {
@@ -120,7 +117,13 @@ export class DocumentStore {
   }
 
   /** Open a different document: history starts afresh. */
-  replace(matrix: RatingMatrix, title: string, source: DocumentSource, filePath: string | null = null, parts?: ProjectParts): void {
+  replace(
+    matrix: RatingMatrix,
+    title: string,
+    source: DocumentSource,
+    filePath: string | null = null,
+    parts?: ProjectParts,
+  ): void {
     this.matrix = matrix;
     this.filePath = filePath;
     this.parts = parts ?? { settings: null, runs: [], notes: '', createdAt: new Date().toISOString() };
@@ -196,7 +199,14 @@ export class DocumentStore {
    */
   swapMatrix(label: string, next: RatingMatrix, opts: { keepsCells?: boolean } = {}): void {
     const afterLayout = opts.keepsCells ? this.layout : ++this.layoutSeq;
-    this.apply({ kind: 'matrix', label, before: cloneMatrix(this.matrix), after: cloneMatrix(next), beforeLayout: this.layout, afterLayout });
+    this.apply({
+      kind: 'matrix',
+      label,
+      before: cloneMatrix(this.matrix),
+      after: cloneMatrix(next),
+      beforeLayout: this.layout,
+      afterLayout,
+    });
   }
 
   private apply(change: Change): void {

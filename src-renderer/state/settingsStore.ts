@@ -10,7 +10,13 @@
  */
 import { defaultLowRankSettings } from '../../src-shared/engine/defaults';
 import { defaultGaussianSettings } from '../../src-shared/engine/gaussian';
-import type { Centering, FitSettings, GaussianSettings, LowRankSettings, ModelFamily } from '../../src-shared/engine/types';
+import type {
+  Centering,
+  FitSettings,
+  GaussianSettings,
+  LowRankSettings,
+  ModelFamily,
+} from '../../src-shared/engine/types';
 
 export interface SettingsState {
   family: ModelFamily;
@@ -34,7 +40,14 @@ export function normaliseSettings(s: FitSettings): FitSettings {
   const maxIterations = clamp(Math.round(finiteOr(s.maxIterations, 100)), 1, MAX_ITERATIONS);
   const seed = Math.round(finiteOr(s.seed, 0));
   if (s.model === 'gaussian') {
-    return { ...s, maxIterations, seed, shrinkage: clamp(finiteOr(s.shrinkage, 0), 0, MAX_SHRINKAGE), transpose: !!s.transpose, clipToScale: !!s.clipToScale };
+    return {
+      ...s,
+      maxIterations,
+      seed,
+      shrinkage: clamp(finiteOr(s.shrinkage, 0), 0, MAX_SHRINKAGE),
+      transpose: !!s.transpose,
+      clipToScale: !!s.clipToScale,
+    };
   }
   return {
     ...s,
@@ -47,11 +60,16 @@ export function normaliseSettings(s: FitSettings): FitSettings {
   };
 }
 
-export function defaultSettingsState(): SettingsState {
+function defaultSettingsState(): SettingsState {
   const lowRank = defaultLowRankSettings();
   const g = defaultGaussianSettings();
   // One value for the fields both families share.
-  const gaussian: GaussianSettings = { ...g, maxIterations: lowRank.maxIterations, seed: lowRank.seed, clipToScale: lowRank.clipToScale };
+  const gaussian: GaussianSettings = {
+    ...g,
+    maxIterations: lowRank.maxIterations,
+    seed: lowRank.seed,
+    clipToScale: lowRank.clipToScale,
+  };
   return { family: 'lowrank', lowRank, gaussian };
 }
 

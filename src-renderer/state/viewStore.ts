@@ -27,10 +27,10 @@ export type ViewKey = keyof ViewState;
 
 export const SIDE_MIN_WIDTH = 260;
 export const SIDE_MAX_WIDTH = 640;
-export const SIDE_DEFAULT_WIDTH = 340;
+const SIDE_DEFAULT_WIDTH = 340;
 const LAYOUT_KEY = 'rankfill.layout.v1';
 
-export function clampSideWidth(w: number): number {
+function clampSideWidth(w: number): number {
   return Math.round(Math.min(SIDE_MAX_WIDTH, Math.max(SIDE_MIN_WIDTH, Number.isFinite(w) ? w : SIDE_DEFAULT_WIDTH)));
 }
 
@@ -70,7 +70,14 @@ export class ViewStore {
     } catch {
       stored = null;
     }
-    this.s = { focused: null, shownRunId: null, compare: null, overlayVisible: true, intervalLevel: 0.8, layout: parseLayout(stored, defaultWidth) };
+    this.s = {
+      focused: null,
+      shownRunId: null,
+      compare: null,
+      overlayVisible: true,
+      intervalLevel: 0.8,
+      layout: parseLayout(stored, defaultWidth),
+    };
   }
 
   get state(): Readonly<ViewState> {

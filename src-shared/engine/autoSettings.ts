@@ -45,28 +45,51 @@ export function spreadRanks(ladder: number[]): number[] {
 }
 
 function quick(base: Partial<LowRankSettings>): LowRankSettings {
-  return { ...defaultLowRankSettings(), ...base, model: 'lowrank', maxIterations: Math.min(40, base.maxIterations ?? 40), tolerance: Math.max(1e-4, base.tolerance ?? 1e-4) };
+  return {
+    ...defaultLowRankSettings(),
+    ...base,
+    model: 'lowrank',
+    maxIterations: Math.min(40, base.maxIterations ?? 40),
+    tolerance: Math.max(1e-4, base.tolerance ?? 1e-4),
+  };
 }
 
-export function baselineCandidates(matrix: RatingMatrix, base: Partial<LowRankSettings> = {}, summary = summarizeForGrid(matrix)): LowRankSettings[] {
+export function baselineCandidates(
+  matrix: RatingMatrix,
+  base: Partial<LowRankSettings> = {},
+  summary = summarizeForGrid(matrix),
+): LowRankSettings[] {
   const b = quick(base);
   const l0 = roundLambda(topLambda(summary)) || b.lambda;
   return CENTERINGS.map((centering) => ({ ...b, rank: 0, lambda: l0, centering }));
 }
 
-export function factorCandidates(matrix: RatingMatrix, centering: Centering, base: Partial<LowRankSettings> = {}, summary = summarizeForGrid(matrix)): LowRankSettings[] {
+export function factorCandidates(
+  matrix: RatingMatrix,
+  centering: Centering,
+  base: Partial<LowRankSettings> = {},
+  summary = summarizeForGrid(matrix),
+): LowRankSettings[] {
   const b = quick(base);
   const grid = defaultLambdas(summary);
   const lambdas = [...new Set([grid[grid.length - 1], grid[Math.floor((grid.length - 1) / 2)], grid[0]])];
   const out: LowRankSettings[] = [];
-  for (const rank of spreadRanks(defaultRanks(summary))) for (const lambda of lambdas) out.push({ ...b, rank, lambda, centering });
+  for (const rank of spreadRanks(defaultRanks(summary)))
+    for (const lambda of lambdas) out.push({ ...b, rank, lambda, centering });
   return out;
 }
 
 /** The best-scoring rank-0 row's centering (`both` when none could be scored). */
 export function bestBaselineCentering(table: TuneRow[]): Centering {
   let best: TuneRow | undefined;
-  for (const r of table) if (r.settings.model === 'lowrank' && r.settings.rank === 0 && Number.isFinite(r.meanRmse) && (!best || r.meanRmse < best.meanRmse)) best = r;
+  for (const r of table)
+    if (
+      r.settings.model === 'lowrank' &&
+      r.settings.rank === 0 &&
+      Number.isFinite(r.meanRmse) &&
+      (!best || r.meanRmse < best.meanRmse)
+    )
+      best = r;
   return best && best.settings.model === 'lowrank' ? best.settings.centering : 'both';
 }
 
@@ -75,7 +98,7 @@ function fmt(x: number): string {
 }
 
 /** Short label: "rank 5, λ 15, both" (rank 0: "rank 0 (baselines alone), both"). */
-export function autoLabel(s: LowRankSettings): string {
+function autoLabel(s: LowRankSettings): string {
   return s.rank === 0 ? `rank 0 (baselines alone), ${s.centering}` : `rank ${s.rank}, λ ${s.lambda}, ${s.centering}`;
 }
 
@@ -83,7 +106,11 @@ export function autoLabel(s: LowRankSettings): string {
  * The lowest-error candidate of a scored table, with its one-line reason. `real` carries the
  * iteration limit and tolerance of the fit that follows (the table's were loosened).
  */
-export function chooseAuto(table: TuneRow[], folds: number, real: Pick<LowRankSettings, 'maxIterations' | 'tolerance'>): AutoChoice {
+export function chooseAuto(
+  table: TuneRow[],
+  folds: number,
+  real: Pick<LowRankSettings, 'maxIterations' | 'tolerance'>,
+): AutoChoice {
   let best = -1;
   let baseline = NaN;
   for (let t = 0; t < table.length; t++) {
@@ -101,7 +128,15 @@ export function chooseAuto(table: TuneRow[], folds: number, real: Pick<LowRankSe
     chosen.rank === 0
       ? `lowest ${folds}-fold error of ${table.length} settings; no setting with hidden traits did better`
       : `lowest ${folds}-fold error of ${table.length} settings; ${fmt(gain)} better than baselines alone`;
-  return { settings, reason: `${autoLabel(settings)}: ${why}`, folds, candidates: table.length, rmse, baselineRmse: baseline, table };
+  return {
+    settings,
+    reason: `${autoLabel(settings)}: ${why}`,
+    folds,
+    candidates: table.length,
+    rmse,
+    baselineRmse: baseline,
+    table,
+  };
 }
 
 /** Score the candidates and choose (for the command line and tests; the page runs the same candidates in its worker). */
@@ -115,7 +150,15 @@ export function autoSettings(
   let observed = 0;
   for (let c = 0; c < matrix.values.length; c++) if (matrix.values[c] === matrix.values[c]) observed++;
   if (observed < 2 * AUTO_FOLDS) {
-    return { settings: d, reason: `${autoLabel(d)}: the defaults (${observed} ratings are too few to cross-validate)`, folds: AUTO_FOLDS, candidates: 0, rmse: NaN, baselineRmse: NaN, table: [] };
+    return {
+      settings: d,
+      reason: `${autoLabel(d)}: the defaults (${observed} ratings are too few to cross-validate)`,
+      folds: AUTO_FOLDS,
+      candidates: 0,
+      rmse: NaN,
+      baselineRmse: NaN,
+      table: [],
+    };
   }
   const summary = summarizeForGrid(matrix);
   const first = baselineCandidates(matrix, base, summary);
@@ -124,6 +167,15 @@ export function autoSettings(
   const total = (first.length + second.length) * AUTO_FOLDS;
   const offset = first.length * AUTO_FOLDS;
   const stage2 =
-    second.length > 0 ? tune(matrix, { settings: second }, AUTO_FOLDS, d.seed, onProgress ? (p) => onProgress({ done: offset + p.done, total }) : undefined, shouldStop).table : [];
+    second.length > 0
+      ? tune(
+          matrix,
+          { settings: second },
+          AUTO_FOLDS,
+          d.seed,
+          onProgress ? (p) => onProgress({ done: offset + p.done, total }) : undefined,
+          shouldStop,
+        ).table
+      : [];
   return chooseAuto([...stage1.table, ...stage2], AUTO_FOLDS, d);
 }

@@ -30,7 +30,12 @@ export interface Baseline {
   sweeps?: number;
 }
 
-export function fitBaseline(data: SparseRatings, centering: Centering, offsetLambda: number, warm?: Baseline): Baseline {
+export function fitBaseline(
+  data: SparseRatings,
+  centering: Centering,
+  offsetLambda: number,
+  warm?: Baseline,
+): Baseline {
   const { rows, cols, rowPtr, rowCol, rowVal, colPtr, colRow, colVal } = data;
   const rowBaseline = new Float64Array(rows);
   const colBaseline = new Float64Array(cols);

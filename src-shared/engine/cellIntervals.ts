@@ -38,7 +38,14 @@ import {
   type LevelSummary,
 } from './intervals';
 
-export const ERROR_FEATURES = ['constant', 'row + column spread', 'row error', 'column error', 'row support⁻½', 'column support⁻½'] as const;
+const ERROR_FEATURES = [
+  'constant',
+  'row + column spread',
+  'row error',
+  'column error',
+  'row support⁻½',
+  'column support⁻½',
+] as const;
 const P = ERROR_FEATURES.length;
 const PRIOR_WEIGHT = 3;
 
@@ -52,7 +59,11 @@ export class HeldOutCollector {
   readonly ownSd: Float64Array;
   private models = 0;
 
-  constructor(values: Float64Array, foldOf: Int32Array, readonly k: number) {
+  constructor(
+    values: Float64Array,
+    foldOf: Int32Array,
+    readonly k: number,
+  ) {
     let n = 0;
     for (let c = 0; c < foldOf.length; c++) if (foldOf[c] >= 0) n++;
     this.cells = new Int32Array(n);
@@ -159,7 +170,11 @@ function margins(h: HeldOutCollector, rows: number, cols: number): Margins {
 }
 
 /** Mean ensemble spread over each row's and each column's blank cells (0 where there are none). */
-function blankSpread(full: FullModelView, rows: number, cols: number): { rowSpread: Float64Array; colSpread: Float64Array } {
+function blankSpread(
+  full: FullModelView,
+  rows: number,
+  cols: number,
+): { rowSpread: Float64Array; colSpread: Float64Array } {
   const rowSpread = new Float64Array(rows);
   const colSpread = new Float64Array(cols);
   const spread = full.ensembleSpread;
@@ -183,7 +198,8 @@ function blankSpread(full: FullModelView, rows: number, cols: number): { rowSpre
   return { rowSpread, colSpread };
 }
 
-const shrunkRms = (sq: number, count: number, meanSq: number): number => Math.sqrt((sq + PRIOR_WEIGHT * meanSq) / (count + PRIOR_WEIGHT));
+const shrunkRms = (sq: number, count: number, meanSq: number): number =>
+  Math.sqrt((sq + PRIOR_WEIGHT * meanSq) / (count + PRIOR_WEIGHT));
 
 /** Fit σ̂ and score the held-out cells; σ̂ for every blank cell of the full model. */
 export function calibrateIntervals(h: HeldOutCollector, full: FullModelView): IntervalCalibration {
@@ -240,8 +256,16 @@ export function calibrateIntervals(h: HeldOutCollector, full: FullModelView): In
   // σ̂ of a blank cell = β₀ + β₁·spread + (row part) + (column part), without building its features.
   const rowPart = new Float64Array(rows);
   const colPart = new Float64Array(cols);
-  for (let i = 0; i < rows; i++) rowPart[i] = b[1] * rowSpread[i] + b[2] * shrunkRms(mg.rowSq[i], mg.rowCount[i], mg.meanSq) + b[4] / Math.sqrt(1 + (mg.rowSupport[i] * (k - 1)) / k);
-  for (let j = 0; j < cols; j++) colPart[j] = b[1] * colSpread[j] + b[3] * shrunkRms(mg.colSq[j], mg.colCount[j], mg.meanSq) + b[5] / Math.sqrt(1 + (mg.colSupport[j] * (k - 1)) / k);
+  for (let i = 0; i < rows; i++)
+    rowPart[i] =
+      b[1] * rowSpread[i] +
+      b[2] * shrunkRms(mg.rowSq[i], mg.rowCount[i], mg.meanSq) +
+      b[4] / Math.sqrt(1 + (mg.rowSupport[i] * (k - 1)) / k);
+  for (let j = 0; j < cols; j++)
+    colPart[j] =
+      b[1] * colSpread[j] +
+      b[3] * shrunkRms(mg.colSq[j], mg.colCount[j], mg.meanSq) +
+      b[5] / Math.sqrt(1 + (mg.colSupport[j] * (k - 1)) / k);
   for (let i = 0; i < rows; i++) {
     const base = i * cols;
     const ri = b[0] + rowPart[i];
@@ -252,7 +276,13 @@ export function calibrateIntervals(h: HeldOutCollector, full: FullModelView): In
       errorScale[c] = v > model.floor ? v : model.floor;
     }
   }
-  return { method: INTERVAL_METHOD, scaleSource: 'error model', coefficients: Array.from(b), heldOut: heldOut(), errorScale };
+  return {
+    method: INTERVAL_METHOD,
+    scaleSource: 'error model',
+    coefficients: Array.from(b),
+    heldOut: heldOut(),
+    errorScale,
+  };
 }
 
 /** Running sample standard deviation of every cell's prediction across ensemble members (Welford). */
@@ -300,7 +330,12 @@ export interface IntervalsAtLevel {
 }
 
 /** The intervals of a run at `level`: bounds around its estimates, and what the held-out folds measured. */
-export function intervalsAtLevel(cal: IntervalCalibration, estimates: Float64Array, scale: RatingScale, level: number): IntervalsAtLevel {
+export function intervalsAtLevel(
+  cal: IntervalCalibration,
+  estimates: Float64Array,
+  scale: RatingScale,
+  level: number,
+): IntervalsAtLevel {
   const heldOut = summarizeLevel(cal.heldOut, level, scale, true);
   const constantWidth = summarizeLevel(cal.heldOut, level, scale, false);
   const { lower, upper } = intervalBounds(estimates, cal.errorScale, heldOut.q, scale);

@@ -13,7 +13,7 @@
 import { choleskyInPlace, choleskySolveInPlace } from './cholesky';
 import type { FitResult, LowRankSettings } from './types';
 
-export interface Contribution {
+interface Contribution {
   /** Column of the observed cell in the same row. */
   col: number;
   /** Observed value y_il and its residual r_il = y_il − b_il. */
@@ -35,7 +35,12 @@ export interface CellExplanation {
  * Explain cell (i, j) of a low-rank result on the data `values` (row-major, NaN = missing).
  * Returns undefined for results without factors (rank 0, other families).
  */
-export function explainCell(values: Float64Array, result: FitResult, i: number, j: number): CellExplanation | undefined {
+export function explainCell(
+  values: Float64Array,
+  result: FitResult,
+  i: number,
+  j: number,
+): CellExplanation | undefined {
   const s = result.settings;
   const k = result.rank;
   const cols = result.cols;

@@ -163,7 +163,7 @@ export function cellFolds(matrix: RatingMatrix | SparseMatrix, folds: Folds): In
   return out;
 }
 
-export function meanSd(xs: number[]): { mean: number; sd: number } {
+function meanSd(xs: number[]): { mean: number; sd: number } {
   const n = xs.length;
   if (n === 0) return { mean: NaN, sd: NaN };
   let s = 0;
@@ -226,7 +226,13 @@ export function foldIntervals(
     ensemble?.add(dense);
   });
   if (!heldOut.complete) return undefined;
-  const cal = calibrateIntervals(heldOut, { rows, cols, values, family: settings.model, ensembleSpread: ensemble?.spread() });
+  const cal = calibrateIntervals(heldOut, {
+    rows,
+    cols,
+    values,
+    family: settings.model,
+    ensembleSpread: ensemble?.spread(),
+  });
   return levels.map((level) => ({
     level,
     normalized: summarizeLevel(cal.heldOut, level, m.scale, true),

@@ -22,16 +22,16 @@ import { choleskyInPlace, choleskySolveInPlace } from './cholesky';
 import { clipSnap } from './predictions';
 import type { FitResult } from './types';
 
-export type TermKind = 'global' | 'row' | 'column' | 'interaction' | 'mean' | 'regression' | 'adjustment';
+type TermKind = 'global' | 'row' | 'column' | 'interaction' | 'mean' | 'regression' | 'adjustment';
 
-export interface DecompositionTerm {
+interface DecompositionTerm {
   kind: TermKind;
   label: string;
   value: number;
 }
 
 /** One observed cell's share of a Gaussian regression term. */
-export interface RegressionShare {
+interface RegressionShare {
   /** Row and column of the observed cell. */
   row: number;
   col: number;
@@ -53,8 +53,13 @@ function adjustment(raw: number, result: FitResult, scale: RatingScale): Decompo
   const adjusted = clipSnap(raw, scale, s.clipToScale, s.snapToStep);
   const d = adjusted - raw;
   if (d === 0) return undefined;
-  const clipped = s.clipToScale && (adjusted === scale.min || adjusted === scale.max) && (raw < scale.min || raw > scale.max);
-  return { kind: 'adjustment', label: clipped ? 'kept inside the scale (clipped)' : 'rounded to the scale’s step', value: d };
+  const clipped =
+    s.clipToScale && (adjusted === scale.min || adjusted === scale.max) && (raw < scale.min || raw > scale.max);
+  return {
+    kind: 'adjustment',
+    label: clipped ? 'kept inside the scale (clipped)' : 'rounded to the scale’s step',
+    value: d,
+  };
 }
 
 function sum(terms: DecompositionTerm[]): number {
@@ -87,7 +92,12 @@ function lowRankTerms(result: FitResult, i: number, j: number): DecompositionTer
   return terms;
 }
 
-function gaussianTerms(values: Float64Array, result: FitResult, i: number, j: number): { terms: DecompositionTerm[]; shares: RegressionShare[] } | undefined {
+function gaussianTerms(
+  values: Float64Array,
+  result: FitResult,
+  i: number,
+  j: number,
+): { terms: DecompositionTerm[]; shares: RegressionShare[] } | undefined {
   const s = result.settings;
   const S = result.covariance;
   if (s.model !== 'gaussian' || !S) return undefined;
@@ -104,7 +114,9 @@ function gaussianTerms(values: Float64Array, result: FitResult, i: number, j: nu
     const x = t ? values[v * cols + j] : values[i * cols + v];
     if (x === x) obs.push(v);
   }
-  const terms: DecompositionTerm[] = [{ kind: 'mean', label: t ? 'row mean μ (the model’s)' : 'column mean μ (the model’s)', value: mu[target] }];
+  const terms: DecompositionTerm[] = [
+    { kind: 'mean', label: t ? 'row mean μ (the model’s)' : 'column mean μ (the model’s)', value: mu[target] },
+  ];
   const shares: RegressionShare[] = [];
   const o = obs.length;
   if (o > 0) {
@@ -125,7 +137,11 @@ function gaussianTerms(values: Float64Array, result: FitResult, i: number, j: nu
       shares.push({ row: t ? v : i, col: t ? j : v, value, weight: w[x], contribution: c });
     }
     shares.sort((x, y) => Math.abs(y.contribution) - Math.abs(x.contribution));
-    terms.push({ kind: 'regression', label: `regression on the ${o} observed cell${o === 1 ? '' : 's'} of this ${t ? 'column' : 'row'}`, value: reg });
+    terms.push({
+      kind: 'regression',
+      label: `regression on the ${o} observed cell${o === 1 ? '' : 's'} of this ${t ? 'column' : 'row'}`,
+      value: reg,
+    });
   }
   return { terms, shares };
 }
@@ -135,7 +151,13 @@ function gaussianTerms(values: Float64Array, result: FitResult, i: number, j: nu
  * result was fitted on. Undefined when the result lacks what is needed (a Gaussian result
  * without its covariance).
  */
-export function decomposeCell(values: Float64Array, result: FitResult, scale: RatingScale, i: number, j: number): CellDecomposition | undefined {
+export function decomposeCell(
+  values: Float64Array,
+  result: FitResult,
+  scale: RatingScale,
+  i: number,
+  j: number,
+): CellDecomposition | undefined {
   let terms: DecompositionTerm[];
   let shares: RegressionShare[] | undefined;
   if (result.settings.model === 'lowrank') terms = lowRankTerms(result, i, j);

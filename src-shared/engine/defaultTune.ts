@@ -43,7 +43,13 @@ export interface DefaultTuneResult extends TuneResult {
 }
 
 /** The pass-1 settings: rank 0 once per centering, then ranks > 0 × λ × centerings. */
-export function coarseSettings(ranks: number[], lambdas: number[], centerings: Centering[], base: LowRankSettings, rankZeroLambda: number): LowRankSettings[] {
+function coarseSettings(
+  ranks: number[],
+  lambdas: number[],
+  centerings: Centering[],
+  base: LowRankSettings,
+  rankZeroLambda: number,
+): LowRankSettings[] {
   const out: LowRankSettings[] = [];
   const seen = new Set<string>();
   for (const rank of [...new Set(ranks)].sort((a, b) => a - b))
@@ -60,18 +66,37 @@ export function coarseSettings(ranks: number[], lambdas: number[], centerings: C
 const ALL_CENTERINGS: Centering[] = ['none', 'row', 'column', 'both'];
 
 /** Scores a list of settings on the folds of (k, seed); e.g. the main side's engine pool. */
-export type GridRunner = (list: FitSettings[], k: number, seed: number, onProgress?: (p: TuneProgress) => void) => Promise<TuneResult>;
+export type GridRunner = (
+  list: FitSettings[],
+  k: number,
+  seed: number,
+  onProgress?: (p: TuneProgress) => void,
+) => Promise<TuneResult>;
 
-export async function tuneDefault(matrix: RatingMatrix | SparseMatrix, o: DefaultTuneOptions, runGrid?: GridRunner): Promise<DefaultTuneResult> {
-  const run: GridRunner = runGrid ?? ((list, k, seed, onProgress) => Promise.resolve(tune(matrix, { settings: list }, k, seed, onProgress, o.shouldStop)));
+export async function tuneDefault(
+  matrix: RatingMatrix | SparseMatrix,
+  o: DefaultTuneOptions,
+  runGrid?: GridRunner,
+): Promise<DefaultTuneResult> {
+  const run: GridRunner =
+    runGrid ??
+    ((list, k, seed, onProgress) =>
+      Promise.resolve(tune(matrix, { settings: list }, k, seed, onProgress, o.shouldStop)));
   const grid = defaultGrid(matrix, o.centerings ?? ['both']);
   if (o.ranks) grid.ranks = [...o.ranks];
   if (o.lambdas) grid.lambdas = [...o.lambdas].sort((a, b) => a - b);
   const base: LowRankSettings = { ...defaultLowRankSettings(), ...(o.base ?? {}), model: 'lowrank' };
   const rankZeroLambda = roundLambda(grid.topLambda) || base.lambda;
   const table: TuneRow[] = [];
-  const stage0 = o.centerings === undefined ? ALL_CENTERINGS.map((centering): LowRankSettings => ({ ...base, rank: 0, lambda: rankZeroLambda, centering })) : [];
-  const guess = stage0.length + coarseSettings(grid.ranks, grid.lambdas, grid.centerings, base, rankZeroLambda).length + (o.extra?.length ?? 0) + (o.refine === false ? 0 : 2);
+  const stage0 =
+    o.centerings === undefined
+      ? ALL_CENTERINGS.map((centering): LowRankSettings => ({ ...base, rank: 0, lambda: rankZeroLambda, centering }))
+      : [];
+  const guess =
+    stage0.length +
+    coarseSettings(grid.ranks, grid.lambdas, grid.centerings, base, rankZeroLambda).length +
+    (o.extra?.length ?? 0) +
+    (o.refine === false ? 0 : 2);
   const total = guess * o.folds;
   let offset = 0;
   const progress = o.onProgress ? (p: TuneProgress) => o.onProgress!({ done: offset + p.done, total }) : undefined;
@@ -82,7 +107,13 @@ export async function tuneDefault(matrix: RatingMatrix | SparseMatrix, o: Defaul
     grid.centerings = [(pass0.best.settings as LowRankSettings).centering];
   }
   const first: FitSettings[] = [
-    ...coarseSettings(grid.ranks.filter((r) => stage0.length === 0 || r > 0), grid.lambdas, grid.centerings, base, rankZeroLambda),
+    ...coarseSettings(
+      grid.ranks.filter((r) => stage0.length === 0 || r > 0),
+      grid.lambdas,
+      grid.centerings,
+      base,
+      rankZeroLambda,
+    ),
     ...(o.extra ?? []),
   ];
   const pass1 = await run(first, o.folds, o.seed, progress);

@@ -72,5 +72,3 @@ export function predictAt(
   }
   return predictCells(model, scale, rowIdx, colIdx, out, count);
 }
-
-export { FitCancelledError, FitFailedError } from './errors';

@@ -45,7 +45,7 @@ export interface FoldTaskOptions {
 }
 
 /** The k strongest of the K columns of a start (U rows × K, V cols × K), in their original order. */
-export function truncateFactors(start: Factors, rows: number, cols: number, K: number, k: number): Factors {
+function truncateFactors(start: Factors, rows: number, cols: number, K: number, k: number): Factors {
   if (k === K) return start;
   const strength: number[] = [];
   for (let c = 0; c < K; c++) {
@@ -56,7 +56,10 @@ export function truncateFactors(start: Factors, rows: number, cols: number, K: n
     strength.push(Math.sqrt(nu * nv));
   }
   const order = strength.map((s, c) => ({ s, c })).sort((a, b) => b.s - a.s || a.c - b.c);
-  const keep = order.slice(0, k).map((x) => x.c).sort((a, b) => a - b);
+  const keep = order
+    .slice(0, k)
+    .map((x) => x.c)
+    .sort((a, b) => a - b);
   const rowFactors = new Float64Array(rows * k);
   const colFactors = new Float64Array(cols * k);
   for (let i = 0; i < rows; i++) for (let t = 0; t < k; t++) rowFactors[i * k + t] = start.rowFactors[i * K + keep[t]];
@@ -147,7 +150,12 @@ export function runFoldTask(
           }
         }
       }
-      const fit = fitModelSparse(train, settings, { shouldStop: opts.shouldStop, onProgress: opts.onFitProgress, baseline, warmStart });
+      const fit = fitModelSparse(train, settings, {
+        shouldStop: opts.shouldStop,
+        onProgress: opts.onFitProgress,
+        baseline,
+        warmStart,
+      });
       if (reuse && settings.model === 'lowrank' && settings.rank > 0) {
         lastOnPath.set(pathKey(settings), { rowFactors: fit.rowFactors, colFactors: fit.colFactors });
       }
@@ -161,7 +169,11 @@ export function runFoldTask(
         ae += Math.abs(e);
       }
       const score = { rmse: nTest > 0 ? Math.sqrt(se / nTest) : NaN, mae: nTest > 0 ? ae / nTest : NaN, n: nTest };
-      outcomes[s] = { score, ...(opts.keepHeldOut ? { heldOut: pred.slice() } : {}), ...(opts.keepModels ? { model: fit } : {}) };
+      outcomes[s] = {
+        score,
+        ...(opts.keepHeldOut ? { heldOut: pred.slice() } : {}),
+        ...(opts.keepModels ? { model: fit } : {}),
+      };
     } catch (err) {
       if (err instanceof FitCancelledError) throw err;
       outcomes[s] = { error: err instanceof Error ? err : new Error(String(err)) };
@@ -176,7 +188,8 @@ function residualsByRow(data: SparseMatrix['data'], b: Baseline): Float64Array {
   const res = new Float64Array(data.n);
   for (let i = 0; i < data.rows; i++) {
     const rb = b.rowBaseline[i];
-    for (let p = data.rowPtr[i]; p < data.rowPtr[i + 1]; p++) res[p] = data.rowVal[p] - rb - b.colBaseline[data.rowCol[p]];
+    for (let p = data.rowPtr[i]; p < data.rowPtr[i + 1]; p++)
+      res[p] = data.rowVal[p] - rb - b.colBaseline[data.rowCol[p]];
   }
   return res;
 }

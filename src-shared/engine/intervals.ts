@@ -38,10 +38,10 @@ import type { RatingScale } from '../matrix/ratingMatrix';
 
 export const INTERVAL_METHOD = 'cross-validated normalized conformal';
 export const DEFAULT_INTERVAL_LEVEL = 0.8;
-export const MIN_INTERVAL_LEVEL = 0.5;
-export const MAX_INTERVAL_LEVEL = 0.99;
+const MIN_INTERVAL_LEVEL = 0.5;
+const MAX_INTERVAL_LEVEL = 0.99;
 
-export function checkLevel(level: number): void {
+function checkLevel(level: number): void {
   if (!(level >= MIN_INTERVAL_LEVEL && level <= MAX_INTERVAL_LEVEL)) {
     throw new Error(`interval level must lie between ${MIN_INTERVAL_LEVEL} and ${MAX_INTERVAL_LEVEL} (got ${level})`);
   }
@@ -54,7 +54,7 @@ export function conformalRank(n: number, level: number): number {
 }
 
 /** The k-th smallest of `sorted` (ascending), k = conformalRank(n, level); +∞ when k > n. */
-export function conformalQuantileSorted(sorted: ArrayLike<number>, level: number): number {
+function conformalQuantileSorted(sorted: ArrayLike<number>, level: number): number {
   const n = sorted.length;
   const k = conformalRank(n, level);
   if (k > n) return Infinity;
@@ -117,7 +117,12 @@ export function fitErrorScale(features: Float64Array, absResidual: Float64Array,
   return { coefficients, floor: Math.max(0.05 * mean, 1e-9) };
 }
 
-export function applyErrorScale(model: ErrorScaleModel, features: Float64Array, p: number, out?: Float64Array): Float64Array {
+export function applyErrorScale(
+  model: ErrorScaleModel,
+  features: Float64Array,
+  p: number,
+  out?: Float64Array,
+): Float64Array {
   const n = features.length / p;
   const s = out ?? new Float64Array(n);
   const beta = model.coefficients;
@@ -173,7 +178,7 @@ export interface HeldOutScores {
   sigma: Float64Array;
 }
 
-export interface FoldCoverage {
+interface FoldCoverage {
   n: number;
   /** Share of the fold's cells inside their interval (quantile from the other folds). */
   coverage: number;
@@ -248,7 +253,11 @@ export function summarizeLevel(h: HeldOutScores, level: number, scale: RatingSca
 }
 
 /** The ratings a closed interval [lower, upper] holds on a scale with step > 0: first and last. */
-export function ratingsInside(lower: number, upper: number, scale: RatingScale): { first: number; last: number } | undefined {
+export function ratingsInside(
+  lower: number,
+  upper: number,
+  scale: RatingScale,
+): { first: number; last: number } | undefined {
   if (!(scale.step > 0)) return undefined;
   const eps = 1e-9;
   const first = scale.min + Math.ceil((lower - scale.min) / scale.step - eps) * scale.step;

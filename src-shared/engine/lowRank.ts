@@ -77,11 +77,20 @@ export interface RidgeWorkspace {
 
 export function createWorkspace(k: number, maxDegree = 64): RidgeWorkspace {
   const cap = Math.max(1, maxDegree);
-  return { k, a: new Float64Array(k * k), rhs: new Float64Array(k), z: new Float64Array(k), b: new Float64Array(k), loss: 0, xt: new Float64Array(k * cap), r: new Float64Array(cap) };
+  return {
+    k,
+    a: new Float64Array(k * k),
+    rhs: new Float64Array(k),
+    z: new Float64Array(k),
+    b: new Float64Array(k),
+    loss: 0,
+    xt: new Float64Array(k * cap),
+    r: new Float64Array(cap),
+  };
 }
 
 /** Largest number of neighbours of any entity (row or column) described by ptr. */
-export function maxDegree(ptr: Int32Array): number {
+function maxDegree(ptr: Int32Array): number {
   let m = 0;
   for (let e = 0; e + 1 < ptr.length; e++) m = Math.max(m, ptr[e + 1] - ptr[e]);
   return m;
@@ -381,7 +390,7 @@ function penalty(f: Float64Array, ptr: Int32Array, k: number, scaleByCount: bool
 }
 
 /** F(U, V) as in the header. */
-export function lowRankObjective(
+function lowRankObjective(
   idx: SparseRatings,
   resRow: Float64Array,
   u: Float64Array,
@@ -416,17 +425,21 @@ export function lowRankObjective(
 }
 
 /** φ = 1e-20 · max(½ Σ r², F₀): below it F is rounding noise (see the header). */
-export function objectiveFloor(res: Float64Array, f0: number): number {
+function objectiveFloor(res: Float64Array, f0: number): number {
   let ss = 0;
   for (let p = 0; p < res.length; p++) ss += res[p] * res[p];
   return 1e-20 * Math.max(0.5 * ss, f0);
 }
 
 function validate(s: LowRankSettings): void {
-  if (!Number.isInteger(s.rank) || s.rank < 0) throw new FitFailedError(`rank must be a whole number ≥ 0 (got ${s.rank})`);
-  if (!(s.lambda >= 0) || !Number.isFinite(s.lambda)) throw new FitFailedError(`lambda must be a finite number ≥ 0 (got ${s.lambda})`);
-  if (!(s.offsetLambda >= 0) || !Number.isFinite(s.offsetLambda)) throw new FitFailedError(`offset lambda must be a finite number ≥ 0 (got ${s.offsetLambda})`);
-  if (!Number.isInteger(s.maxIterations) || s.maxIterations < 0) throw new FitFailedError(`iterations must be a whole number ≥ 0 (got ${s.maxIterations})`);
+  if (!Number.isInteger(s.rank) || s.rank < 0)
+    throw new FitFailedError(`rank must be a whole number ≥ 0 (got ${s.rank})`);
+  if (!(s.lambda >= 0) || !Number.isFinite(s.lambda))
+    throw new FitFailedError(`lambda must be a finite number ≥ 0 (got ${s.lambda})`);
+  if (!(s.offsetLambda >= 0) || !Number.isFinite(s.offsetLambda))
+    throw new FitFailedError(`offset lambda must be a finite number ≥ 0 (got ${s.offsetLambda})`);
+  if (!Number.isInteger(s.maxIterations) || s.maxIterations < 0)
+    throw new FitFailedError(`iterations must be a whole number ≥ 0 (got ${s.maxIterations})`);
   if (!(s.tolerance >= 0)) throw new FitFailedError(`tolerance must be ≥ 0 (got ${s.tolerance})`);
 }
 
@@ -450,12 +463,14 @@ export function fitLowRankSparse(data: SparseRatings, settings: LowRankSettings,
   const resRow = new Float64Array(idx.n);
   for (let i = 0; i < rows; i++) {
     const rb = base.rowBaseline[i];
-    for (let p = idx.rowPtr[i]; p < idx.rowPtr[i + 1]; p++) resRow[p] = idx.rowVal[p] - rb - base.colBaseline[idx.rowCol[p]];
+    for (let p = idx.rowPtr[i]; p < idx.rowPtr[i + 1]; p++)
+      resRow[p] = idx.rowVal[p] - rb - base.colBaseline[idx.rowCol[p]];
   }
   const resCol = new Float64Array(idx.n);
   for (let j = 0; j < cols; j++) {
     const cb = base.colBaseline[j];
-    for (let q = idx.colPtr[j]; q < idx.colPtr[j + 1]; q++) resCol[q] = idx.colVal[q] - base.rowBaseline[idx.colRow[q]] - cb;
+    for (let q = idx.colPtr[j]; q < idx.colPtr[j + 1]; q++)
+      resCol[q] = idx.colVal[q] - base.rowBaseline[idx.colRow[q]] - cb;
   }
   const trace: number[] = [];
   let iterations = 0;
@@ -490,17 +505,23 @@ export function fitLowRankSparse(data: SparseRatings, settings: LowRankSettings,
     let rising = 0;
     for (let it = 1; it <= settings.maxIterations; it++) {
       if (stop && stop()) throw new FitCancelledError();
-      if (!ridgeHalfStep(u, v, idx.rowPtr, idx.rowCol, resRow, lambda, scaleByCount, work, stop)) throw new FitCancelledError();
-      if (!ridgeHalfStep(v, u, idx.colPtr, idx.colRow, resCol, lambda, scaleByCount, work, stop)) throw new FitCancelledError();
+      if (!ridgeHalfStep(u, v, idx.rowPtr, idx.rowCol, resRow, lambda, scaleByCount, work, stop))
+        throw new FitCancelledError();
+      if (!ridgeHalfStep(v, u, idx.colPtr, idx.colRow, resCol, lambda, scaleByCount, work, stop))
+        throw new FitCancelledError();
       // Loss collected by the column half-step (see the header) plus the penalty.
-      const f = 0.5 * work.loss + 0.5 * lambda * (penalty(u, idx.rowPtr, k, scaleByCount) + penalty(v, idx.colPtr, k, scaleByCount));
+      const f =
+        0.5 * work.loss +
+        0.5 * lambda * (penalty(u, idx.rowPtr, k, scaleByCount) + penalty(v, idx.colPtr, k, scaleByCount));
       trace.push(f);
       iterations = it;
       if (!Number.isFinite(f)) throw new FitFailedError(`the fit produced a non-finite objective at iteration ${it}`);
-      if (f > 1e6 * Math.max(f0, 1)) throw new FitFailedError(`the objective is diverging (iteration ${it}: ${f.toPrecision(4)})`);
+      if (f > 1e6 * Math.max(f0, 1))
+        throw new FitFailedError(`the objective is diverging (iteration ${it}: ${f.toPrecision(4)})`);
       if (f > prev * (1 + 1e-6) + floor) {
         rising++;
-        if (rising >= 5) throw new FitFailedError(`the objective is diverging (rose for 5 iterations, now ${f.toPrecision(4)})`);
+        if (rising >= 5)
+          throw new FitFailedError(`the objective is diverging (rose for 5 iterations, now ${f.toPrecision(4)})`);
       } else rising = 0;
       opts.onProgress?.({ iteration: it, objective: f, elapsedMs: nowMs() - t0 });
       const rel = Math.abs(prev - f) / Math.max(Math.abs(prev), floor, 1e-300);
@@ -511,8 +532,12 @@ export function fitLowRankSparse(data: SparseRatings, settings: LowRankSettings,
       }
     }
   }
-  for (let t = 0; t < u.length; t++) if (!Number.isFinite(u[t])) throw new FitFailedError(`the fit produced a non-finite factor for row ${Math.floor(t / k) + 1}`);
-  for (let t = 0; t < v.length; t++) if (!Number.isFinite(v[t])) throw new FitFailedError(`the fit produced a non-finite factor for column ${Math.floor(t / k) + 1}`);
+  for (let t = 0; t < u.length; t++)
+    if (!Number.isFinite(u[t]))
+      throw new FitFailedError(`the fit produced a non-finite factor for row ${Math.floor(t / k) + 1}`);
+  for (let t = 0; t < v.length; t++)
+    if (!Number.isFinite(v[t]))
+      throw new FitFailedError(`the fit produced a non-finite factor for column ${Math.floor(t / k) + 1}`);
   return {
     settings: { ...settings },
     rows,
@@ -537,14 +562,28 @@ export function fitLowRank(matrix: RatingMatrix, settings: LowRankSettings, opts
   const rows = matrix.rowLabels.length;
   const cols = matrix.colLabels.length;
   const values = matrix.values;
-  if (values.length !== rows * cols) throw new FitFailedError(`matrix has ${values.length} values for ${rows} × ${cols} cells`);
+  if (values.length !== rows * cols)
+    throw new FitFailedError(`matrix has ${values.length} values for ${rows} × ${cols} cells`);
   const bad = findNonFinite(values, cols);
   if (bad) throw new FitFailedError(`non-finite value at row ${bad.row + 1}, column ${bad.col + 1}`);
   const fit = fitLowRankSparse(sparseFromDense(values, rows, cols), settings, opts);
-  const pred = makePredictions(rows, cols, fit.rowBaseline, fit.colBaseline, fit.rowFactors, fit.colFactors, fit.rank, matrix.scale, settings.clipToScale, settings.snapToStep);
+  const pred = makePredictions(
+    rows,
+    cols,
+    fit.rowBaseline,
+    fit.colBaseline,
+    fit.rowFactors,
+    fit.colFactors,
+    fit.rank,
+    matrix.scale,
+    settings.clipToScale,
+    settings.snapToStep,
+  );
   for (let c = 0; c < pred.predictions.length; c++) {
     if (!Number.isFinite(pred.predictions[c])) {
-      throw new FitFailedError(`the fit produced a non-finite prediction at row ${Math.floor(c / cols) + 1}, column ${(c % cols) + 1}`);
+      throw new FitFailedError(
+        `the fit produced a non-finite prediction at row ${Math.floor(c / cols) + 1}, column ${(c % cols) + 1}`,
+      );
     }
   }
   return { ...fit, predictions: pred.predictions, baseline: pred.baseline, elapsedMs: nowMs() - t0 };

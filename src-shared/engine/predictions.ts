@@ -9,8 +9,8 @@
  * A job on sparse storage predicts only the cells it needs (predictCells: the held-out
  * cells of a fold; predictRow: one row at a time into a reused buffer).
  */
-import type { RatingMatrix, RatingScale } from '../matrix/ratingMatrix';
-import type { FitResult, SparseFit } from './types';
+import type { RatingScale } from '../matrix/ratingMatrix';
+import type { SparseFit } from './types';
 
 /** Whether the settings ask for clipping / snapping (the Gaussian family has the same two flags). */
 function clipSnapFlags(fit: SparseFit): { clip: boolean; snap: boolean } {
@@ -56,7 +56,8 @@ export function predictRow(fit: SparseFit, scale: RatingScale, i: number, out: F
 
 export function clipSnap(x: number, scale: RatingScale, clip: boolean, snap: boolean): number {
   let y = x;
-  if (snap && scale.step > 0 && Number.isFinite(scale.min)) y = scale.min + Math.round((y - scale.min) / scale.step) * scale.step;
+  if (snap && scale.step > 0 && Number.isFinite(scale.min))
+    y = scale.min + Math.round((y - scale.min) / scale.step) * scale.step;
   if (clip) {
     if (y < scale.min) y = scale.min;
     if (y > scale.max) y = scale.max;
@@ -91,14 +92,4 @@ export function makePredictions(
     }
   }
   return { predictions, baseline };
-}
-
-/** Observed values where present, the model's prediction elsewhere. */
-export function filledValues(matrix: RatingMatrix, result: FitResult): Float64Array {
-  const out = new Float64Array(matrix.values.length);
-  for (let c = 0; c < out.length; c++) {
-    const y = matrix.values[c];
-    out[c] = y === y ? y : result.predictions[c];
-  }
-  return out;
 }

@@ -13,7 +13,13 @@ export interface RunDifference {
   meanAbs: number;
 }
 
-export function runDifference(values: Float64Array, a: Float64Array, b: Float64Array, step: number, continuousThreshold = 0.5): RunDifference {
+export function runDifference(
+  values: Float64Array,
+  a: Float64Array,
+  b: Float64Array,
+  step: number,
+  continuousThreshold = 0.5,
+): RunDifference {
   if (a.length !== values.length || b.length !== values.length) throw new Error('runs and matrix differ in size');
   const threshold = step > 0 ? step : continuousThreshold;
   const diff = new Float64Array(values.length);

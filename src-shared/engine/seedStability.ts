@@ -15,7 +15,7 @@ import type { RatingMatrix } from '../matrix/ratingMatrix';
 import type { FitSettings } from './types';
 import { fitModel } from './fitModel';
 
-export const SEED_MOVE_SHARE = 0.01;
+const SEED_MOVE_SHARE = 0.01;
 
 export interface SeedStability {
   seeds: [number, number];
@@ -36,7 +36,12 @@ export function moveThreshold(scale: RatingMatrix['scale']): number {
 }
 
 /** Compare two fits' predictions over the matrix's missing cells. */
-export function compareSeedFits(matrix: RatingMatrix, a: Float64Array, b: Float64Array, seeds: [number, number]): SeedStability {
+export function compareSeedFits(
+  matrix: RatingMatrix,
+  a: Float64Array,
+  b: Float64Array,
+  seeds: [number, number],
+): SeedStability {
   const threshold = moveThreshold(matrix.scale);
   const v = matrix.values;
   let cells = 0;
@@ -53,7 +58,16 @@ export function compareSeedFits(matrix: RatingMatrix, a: Float64Array, b: Float6
     if (d > threshold) moved++;
   }
   const movedFraction = cells > 0 ? moved / cells : 0;
-  return { seeds, cells, threshold, moved, movedFraction, maxMove, meanMove: cells > 0 ? sum / cells : 0, flagged: movedFraction > SEED_MOVE_SHARE };
+  return {
+    seeds,
+    cells,
+    threshold,
+    moved,
+    movedFraction,
+    maxMove,
+    meanMove: cells > 0 ? sum / cells : 0,
+    flagged: movedFraction > SEED_MOVE_SHARE,
+  };
 }
 
 /** Fit with seed s and s + 1 and compare (`first` may pass an existing seed-s fit's predictions). */

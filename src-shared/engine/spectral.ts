@@ -48,7 +48,14 @@ function orthonormalizeColumns(x: Float64Array, n: number, k: number, rng: Rng):
 }
 
 /** out (rows × k) = A X, A = residuals/p in row-compressed form, X cols × k. */
-function multiplyA(idx: SparseRatings, resRow: Float64Array, invP: number, x: Float64Array, k: number, out: Float64Array): void {
+function multiplyA(
+  idx: SparseRatings,
+  resRow: Float64Array,
+  invP: number,
+  x: Float64Array,
+  k: number,
+  out: Float64Array,
+): void {
   out.fill(0);
   const { rows, rowPtr, rowCol } = idx;
   for (let i = 0; i < rows; i++) {
@@ -62,7 +69,14 @@ function multiplyA(idx: SparseRatings, resRow: Float64Array, invP: number, x: Fl
 }
 
 /** out (cols × k) = Aᵀ Y, using the row-compressed form. */
-function multiplyAt(idx: SparseRatings, resRow: Float64Array, invP: number, y: Float64Array, k: number, out: Float64Array): void {
+function multiplyAt(
+  idx: SparseRatings,
+  resRow: Float64Array,
+  invP: number,
+  y: Float64Array,
+  k: number,
+  out: Float64Array,
+): void {
   out.fill(0);
   const { rows, rowPtr, rowCol } = idx;
   for (let i = 0; i < rows; i++) {

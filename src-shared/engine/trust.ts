@@ -28,8 +28,7 @@ import { createRng } from './random';
 import { calibrateIntervals, EnsembleSpread, HeldOutCollector, type IntervalCalibration } from './cellIntervals';
 
 export type TrustOptions =
-  | { method: 'folds'; k: number; seed: number }
-  | { method: 'bootstrap'; B: number; seed: number };
+  { method: 'folds'; k: number; seed: number } | { method: 'bootstrap'; B: number; seed: number };
 
 export interface CellTrust {
   spread: Float64Array;
@@ -126,7 +125,14 @@ export function cellTrust(
   const spread = ensemble.spread();
   const intervals =
     heldOut && values && progress.full
-      ? calibrateIntervals(heldOut, { rows, cols, values, family: settings.model, ensembleSpread: spread, ownSpread: progress.full.spread })
+      ? calibrateIntervals(heldOut, {
+          rows,
+          cols,
+          values,
+          family: settings.model,
+          ensembleSpread: spread,
+          ownSpread: progress.full.spread,
+        })
       : undefined;
   return { spread, rowSupport, colSupport, weakRows, weakCols, ...(intervals ? { intervals } : {}) };
 }

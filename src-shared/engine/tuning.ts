@@ -73,7 +73,7 @@ export function expandLowRankGrid(spec: LowRankGridSpec): LowRankSettings[] {
   return out;
 }
 
-export function gridSettings(grid: TuneGrid): FitSettings[] {
+function gridSettings(grid: TuneGrid): FitSettings[] {
   return 'settings' in grid ? grid.settings : expandLowRankGrid(grid);
 }
 

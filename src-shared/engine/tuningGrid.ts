@@ -48,7 +48,13 @@ export interface GridDataSummary {
  * σ₁ of the zero-filled residual matrix R by power iteration on RᵀR (seeded start; 60 steps
  * or until σ₁ changes by < 1e-6 of itself): x ← Rᵀ(R x) / ‖·‖, σ₁ = ‖R x‖.
  */
-export function topSingularValue(rows: number, cols: number, rowPtr: Int32Array, rowCol: Int32Array, res: Float64Array): number {
+function topSingularValue(
+  rows: number,
+  cols: number,
+  rowPtr: Int32Array,
+  rowCol: Int32Array,
+  res: Float64Array,
+): number {
   const x = new Float64Array(cols);
   for (let j = 0; j < cols; j++) x[j] = 1 + ((j * 7919) % 13) / 13;
   const y = new Float64Array(rows);
@@ -75,7 +81,7 @@ export function topSingularValue(rows: number, cols: number, rowPtr: Int32Array,
   return sigma;
 }
 
-export const RANK_LADDER: readonly number[] = [1, 2, 3, 5, 8, 12, 16, 20];
+const RANK_LADDER: readonly number[] = [1, 2, 3, 5, 8, 12, 16, 20];
 
 export function summarizeForGrid(matrix: RatingMatrix | SparseMatrix): GridDataSummary {
   const idx = toSparseMatrix(matrix).data;
@@ -91,7 +97,13 @@ export function summarizeForGrid(matrix: RatingMatrix | SparseMatrix): GridDataS
       ss += r * r;
     }
   }
-  return { rows, cols, observed: idx.n, residualRms: Math.sqrt(ss / idx.n), topSingular: topSingularValue(rows, cols, idx.rowPtr, idx.rowCol, res) };
+  return {
+    rows,
+    cols,
+    observed: idx.n,
+    residualRms: Math.sqrt(ss / idx.n),
+    topSingular: topSingularValue(rows, cols, idx.rowPtr, idx.rowCol, res),
+  };
 }
 
 /** Two significant digits (λ values a person can read and type back). */
@@ -150,7 +162,10 @@ export function refineLambdas(best: number, tried: number[]): number[] {
 }
 
 /** True when setting a is simpler than b: smaller rank, then (same rank) larger λ. */
-export function simplerLowRank(a: Pick<LowRankSettings, 'rank' | 'lambda'>, b: Pick<LowRankSettings, 'rank' | 'lambda'>): boolean {
+export function simplerLowRank(
+  a: Pick<LowRankSettings, 'rank' | 'lambda'>,
+  b: Pick<LowRankSettings, 'rank' | 'lambda'>,
+): boolean {
   return a.rank < b.rank || (a.rank === b.rank && a.lambda > b.lambda);
 }
 

@@ -37,7 +37,11 @@ export function buildLong(
     return undefined;
   }
   if (width > 3) {
-    warnings.add(first.line, 4, `long layout uses the first 3 fields (row, column, value); ignored ${width - 3} more field(s) per line`);
+    warnings.add(
+      first.line,
+      4,
+      `long layout uses the first 3 fields (row, column, value); ignored ${width - 3} more field(s) per line`,
+    );
   }
   const rowIndex = new Map<string, number>();
   const colIndex = new Map<string, number>();
@@ -125,7 +129,11 @@ export function buildLong(
     const c = counts.get(cell);
     if (c === undefined) duplicatePairs++;
     if (policy === 'refuse') {
-      problems.add(rec.line, 1, `duplicate pair ${pair}: first given on line ${firstLine}; choose keep last or average to merge (on the command line: --duplicates last or --duplicates average)`);
+      problems.add(
+        rec.line,
+        1,
+        `duplicate pair ${pair}: first given on line ${firstLine}; choose keep last or average to merge (on the command line: --duplicates last or --duplicates average)`,
+      );
       counts.set(cell, (c ?? 1) + 1);
     } else if (policy === 'last') {
       values[cell] = x;
@@ -140,5 +148,9 @@ export function buildLong(
     }
   }
   if (problems.count > 0) return undefined;
-  return { matrix: { rowLabels, colLabels, values, scale: { ...EMPTY_SCALE } }, duplicatePairs, ...(hasHeader ? { rowHeader: first.fields[0] } : {}) };
+  return {
+    matrix: { rowLabels, colLabels, values, scale: { ...EMPTY_SCALE } },
+    duplicatePairs,
+    ...(hasHeader ? { rowHeader: first.fields[0] } : {}),
+  };
 }

@@ -94,7 +94,11 @@ export function buildWide(
     }
   }
   if (trailingIgnored > 0) {
-    warnings.add(records[1].line, width + 1, `ignored empty fields after the last column on ${trailingIgnored} line(s)`);
+    warnings.add(
+      records[1].line,
+      width + 1,
+      `ignored empty fields after the last column on ${trailingIgnored} line(s)`,
+    );
   }
   // Unlabelled columns: dropped with a warning when they hold no values, a problem otherwise.
   const drop = new Set<number>();
@@ -107,7 +111,11 @@ export function buildWide(
   }
   if (problems.count > 0) return undefined;
   if (drop.size === 0) {
-    return { matrix: { rowLabels, colLabels, values, scale: { ...EMPTY_SCALE } }, duplicatePairs: 0, rowHeader: header.fields[0] };
+    return {
+      matrix: { rowLabels, colLabels, values, scale: { ...EMPTY_SCALE } },
+      duplicatePairs: 0,
+      rowHeader: header.fields[0],
+    };
   }
   const keep: number[] = [];
   for (let j = 0; j < nCols; j++) if (!drop.has(j)) keep.push(j);
@@ -116,7 +124,8 @@ export function buildWide(
     return undefined;
   }
   const packed = new Float64Array(nRows * keep.length);
-  for (let r = 0; r < nRows; r++) for (let k = 0; k < keep.length; k++) packed[r * keep.length + k] = values[r * nCols + keep[k]];
+  for (let r = 0; r < nRows; r++)
+    for (let k = 0; k < keep.length; k++) packed[r * keep.length + k] = values[r * nCols + keep[k]];
   return {
     matrix: { rowLabels, colLabels: keep.map((j) => colLabels[j]), values: packed, scale: { ...EMPTY_SCALE } },
     duplicatePairs: 0,

@@ -9,7 +9,7 @@ export function delimiterName(d: string): string {
 }
 
 /** Field counts of the first `limit` non-blank records when split on `d`. */
-export function sampleFieldCounts(text: string, d: Delimiter, start: number, limit = 50): number[] {
+function sampleFieldCounts(text: string, d: Delimiter, start: number, limit = 50): number[] {
   const counts: number[] = [];
   tokenizeDelimited(
     text,

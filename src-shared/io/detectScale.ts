@@ -1,7 +1,7 @@
 import type { RatingScale } from '../matrix/ratingMatrix';
 
 /** Candidate steps, largest first. */
-export const STEP_CANDIDATES: readonly number[] = [1, 0.5, 0.25, 0.1, 0.01];
+const STEP_CANDIDATES: readonly number[] = [1, 0.5, 0.25, 0.1, 0.01];
 
 function isMultiple(x: number, step: number): boolean {
   const q = x / step;

@@ -28,19 +28,24 @@ export interface ExportOptions {
 }
 
 /** The two halves of the caution, also shown apart (study report); ESTIMATE_CAUTION is both, as exported. */
-export const MODEL_ESTIMATE_CAUTION = 'Filled values are model estimates computed from the other ratings, not measurements.';
+export const MODEL_ESTIMATE_CAUTION =
+  'Filled values are model estimates computed from the other ratings, not measurements.';
 export const PEOPLE_JUDGED_CAUTION =
   'Where rows or columns are people being judged (grades, hiring or award panels), a filled value is not that person’s score: ' +
   'follow your organisation’s own rules and review.';
 export const ESTIMATE_CAUTION = `${MODEL_ESTIMATE_CAUTION} ${PEOPLE_JUDGED_CAUTION}`;
 
-export const CORNER_LABEL: Record<Exclude<ExportKind, 'long'>, string> = {
+const CORNER_LABEL: Record<Exclude<ExportKind, 'long'>, string> = {
   'filled-wide': 'row \\ column (blank cells filled with model estimates)',
   'estimates-wide': 'row \\ column (model estimates only; observed cells left blank)',
 };
 
 /** A filled value as exported: clipped results from the fit, then the chosen rounding. */
-export function exportedEstimate(x: number, matrix: RatingMatrix, opts: Pick<ExportOptions, 'roundToStep' | 'decimals'>): number {
+export function exportedEstimate(
+  x: number,
+  matrix: RatingMatrix,
+  opts: Pick<ExportOptions, 'roundToStep' | 'decimals'>,
+): number {
   if (!opts.roundToStep && opts.decimals === null) return x;
   let v = x;
   const { min, max, step } = matrix.scale;
@@ -80,7 +85,8 @@ export function buildExport(
     const predictions = new Float64Array(result.predictions.length);
     for (let c = 0; c < predictions.length; c++) predictions[c] = estimate(Math.floor(c / cols), c % cols);
     // Baseline and spread are model output too: the decimals asked for apply to them.
-    const rounded = (a: ArrayLike<number> | undefined) => (a === undefined || opts.decimals === null ? a : Float64Array.from(a, (x) => roundTo(x, opts.decimals!)));
+    const rounded = (a: ArrayLike<number> | undefined) =>
+      a === undefined || opts.decimals === null ? a : Float64Array.from(a, (x) => roundTo(x, opts.decimals!));
     return writeFilledLongCsv(
       matrix,
       {
@@ -106,13 +112,18 @@ export function buildExport(
 }
 
 /** Corner text of the companion mask file. */
-export const MASK_CORNER_LABEL = 'row \\ column (observed = rating as entered, filled = model estimate)';
+const MASK_CORNER_LABEL = 'row \\ column (observed = rating as entered, filled = model estimate)';
 
 /**
  * Companion mask of a wide export: the same rows and columns, each cell `observed` or
  * `filled`, so a reader of the wide file knows per cell which values are estimates.
  */
-export function buildMask(matrix: RatingMatrix, delimiter: Delimiter, lineEnding: '\r\n' | '\n' = '\r\n', formulaGuard = true): string {
+export function buildMask(
+  matrix: RatingMatrix,
+  delimiter: Delimiter,
+  lineEnding: '\r\n' | '\n' = '\r\n',
+  formulaGuard = true,
+): string {
   const d = delimiter;
   const cols = matrix.colLabels.length;
   const out = [[MASK_CORNER_LABEL, ...matrix.colLabels].map((s) => textField(s, d, formulaGuard)).join(d)];
@@ -180,7 +191,14 @@ export interface SidecarInput {
   document: { title: string; rows: number; cols: number; observed: number; filled: number };
   settings: FitSettings;
   run: { iterations: number; converged: boolean; finalObjective: number | null; refitsAfterEdits: number };
-  metrics: { folds: number; seed: number; meanRmse: number | null; sdRmse: number | null; meanMae: number | null; sdMae: number | null } | null;
+  metrics: {
+    folds: number;
+    seed: number;
+    meanRmse: number | null;
+    sdRmse: number | null;
+    meanMae: number | null;
+    sdMae: number | null;
+  } | null;
   /** The run's intervals, when it has them (see sidecarIntervals). */
   intervals?: SidecarIntervals;
   /** SHA-256 of matrixFingerprintText(matrix), hex. */

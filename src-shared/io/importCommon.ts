@@ -44,8 +44,8 @@ export function otherDelimiterHint(rec: RawRecord, d: Delimiter, expected: numbe
   const joined = rec.fields[0];
   for (const o of DELIMITERS) {
     if (o === d) continue;
-    if (joined.split(o).length === expected) return ` (this line seems to use ${delimiterName(o)} as the delimiter instead of ${delimiterName(d)})`;
+    if (joined.split(o).length === expected)
+      return ` (this line seems to use ${delimiterName(o)} as the delimiter instead of ${delimiterName(d)})`;
   }
   return '';
 }
-

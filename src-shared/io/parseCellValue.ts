@@ -13,10 +13,7 @@ export const DEFAULT_MISSING_TOKENS: readonly string[] = ['', 'NA', 'N/A', '-', 
 /** Largest magnitude accepted for a rating. */
 export const MAX_ABS_VALUE = 1e15;
 
-export type CellValue =
-  | { kind: 'missing' }
-  | { kind: 'number'; value: number }
-  | { kind: 'error'; message: string };
+export type CellValue = { kind: 'missing' } | { kind: 'number'; value: number } | { kind: 'error'; message: string };
 
 const MISSING: CellValue = { kind: 'missing' };
 const NUMBER_DOT = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;

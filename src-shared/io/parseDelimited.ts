@@ -37,11 +37,9 @@ import { ProblemCollector, type Problem } from './problem';
 import { isBlankRecord, tokenizeDelimited, type RawRecord } from './tokenizeDelimited';
 import { scaleRefusal } from '../matrix/scaleCheck';
 
-export { MAX_CELLS } from './importCommon';
-
-export type Layout = 'wide' | 'long';
+type Layout = 'wide' | 'long';
 export type DuplicatePolicy = 'last' | 'average' | 'refuse';
-export type ColumnOrder = 'as-read' | 'sorted';
+type ColumnOrder = 'as-read' | 'sorted';
 
 export interface ParseOptions {
   fileName: string;
@@ -63,7 +61,7 @@ export interface ParseOptions {
   maxBytes?: number;
 }
 
-export interface ParseInfo {
+interface ParseInfo {
   delimiter: Delimiter;
   layout: Layout;
   decimalComma: boolean;
@@ -85,8 +83,7 @@ export interface ParseInfo {
 }
 
 export type ParseResult =
-  | { ok: true; matrix: RatingMatrix; warnings: Problem[]; info: ParseInfo }
-  | { ok: false; problems: Problem[] };
+  { ok: true; matrix: RatingMatrix; warnings: Problem[]; info: ParseInfo } | { ok: false; problems: Problem[] };
 
 /** Documented import size limit: 50 MB. */
 export const DEFAULT_MAX_BYTES = 50 * 1024 * 1024;
@@ -201,7 +198,11 @@ function parseInner(
         if (kind === 'unclosed-quote') {
           problems.add(line, column, 'unbalanced quote: the quote that opens this field is never closed');
         } else {
-          problems.add(line, column, 'unexpected text after a closing quote (a quote inside a quoted field must be doubled: "")');
+          problems.add(
+            line,
+            column,
+            'unexpected text after a closing quote (a quote inside a quoted field must be doubled: "")',
+          );
         }
       },
     },
@@ -263,7 +264,9 @@ function parseInner(
   // The matrix's scale must have max > min; when every observed value is equal, widen by one step (or 1).
   if (built.rowHeader !== undefined && built.rowHeader.trim() !== '') matrix.rowHeader = built.rowHeader;
   if (given) matrix.scale = { ...given };
-  else matrix.scale = scale.max > scale.min ? { ...scale } : { ...scale, max: scale.min + (scale.step > 0 ? scale.step : 1) };
+  else
+    matrix.scale =
+      scale.max > scale.min ? { ...scale } : { ...scale, max: scale.min + (scale.step > 0 ? scale.step : 1) };
   let observed = 0;
   for (let i = 0; i < matrix.values.length; i++) if (matrix.values[i] === matrix.values[i]) observed++;
   return {
@@ -291,9 +294,12 @@ const labelOrder = new Intl.Collator('en', { numeric: true, sensitivity: 'base' 
 /** Columns sorted by label in natural order ("item 2" before "item 10"), values moved with them. */
 function sortColumns(m: RatingMatrix): void {
   const cols = m.colLabels.length;
-  const order = m.colLabels.map((_, j) => j).sort((a, b) => labelOrder.compare(m.colLabels[a], m.colLabels[b]) || a - b);
+  const order = m.colLabels
+    .map((_, j) => j)
+    .sort((a, b) => labelOrder.compare(m.colLabels[a], m.colLabels[b]) || a - b);
   const values = new Float64Array(m.values.length);
-  for (let i = 0; i < m.rowLabels.length; i++) for (let k = 0; k < cols; k++) values[i * cols + k] = m.values[i * cols + order[k]];
+  for (let i = 0; i < m.rowLabels.length; i++)
+    for (let k = 0; k < cols; k++) values[i * cols + k] = m.values[i * cols + order[k]];
   m.colLabels = order.map((j) => m.colLabels[j]);
   m.values = values;
 }

@@ -139,10 +139,19 @@ export function parseLongSparse(input: string, fileName: string, maxRatings: num
     triples.push(ri, ci, x);
   }
   if (rowLabels.length === 0 || triples.n === 0) return undefined; // let the full parser word it
-  const data = sparseFromTriples(rowLabels.length, colLabels.length, triples.rows, triples.cols, triples.vals, triples.n);
+  const data = sparseFromTriples(
+    rowLabels.length,
+    colLabels.length,
+    triples.rows,
+    triples.cols,
+    triples.vals,
+    triples.n,
+  );
   if ('duplicate' in data) return undefined;
   const detected = detectScale(data.rowVal)!;
   const scale: RatingScale =
-    detected.max > detected.min ? { ...detected } : { ...detected, max: detected.min + (detected.step > 0 ? detected.step : 1) };
+    detected.max > detected.min
+      ? { ...detected }
+      : { ...detected, max: detected.min + (detected.step > 0 ? detected.step : 1) };
   return { ok: true, matrix: { rowLabels, colLabels, scale, data } };
 }

@@ -17,7 +17,7 @@ export function formatProblem(p: Problem): string {
 }
 
 /** Default cap on the number of problems kept per list. */
-export const MAX_PROBLEMS = 200;
+const MAX_PROBLEMS = 200;
 
 /**
  * Collects problems up to a cap; anything past the cap is only counted, and

@@ -22,7 +22,7 @@ export interface RawRecord {
   line: number;
 }
 
-export type TokenProblemKind = 'unclosed-quote' | 'text-after-quote';
+type TokenProblemKind = 'unclosed-quote' | 'text-after-quote';
 
 export interface TokenizeHandlers {
   /** Return false to stop tokenizing early. */

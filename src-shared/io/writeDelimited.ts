@@ -45,11 +45,7 @@ export interface LongWriteOptions extends WriteOptions {
 export function quoteField(s: string, delimiter: string): string {
   if (s === '') return s;
   const needs =
-    s.includes(delimiter) ||
-    s.includes('"') ||
-    s.includes('\n') ||
-    s.includes('\r') ||
-    /^[ \t]|[ \t]$/.test(s);
+    s.includes(delimiter) || s.includes('"') || s.includes('\n') || s.includes('\r') || /^[ \t]|[ \t]$/.test(s);
   return needs ? `"${s.replace(/"/g, '""')}"` : s;
 }
 
@@ -136,7 +132,9 @@ export function writeFilledLongCsv(matrix: RatingMatrix, layers: FilledLayers, o
   const eol = opts.lineEnding ?? '\r\n';
   const g = opts.formulaGuard ?? true;
   const bounds = layers.lower && layers.upper ? { lower: layers.lower, upper: layers.upper } : undefined;
-  const out: string[] = [['row', 'column', 'value', 'source', 'baseline', 'spread', ...(bounds ? ['lower', 'upper'] : [])].join(d)];
+  const out: string[] = [
+    ['row', 'column', 'value', 'source', 'baseline', 'spread', ...(bounds ? ['lower', 'upper'] : [])].join(d),
+  ];
   const nCols = matrix.colLabels.length;
   const colText = matrix.colLabels.map((c) => textField(c, d, g));
   for (let i = 0; i < matrix.rowLabels.length; i++) {
@@ -154,7 +152,12 @@ export function writeFilledLongCsv(matrix: RatingMatrix, layers: FilledLayers, o
           observed ? 'observed' : 'filled',
           formatNumber(layers.baseline ? layers.baseline[k] : undefined, opts),
           formatNumber(layers.spread ? layers.spread[k] : undefined, opts),
-          ...(bounds ? [formatNumber(observed ? undefined : bounds.lower[k], opts), formatNumber(observed ? undefined : bounds.upper[k], opts)] : []),
+          ...(bounds
+            ? [
+                formatNumber(observed ? undefined : bounds.lower[k], opts),
+                formatNumber(observed ? undefined : bounds.upper[k], opts),
+              ]
+            : []),
         ].join(d),
       );
     }

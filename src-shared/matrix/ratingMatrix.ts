@@ -25,24 +25,12 @@ export interface RatingMatrix {
   rowHeader?: string;
 }
 
-export function rowCount(m: RatingMatrix): number {
+function rowCount(m: RatingMatrix): number {
   return m.rowLabels.length;
 }
 
-export function colCount(m: RatingMatrix): number {
+function colCount(m: RatingMatrix): number {
   return m.colLabels.length;
-}
-
-export function isObserved(v: number): boolean {
-  return !Number.isNaN(v);
-}
-
-export function cellIndex(m: RatingMatrix, row: number, col: number): number {
-  return row * m.colLabels.length + col;
-}
-
-export function getCell(m: RatingMatrix, row: number, col: number): number {
-  return m.values[row * m.colLabels.length + col];
 }
 
 export function observedCount(m: RatingMatrix): number {
@@ -74,21 +62,6 @@ export function summarize(m: RatingMatrix): MatrixSummary {
     missing: total - observed,
     percentMissing: total === 0 ? 0 : (100 * (total - observed)) / total,
   };
-}
-
-/** Observed min/max, or undefined when nothing is observed. */
-export function observedRange(m: RatingMatrix): { min: number; max: number } | undefined {
-  let min = Infinity;
-  let max = -Infinity;
-  const v = m.values;
-  for (let i = 0; i < v.length; i++) {
-    const x = v[i];
-    if (x === x) {
-      if (x < min) min = x;
-      if (x > max) max = x;
-    }
-  }
-  return min <= max ? { min, max } : undefined;
 }
 
 /** Number of decimals needed to show values on this scale's step (0–6). */

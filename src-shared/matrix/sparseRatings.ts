@@ -37,7 +37,13 @@ export interface SparseMatrix {
 }
 
 /** Column-major side built from the row-major side (a counting sort: O(n + cols)). */
-function withColumns(rows: number, cols: number, rowPtr: Int32Array, rowCol: Int32Array, rowVal: Float64Array): SparseRatings {
+function withColumns(
+  rows: number,
+  cols: number,
+  rowPtr: Int32Array,
+  rowCol: Int32Array,
+  rowVal: Float64Array,
+): SparseRatings {
   const n = rowPtr[rows];
   const colPtr = new Int32Array(cols + 1);
   for (let p = 0; p < n; p++) colPtr[rowCol[p] + 1]++;
@@ -146,13 +152,6 @@ export function sparseSubset(s: SparseRatings, drop: Int32Array, dropValue: numb
   return withColumns(rows, s.cols, ptr, col, val);
 }
 
-/** Row index of each row-ordered entry (length n). */
-export function entryRows(s: SparseRatings): Int32Array {
-  const out = new Int32Array(s.n);
-  for (let i = 0; i < s.rows; i++) out.fill(i, s.rowPtr[i], s.rowPtr[i + 1]);
-  return out;
-}
-
 /** Dense row-major values (NaN = missing): only for display, export or the dense Gaussian family. */
 export function denseValues(s: SparseRatings): Float64Array {
   const out = new Float64Array(s.rows * s.cols).fill(NaN);
@@ -183,7 +182,12 @@ export function toSparseMatrix(m: RatingMatrix | SparseMatrix): SparseMatrix {
   if (isSparseMatrix(m)) return m;
   const rows = m.rowLabels.length;
   const cols = m.colLabels.length;
-  return { rowLabels: m.rowLabels, colLabels: m.colLabels, scale: m.scale, data: sparseFromDense(m.values, rows, cols) };
+  return {
+    rowLabels: m.rowLabels,
+    colLabels: m.colLabels,
+    scale: m.scale,
+    data: sparseFromDense(m.values, rows, cols),
+  };
 }
 
 /** A dense RatingMatrix of a sparse one (display, export, the Gaussian family). */

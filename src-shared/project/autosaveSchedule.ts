@@ -8,9 +8,9 @@
  */
 
 /** Autosave waits for a pause of this long after a change ... */
-export const AUTOSAVE_PAUSE_MS = 1500;
+const AUTOSAVE_PAUSE_MS = 1500;
 /** ... but never longer than this after the first unsaved change. */
-export const AUTOSAVE_MAX_MS = 4000;
+const AUTOSAVE_MAX_MS = 4000;
 
 /** The host's timer functions (src-shared has no runtime of its own): pass setTimeout and clearTimeout. */
 export interface Timers {

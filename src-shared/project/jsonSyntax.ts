@@ -50,7 +50,7 @@ function describeChar(text: string, at: number): string {
 }
 
 /** Called when a list or object closes; answer true to stop the scan there. */
-export type OnClose = (depth: number, path: () => (string | number)[], isList: boolean, count: number) => boolean;
+type OnClose = (depth: number, path: () => (string | number)[], isList: boolean, count: number) => boolean;
 
 export function findJsonSyntaxError(text: string): JsonSyntaxError | null {
   const r = scanJson(text);
@@ -61,7 +61,7 @@ export function findJsonSyntaxError(text: string): JsonSyntaxError | null {
  * Walks the text; answers the first syntax error, null for valid JSON, or 'stopped'
  * when `onClose` asked to stop (the rest is not looked at).
  */
-export function scanJson(text: string, onClose?: OnClose): JsonSyntaxError | null | 'stopped' {
+function scanJson(text: string, onClose?: OnClose): JsonSyntaxError | null | 'stopped' {
   const n = text.length;
   let i = 0;
   // Container stack: kind, and (for paths) the current key or the element count.
@@ -76,7 +76,11 @@ export function scanJson(text: string, onClose?: OnClose): JsonSyntaxError | nul
     return p;
   };
   const fail = (offset: number, reason: string): JsonSyntaxError => ({ offset, reason, endsEarly: offset >= n });
-  const early = (what: string): JsonSyntaxError => ({ offset: n, reason: `the text ends inside ${what}`, endsEarly: true });
+  const early = (what: string): JsonSyntaxError => ({
+    offset: n,
+    reason: `the text ends inside ${what}`,
+    endsEarly: true,
+  });
 
   const skipWs = () => {
     while (i < n && WS.has(text.charCodeAt(i))) i++;
@@ -96,18 +100,30 @@ export function scanJson(text: string, onClose?: OnClose): JsonSyntaxError | nul
         const e = text[i + 1];
         if (e === undefined) break;
         if (e === 'u') {
-          if (!/^[0-9a-fA-F]{4}$/.test(text.slice(i + 2, i + 6))) return fail(i, 'a \\u escape needs four hexadecimal digits');
+          if (!/^[0-9a-fA-F]{4}$/.test(text.slice(i + 2, i + 6)))
+            return fail(i, 'a \\u escape needs four hexadecimal digits');
           i += 6;
           continue;
         }
-        if (!'"\\/bfnrt'.includes(e)) return fail(i, `unknown escape \\${e.length === 1 && e.charCodeAt(0) >= 0x20 ? e : '?'} in a text value`);
+        if (!'"\\/bfnrt'.includes(e))
+          return fail(i, `unknown escape \\${e.length === 1 && e.charCodeAt(0) >= 0x20 ? e : '?'} in a text value`);
         i += 2;
         continue;
       }
-      if (c < 0x20) return fail(i, c === 0x0a || c === 0x0d ? 'a line break inside a text value (a quote is missing?)' : `${describeChar(text, i)} inside a text value`);
+      if (c < 0x20)
+        return fail(
+          i,
+          c === 0x0a || c === 0x0d
+            ? 'a line break inside a text value (a quote is missing?)'
+            : `${describeChar(text, i)} inside a text value`,
+        );
       i++;
     }
-    return { ...early('a text value'), offset: n, reason: `the text ends inside a text value that starts at character ${start + 1}` };
+    return {
+      ...early('a text value'),
+      offset: n,
+      reason: `the text ends inside a text value that starts at character ${start + 1}`,
+    };
   };
 
   const isDigit = (k: number) => {
@@ -122,16 +138,25 @@ export function scanJson(text: string, onClose?: OnClose): JsonSyntaxError | nul
     if (text[j] === '-') j++;
     if (text[j] === '0') j++;
     else if (isDigit(j)) while (isDigit(j)) j++;
-    else return j >= n ? early('a number') : fail(j, `${JSON.stringify(word)} is not a number (no digit after the minus sign)`);
+    else
+      return j >= n
+        ? early('a number')
+        : fail(j, `${JSON.stringify(word)} is not a number (no digit after the minus sign)`);
     if (text[j] === '.') {
       j++;
-      if (!isDigit(j)) return j >= n ? early('a number') : fail(j, `${JSON.stringify(word)} is not a number (no digit after the decimal point)`);
+      if (!isDigit(j))
+        return j >= n
+          ? early('a number')
+          : fail(j, `${JSON.stringify(word)} is not a number (no digit after the decimal point)`);
       while (isDigit(j)) j++;
     }
     if (text[j] === 'e' || text[j] === 'E') {
       j++;
       if (text[j] === '+' || text[j] === '-') j++;
-      if (!isDigit(j)) return j >= n ? early('a number') : fail(j, `${JSON.stringify(word)} is not a number (no digit in the exponent)`);
+      if (!isDigit(j))
+        return j >= n
+          ? early('a number')
+          : fail(j, `${JSON.stringify(word)} is not a number (no digit in the exponent)`);
       while (isDigit(j)) j++;
     }
     i = j;
@@ -157,7 +182,8 @@ export function scanJson(text: string, onClose?: OnClose): JsonSyntaxError | nul
       // As V8 does: the literal is read letter by letter and the first wrong letter is the place.
       for (let k = 1; k < lit.length; k++) {
         if (i + k >= n) return early('a value');
-        if (text[i + k] !== lit[k]) return fail(i + k, `unexpected ${JSON.stringify(tokenAt(text, i))} where a value should be`);
+        if (text[i + k] !== lit[k])
+          return fail(i + k, `unexpected ${JSON.stringify(tokenAt(text, i))} where a value should be`);
       }
       i += lit.length;
       return null;

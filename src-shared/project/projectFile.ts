@@ -45,7 +45,7 @@ function fromGrid(grid: (number | null)[][], rows: number, cols: number): Float6
 }
 
 /** The file object for a document (plain JSON data). */
-export function projectToFile(doc: ProjectDocument): ProjectFile {
+function projectToFile(doc: ProjectDocument): ProjectFile {
   const m = doc.matrix;
   const rows = m.rowLabels.length;
   const cols = m.colLabels.length;
@@ -171,8 +171,20 @@ function pathText(path: readonly PropertyKey[]): string {
  * not know): refused, so a misspelt or foreign key is never silently lost. `__proto__`,
  * which JSON.parse keeps as an ordinary key, is caught the same way.
  */
-function unknownKeys(input: unknown, output: unknown, path: (string | number)[] = [], found: (string | number)[][] = []): (string | number)[][] {
-  if (found.length >= 20 || input === null || typeof input !== 'object' || output === null || typeof output !== 'object') return found;
+function unknownKeys(
+  input: unknown,
+  output: unknown,
+  path: (string | number)[] = [],
+  found: (string | number)[][] = [],
+): (string | number)[][] {
+  if (
+    found.length >= 20 ||
+    input === null ||
+    typeof input !== 'object' ||
+    output === null ||
+    typeof output !== 'object'
+  )
+    return found;
   if (Array.isArray(input)) {
     if (!Array.isArray(output)) return found;
     for (let k = 0; k < input.length && found.length < 20; k++) {
@@ -183,7 +195,13 @@ function unknownKeys(input: unknown, output: unknown, path: (string | number)[] 
   }
   for (const key of Object.keys(input)) {
     if (!Object.prototype.hasOwnProperty.call(output, key)) found.push([...path, key]);
-    else unknownKeys((input as Record<string, unknown>)[key], (output as Record<string, unknown>)[key], [...path, key], found);
+    else
+      unknownKeys(
+        (input as Record<string, unknown>)[key],
+        (output as Record<string, unknown>)[key],
+        [...path, key],
+        found,
+      );
     if (found.length >= 20) break;
   }
   return found;
@@ -222,17 +240,29 @@ export function parseProject(input: string, fileName: string): ParseProjectResul
     const rec = data as Record<string, unknown>;
     if (rec.format !== PROJECT_FORMAT_TAG) {
       const p = locateJsonPath(text, rec.format === undefined ? [] : ['format']);
-      problems.add(p.line, p.column, `not a Rankfill project file (format tag ${rec.format === undefined ? 'missing' : JSON.stringify(rec.format)}; expected "${PROJECT_FORMAT_TAG}")`);
+      problems.add(
+        p.line,
+        p.column,
+        `not a Rankfill project file (format tag ${rec.format === undefined ? 'missing' : JSON.stringify(rec.format)}; expected "${PROJECT_FORMAT_TAG}")`,
+      );
       return { ok: false, problems: problems.list() };
     }
     const v = rec.version;
     const vp = locateJsonPath(text, ['version']);
     if (typeof v === 'number' && Number.isInteger(v) && v > PROJECT_FORMAT_VERSION) {
-      problems.add(vp.line, vp.column, `made by a newer Rankfill (format v${v}); this version reads up to v${PROJECT_FORMAT_VERSION}`);
+      problems.add(
+        vp.line,
+        vp.column,
+        `made by a newer Rankfill (format v${v}); this version reads up to v${PROJECT_FORMAT_VERSION}`,
+      );
       return { ok: false, problems: problems.list() };
     }
     if (typeof v !== 'number' || !Number.isInteger(v) || v < 1) {
-      problems.add(vp.line, vp.column, `unknown project format version ${JSON.stringify(v)}; expected a whole number from 1 to ${PROJECT_FORMAT_VERSION}`);
+      problems.add(
+        vp.line,
+        vp.column,
+        `unknown project format version ${JSON.stringify(v)}; expected a whole number from 1 to ${PROJECT_FORMAT_VERSION}`,
+      );
       return { ok: false, problems: problems.list() };
     }
     // Older versions are brought up to the current one first (projectMigration.ts).
@@ -248,7 +278,11 @@ export function parseProject(input: string, fileName: string): ParseProjectResul
     if (unknown.length > 0) {
       for (const path of unknown) {
         const p = locateJsonPath(text, path);
-        problems.add(p.line, p.column, `${pathText(path)}: unknown key ${JSON.stringify(String(path[path.length - 1]))} (not part of the project format)`);
+        problems.add(
+          p.line,
+          p.column,
+          `${pathText(path)}: unknown key ${JSON.stringify(String(path[path.length - 1]))} (not part of the project format)`,
+        );
       }
       return { ok: false, problems: problems.list() };
     }
@@ -260,7 +294,7 @@ export function parseProject(input: string, fileName: string): ParseProjectResul
 }
 
 /** The document for a validated file object. */
-export function fileToProject(f: ProjectFile): ProjectDocument {
+function fileToProject(f: ProjectFile): ProjectDocument {
   const rows = f.matrix.rowLabels.length;
   const cols = f.matrix.colLabels.length;
   const runs: SavedRun[] = f.runs.map((r) => ({

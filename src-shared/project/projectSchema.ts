@@ -40,22 +40,23 @@ const isoTime = z
   });
 
 const labelList = (what: string) =>
-  z
-    .array(z.string().min(1, `${what} label must not be empty`))
-    .superRefine((labels, ctx) => {
-      const seen = new Map<string, number>();
-      labels.forEach((l, i) => {
-        const first = seen.get(l);
-        if (first !== undefined) {
-          ctx.addIssue({ code: 'custom', path: [i], message: `duplicate ${what} label ${JSON.stringify(l)} (also at index ${first})` });
-        } else seen.set(l, i);
-      });
+  z.array(z.string().min(1, `${what} label must not be empty`)).superRefine((labels, ctx) => {
+    const seen = new Map<string, number>();
+    labels.forEach((l, i) => {
+      const first = seen.get(l);
+      if (first !== undefined) {
+        ctx.addIssue({
+          code: 'custom',
+          path: [i],
+          message: `duplicate ${what} label ${JSON.stringify(l)} (also at index ${first})`,
+        });
+      } else seen.set(l, i);
     });
+  });
 
-const gridOf = (rowsPath: string) =>
-  z.array(z.array(cell)).describe(rowsPath);
+const gridOf = (rowsPath: string) => z.array(z.array(cell)).describe(rowsPath);
 
-export const projectMatrixSchema = z
+const projectMatrixSchema = z
   .object({
     rowLabels: labelList('row'),
     colLabels: labelList('column'),
@@ -65,12 +66,20 @@ export const projectMatrixSchema = z
   })
   .superRefine((m, ctx) => {
     if (m.values.length !== m.rowLabels.length) {
-      ctx.addIssue({ code: 'custom', path: ['values'], message: `has ${m.values.length} rows but there are ${m.rowLabels.length} row labels` });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['values'],
+        message: `has ${m.values.length} rows but there are ${m.rowLabels.length} row labels`,
+      });
       return;
     }
     m.values.forEach((row, i) => {
       if (row.length !== m.colLabels.length) {
-        ctx.addIssue({ code: 'custom', path: ['values', i], message: `row ${i + 1} has ${row.length} values but there are ${m.colLabels.length} columns` });
+        ctx.addIssue({
+          code: 'custom',
+          path: ['values', i],
+          message: `row ${i + 1} has ${row.length} values but there are ${m.colLabels.length} columns`,
+        });
       }
     });
     // Observed values lie on the project's own scale (as the window enforces on entry).
@@ -83,13 +92,17 @@ export const projectMatrixSchema = z
         const x = row[j];
         if (x !== null && (x < min || x > max)) {
           outside++;
-          ctx.addIssue({ code: 'custom', path: ['values', i, j], message: `value ${x} is outside the project's scale ${min} to ${max}` });
+          ctx.addIssue({
+            code: 'custom',
+            path: ['values', i, j],
+            message: `value ${x} is outside the project's scale ${min} to ${max}`,
+          });
         }
       }
     }
   });
 
-export const savedRunSchema = z.object({
+const savedRunSchema = z.object({
   id: z.string().min(1).max(200),
   number: z.number().int().min(1).max(1_000_000),
   name: z.string().max(500),
@@ -118,7 +131,11 @@ export const projectFileSchema = z
         run.predictions.length !== p.matrix.rowLabels.length ||
         run.predictions.some((r) => r.length !== p.matrix.colLabels.length)
       ) {
-        ctx.addIssue({ code: 'custom', path: ['runs', k, 'predictions'], message: 'predictions do not match the matrix size' });
+        ctx.addIssue({
+          code: 'custom',
+          path: ['runs', k, 'predictions'],
+          message: 'predictions do not match the matrix size',
+        });
       }
     });
   });

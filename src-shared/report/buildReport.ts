@@ -26,11 +26,12 @@ import { REPORT_CSS } from './reportStyles';
 import { CENTERING_SHORT, describeSettings } from './settingsWords';
 
 export const REPORT_DATA_ID = 'rankfill-report-data';
-export const REPORT_FORMAT = 'rankfill-report';
-export const REPORT_FORMAT_VERSION = 1;
+const REPORT_FORMAT = 'rankfill-report';
+const REPORT_FORMAT_VERSION = 1;
 
 /** No request of any kind: styles only inline, images only as data: URLs (none are used). */
-export const REPORT_CSP = "default-src 'none'; style-src 'unsafe-inline'; img-src data:; base-uri 'none'; form-action 'none'";
+export const REPORT_CSP =
+  "default-src 'none'; style-src 'unsafe-inline'; img-src data:; base-uri 'none'; form-action 'none'";
 
 const num = (x: number | null | undefined): number => (x === null || x === undefined ? NaN : x);
 
@@ -66,20 +67,37 @@ function dataSection(input: ReportInput, p: MissingPattern, n: number): string {
   const thinList = (what: string, idx: number[], labels: string[]) =>
     idx.length === 0
       ? tag('p', {}, esc(`No ${what} has ${thinRule}.`))
-      : tag('p', { class: 'rf-thin', 'data-testid': `report-thin-${what}s` }, esc(`${count(idx.length)} ${what}${idx.length === 1 ? ' has' : 's have'} ${thinRule}: ${nameList(idx.map((i) => labels[i]))}.`));
+      : tag(
+          'p',
+          { class: 'rf-thin', 'data-testid': `report-thin-${what}s` },
+          esc(
+            `${count(idx.length)} ${what}${idx.length === 1 ? ' has' : 's have'} ${thinRule}: ${nameList(idx.map((i) => labels[i]))}.`,
+          ),
+        );
   return section(
     'data',
     `${n}. The data`,
     facts([
       ['Size', esc(`${count(p.rows)} rows × ${count(p.cols)} columns (${count(cells)} cells)`)],
-      ['Observed', esc(`${count(p.observed)} cells (${percent(cells ? p.observed / cells : NaN)}); ${count(cells - p.observed)} blank (${percent(cells ? (cells - p.observed) / cells : NaN)})`)],
+      [
+        'Observed',
+        esc(
+          `${count(p.observed)} cells (${percent(cells ? p.observed / cells : NaN)}); ${count(cells - p.observed)} blank (${percent(cells ? (cells - p.observed) / cells : NaN)})`,
+        ),
+      ],
       ['Rating scale', esc(scaleWords(m.scale))],
       ['Observed values', p.observed ? esc(`from ${lo} to ${hi}, mean ${fmt(sum / p.observed, 2)}`) : 'none'],
     ]),
     tag('h3', {}, 'Where the blanks are'),
     figure(patternMapSvg(p.map, p.rows, p.cols, 'report-map'), patternMapWords(p.map)),
-    figure(countChartSvg(p.rowCounts, m.rowLabels, 'row', p.cols, p.thinBelow, 'report-row-counts'), `Observed cells in each row (out of ${count(p.cols)} columns)${p.rows > 80 ? ': how many rows have how many' : ''}. Thin rows are drawn in red.`),
-    figure(countChartSvg(p.colCounts, m.colLabels, 'column', p.rows, p.thinBelow, 'report-col-counts'), `Observed cells in each column (out of ${count(p.rows)} rows)${p.cols > 80 ? ': how many columns have how many' : ''}. Thin columns are drawn in red.`),
+    figure(
+      countChartSvg(p.rowCounts, m.rowLabels, 'row', p.cols, p.thinBelow, 'report-row-counts'),
+      `Observed cells in each row (out of ${count(p.cols)} columns)${p.rows > 80 ? ': how many rows have how many' : ''}. Thin rows are drawn in red.`,
+    ),
+    figure(
+      countChartSvg(p.colCounts, m.colLabels, 'column', p.rows, p.thinBelow, 'report-col-counts'),
+      `Observed cells in each column (out of ${count(p.rows)} rows)${p.cols > 80 ? ': how many columns have how many' : ''}. Thin columns are drawn in red.`,
+    ),
     tag('h3', {}, 'Rows and columns too thin to fill reliably'),
     thinList('row', p.thinRows, m.rowLabels),
     thinList('column', p.thinCols, m.colLabels),
@@ -107,20 +125,38 @@ function evaluationBlock(input: ReportInput): string {
   const table = tag(
     'table',
     { 'data-testid': 'report-evaluation' },
-    tag('tr', {}, tag('th', {}, 'Model'), tag('th', { class: 'rf-num' }, 'RMSE (± sd over folds)'), tag('th', { class: 'rf-num' }, 'MAE (± sd)')),
+    tag(
+      'tr',
+      {},
+      tag('th', {}, 'Model'),
+      tag('th', { class: 'rf-num' }, 'RMSE (± sd over folds)'),
+      tag('th', { class: 'rf-num' }, 'MAE (± sd)'),
+    ),
     ...rows.map((r) =>
       tag(
         'tr',
         { class: r.isRun ? 'rf-mark' : undefined },
-        tag('td', {}, esc(r.words), tag('span', { class: 'rf-folds' }, esc(`RMSE of each fold: ${r.foldRmse.map((x) => fmt(x)).join(' · ')}`))),
-        tag('td', { class: 'rf-num' }, r.error ? esc(`failed: ${r.error}`) : esc(`${fmt(r.meanRmse)} ± ${fmt(r.sdRmse)}`)),
+        tag(
+          'td',
+          {},
+          esc(r.words),
+          tag('span', { class: 'rf-folds' }, esc(`RMSE of each fold: ${r.foldRmse.map((x) => fmt(x)).join(' · ')}`)),
+        ),
+        tag(
+          'td',
+          { class: 'rf-num' },
+          r.error ? esc(`failed: ${r.error}`) : esc(`${fmt(r.meanRmse)} ± ${fmt(r.sdRmse)}`),
+        ),
         tag('td', { class: 'rf-num' }, esc(`${fmt(r.meanMae)} ± ${fmt(r.sdMae)}`)),
       ),
     ),
   );
   const own = rows[0];
   const baselines = rows.slice(1).filter((r) => Number.isFinite(r.meanRmse));
-  const bestBase = baselines.reduce<(typeof rows)[number] | undefined>((a, r) => (!a || r.meanRmse < a.meanRmse ? r : a), undefined);
+  const bestBase = baselines.reduce<(typeof rows)[number] | undefined>(
+    (a, r) => (!a || r.meanRmse < a.meanRmse ? r : a),
+    undefined,
+  );
   let verdict = '';
   if (own && Number.isFinite(own.meanRmse) && bestBase) {
     const change = (bestBase.meanRmse - own.meanRmse) / bestBase.meanRmse;
@@ -129,12 +165,27 @@ function evaluationBlock(input: ReportInput): string {
         ? `This model’s typical error (RMSE ${fmt(own.meanRmse)}) is ${percent(change)} lower than the best of the baselines alone (${bestBase.words.toLowerCase()}, ${fmt(bestBase.meanRmse)}): that is what the model adds.`
         : `This model’s typical error (RMSE ${fmt(own.meanRmse)}) is not lower than the best of the baselines alone (${bestBase.words.toLowerCase()}, ${fmt(bestBase.meanRmse)}): on this data the model adds nothing over the baselines. Consider a smaller rank or run the tuning.`;
   }
-  const items = rows.map((r, i) => ({ label: i === 0 ? 'this model' : r.words.replace(/ alone$/, '').toLowerCase(), mean: r.meanRmse, sd: r.sdRmse, folds: r.foldRmse, highlight: r.isRun }));
+  const items = rows.map((r, i) => ({
+    label: i === 0 ? 'this model' : r.words.replace(/ alone$/, '').toLowerCase(),
+    mean: r.meanRmse,
+    sd: r.sdRmse,
+    folds: r.foldRmse,
+    highlight: r.isRun,
+  }));
   return (
-    tag('p', { class: 'rf-hint' }, esc(`Scored by ${e.k}-fold cross-validation (seed ${e.seed}): the observed ratings are dealt into ${e.k} folds; each fold is hidden in turn, the model is fitted on the rest and its estimates for the hidden ratings are compared with them. RMSE is the typical size of an error in rating units, MAE the average absolute error; lower is better. Every row below was scored on the same folds.`)) +
+    tag(
+      'p',
+      { class: 'rf-hint' },
+      esc(
+        `Scored by ${e.k}-fold cross-validation (seed ${e.seed}): the observed ratings are dealt into ${e.k} folds; each fold is hidden in turn, the model is fitted on the rest and its estimates for the hidden ratings are compared with them. RMSE is the typical size of an error in rating units, MAE the average absolute error; lower is better. Every row below was scored on the same folds.`,
+      ),
+    ) +
     table +
     (verdict ? tag('p', { 'data-testid': 'report-verdict' }, esc(verdict)) : '') +
-    figure(errorBarSvg(items, 'RMSE (held-out cells)', 'this model', 'report-evaluation-chart'), 'Dot: mean RMSE over the folds; whisker: ± one standard deviation; small circles: each fold.')
+    figure(
+      errorBarSvg(items, 'RMSE (held-out cells)', 'this model', 'report-evaluation-chart'),
+      'Dot: mean RMSE over the folds; whisker: ± one standard deviation; small circles: each fold.',
+    )
   );
 }
 
@@ -145,13 +196,29 @@ function centeringBlock(c: TunePayload): string {
   const table = tag(
     'table',
     { 'data-testid': 'report-centering' },
-    tag('tr', {}, tag('th', {}, 'Centering'), tag('th', { class: 'rf-num' }, 'RMSE (± sd)'), tag('th', { class: 'rf-num' }, 'MAE')),
+    tag(
+      'tr',
+      {},
+      tag('th', {}, 'Centering'),
+      tag('th', { class: 'rf-num' }, 'RMSE (± sd)'),
+      tag('th', { class: 'rf-num' }, 'MAE'),
+    ),
     ...rows.map(({ r, best }) =>
       tag(
         'tr',
         { class: best ? 'rf-mark' : undefined },
-        tag('td', {}, esc(`${r.settings.model === 'lowrank' ? CENTERING_SHORT[r.settings.centering] : 'gaussian'}${best ? ' ★ best' : ''}`)),
-        tag('td', { class: 'rf-num' }, r.error ? esc(`failed: ${r.error}`) : esc(`${fmt(r.meanRmse)} ± ${fmt(r.sdRmse)}`)),
+        tag(
+          'td',
+          {},
+          esc(
+            `${r.settings.model === 'lowrank' ? CENTERING_SHORT[r.settings.centering] : 'gaussian'}${best ? ' ★ best' : ''}`,
+          ),
+        ),
+        tag(
+          'td',
+          { class: 'rf-num' },
+          r.error ? esc(`failed: ${r.error}`) : esc(`${fmt(r.meanRmse)} ± ${fmt(r.sdRmse)}`),
+        ),
         tag('td', { class: 'rf-num' }, esc(fmt(r.meanMae))),
       ),
     ),
@@ -165,9 +232,18 @@ function centeringBlock(c: TunePayload): string {
   }));
   return (
     tag('h3', {}, 'Centering comparison') +
-    tag('p', { class: 'rf-hint' }, esc(`The four ways of removing baselines, each at ${at}, scored on the same ${c.k} folds (seed ${c.seed}). When the whiskers overlap a lot, the data does not clearly prefer one of them.`)) +
+    tag(
+      'p',
+      { class: 'rf-hint' },
+      esc(
+        `The four ways of removing baselines, each at ${at}, scored on the same ${c.k} folds (seed ${c.seed}). When the whiskers overlap a lot, the data does not clearly prefer one of them.`,
+      ),
+    ) +
     table +
-    figure(errorBarSvg(items, 'RMSE (held-out cells)', 'best', 'report-centering-chart'), 'Dot: mean RMSE; whisker: ± one standard deviation over the folds; small circles: each fold; the best mode in red.')
+    figure(
+      errorBarSvg(items, 'RMSE (held-out cells)', 'best', 'report-centering-chart'),
+      'Dot: mean RMSE; whisker: ± one standard deviation over the folds; small circles: each fold; the best mode in red.',
+    )
   );
 }
 
@@ -175,29 +251,58 @@ function tuningBlock(t: TunePayload): string {
   const chart = rankChartSvg(t, 'report-tuning-chart');
   const best = t.table[t.bestIndex];
   const se = t.table[t.oneStandardErrorIndex];
-  const what = (r: TunePayload['table'][number] | undefined) => (r ? `${describeSettings(r.settings)} (RMSE ${fmt(r.meanRmse)})` : 'none');
+  const what = (r: TunePayload['table'][number] | undefined) =>
+    r ? `${describeSettings(r.settings)} (RMSE ${fmt(r.meanRmse)})` : 'none';
   const sorted = t.table.map((r, i) => ({ r, i })).sort((a, b) => num(a.r.meanRmse) - num(b.r.meanRmse) || a.i - b.i);
   const shown = sorted.slice(0, 30);
   const table = tag(
     'table',
     { class: 'rf-small', 'data-testid': 'report-tuning' },
-    tag('tr', {}, tag('th', {}, 'Setting'), tag('th', { class: 'rf-num' }, 'RMSE (± sd)'), tag('th', { class: 'rf-num' }, 'MAE')),
+    tag(
+      'tr',
+      {},
+      tag('th', {}, 'Setting'),
+      tag('th', { class: 'rf-num' }, 'RMSE (± sd)'),
+      tag('th', { class: 'rf-num' }, 'MAE'),
+    ),
     ...shown.map(({ r, i }) =>
       tag(
         'tr',
         { class: i === t.bestIndex || i === t.oneStandardErrorIndex ? 'rf-mark' : undefined },
-        tag('td', {}, esc(`${describeSettings(r.settings)}${i === t.bestIndex ? ' ★' : ''}${i === t.oneStandardErrorIndex ? ' ◇' : ''}`)),
-        tag('td', { class: 'rf-num' }, r.error ? esc(`failed: ${r.error}`) : esc(`${fmt(r.meanRmse)} ± ${fmt(r.sdRmse)}`)),
+        tag(
+          'td',
+          {},
+          esc(
+            `${describeSettings(r.settings)}${i === t.bestIndex ? ' ★' : ''}${i === t.oneStandardErrorIndex ? ' ◇' : ''}`,
+          ),
+        ),
+        tag(
+          'td',
+          { class: 'rf-num' },
+          r.error ? esc(`failed: ${r.error}`) : esc(`${fmt(r.meanRmse)} ± ${fmt(r.sdRmse)}`),
+        ),
         tag('td', { class: 'rf-num' }, esc(fmt(r.meanMae))),
       ),
     ),
   );
   return (
     tag('h3', {}, 'Tuning') +
-    tag('p', {}, esc(`${t.table.length} settings scored on the same ${t.k} folds (seed ${t.seed}). Lowest error: ${what(best)}. Simpler choice by the one-standard-error rule (any setting within one standard error of the best is about as good; the rule takes the smallest rank among them): ${what(se)}.`)) +
+    tag(
+      'p',
+      {},
+      esc(
+        `${t.table.length} settings scored on the same ${t.k} folds (seed ${t.seed}). Lowest error: ${what(best)}. Simpler choice by the one-standard-error rule (any setting within one standard error of the best is about as good; the rule takes the smallest rank among them): ${what(se)}.`,
+      ),
+    ) +
     figure(chart.svg, 'Mean RMSE against rank; colour tells the λ, the dash pattern the centering.', chart.legend) +
     table +
-    (sorted.length > shown.length ? tag('p', { class: 'rf-hint' }, esc(`The ${shown.length} settings with the lowest error are listed, of ${sorted.length}.`)) : '')
+    (sorted.length > shown.length
+      ? tag(
+          'p',
+          { class: 'rf-hint' },
+          esc(`The ${shown.length} settings with the lowest error are listed, of ${sorted.length}.`),
+        )
+      : '')
   );
 }
 
@@ -206,11 +311,24 @@ function intervalsSection(input: ReportInput, n: number): string {
   return section(
     'intervals',
     `${n}. How far each filled value may be off`,
-    tag('p', {}, esc(`Each filled value comes with ${articleFor(percent(iv.level, 0))} ${percent(iv.level, 0)} ${iv.method}: a range that should hold the true rating about ${percent(iv.level, 0)} of the time.`)),
+    tag(
+      'p',
+      {},
+      esc(
+        `Each filled value comes with ${articleFor(percent(iv.level, 0))} ${percent(iv.level, 0)} ${iv.method}: a range that should hold the true rating about ${percent(iv.level, 0)} of the time.`,
+      ),
+    ),
     facts([
       ['Method', esc(iv.method)],
       ['Nominal coverage', esc(percent(iv.level, 0))],
-      ['Checked coverage', esc(iv.coverage === null ? 'not checked' : `${percent(iv.coverage)} of held-out ratings fell inside their interval`)],
+      [
+        'Checked coverage',
+        esc(
+          iv.coverage === null
+            ? 'not checked'
+            : `${percent(iv.coverage)} of held-out ratings fell inside their interval`,
+        ),
+      ],
       ['Mean width', esc(iv.meanWidth === null ? 'n/a' : `${fmt(iv.meanWidth, 2)} rating units`)],
       ['Sources', iv.sources.map((x) => esc(x)).join('<br>')],
     ]),
@@ -224,7 +342,11 @@ function cautionSection(n: number): string {
     `${n}. Reading the filled values`,
     tag('p', { class: 'rf-caution', 'data-testid': 'report-caution' }, esc(MODEL_ESTIMATE_CAUTION)),
     tag('p', { class: 'rf-caution rf-people', 'data-testid': 'report-people-caution' }, esc(PEOPLE_JUDGED_CAUTION)),
-    tag('p', { class: 'rf-hint' }, 'In the exported files filled values are marked: the wide files say so in their corner cell, and the long layout marks every filled record as “filled”. Observed ratings are always written exactly as entered.'),
+    tag(
+      'p',
+      { class: 'rf-hint' },
+      'In the exported files filled values are marked: the wide files say so in their corner cell, and the long layout marks every filled record as “filled”. Observed ratings are always written exactly as entered.',
+    ),
   );
 }
 
@@ -236,7 +358,15 @@ function provenanceSection(input: ReportInput, n: number): string {
       : tag(
           'ul',
           { 'data-testid': 'report-exports' },
-          ...input.exports.map((x) => tag('li', {}, tag('code', {}, esc(x.path)), x.sidecarPath ? ` with settings file ${tag('code', {}, esc(x.sidecarPath))}` : '', esc(` (${x.writtenAt})`))),
+          ...input.exports.map((x) =>
+            tag(
+              'li',
+              {},
+              tag('code', {}, esc(x.path)),
+              x.sidecarPath ? ` with settings file ${tag('code', {}, esc(x.sidecarPath))}` : '',
+              esc(` (${x.writtenAt})`),
+            ),
+          ),
         );
   return section(
     'provenance',
@@ -247,10 +377,20 @@ function provenanceSection(input: ReportInput, n: number): string {
       ['Data', esc(input.title) + (input.source ? ` — ${tag('code', {}, esc(input.source))}` : '')],
       ['Input SHA-256', tag('code', { 'data-testid': 'report-sha256' }, esc(input.inputSha256))],
       ['Hash of', 'row and column labels, scale and values (the same hash as the export’s settings file)'],
-      ['Run', esc(`${input.run.label}: ${describeSettings(s)}${input.run.refitsAfterEdits ? `, refitted after ${input.run.refitsAfterEdits} edit${input.run.refitsAfterEdits === 1 ? '' : 's'}` : ''}`)],
+      [
+        'Run',
+        esc(
+          `${input.run.label}: ${describeSettings(s)}${input.run.refitsAfterEdits ? `, refitted after ${input.run.refitsAfterEdits} edit${input.run.refitsAfterEdits === 1 ? '' : 's'}` : ''}`,
+        ),
+      ],
       ...(input.choice ? ([['Settings chosen', esc(input.choice.reason)]] as [string, string][]) : []),
       ['Seed', tag('span', { 'data-testid': 'report-seed' }, esc(String(s.seed)))],
-      ['Fit', esc(`${input.run.iterations} ${s.model === 'gaussian' ? 'EM iterations' : 'sweeps'}, ${input.run.converged ? 'settled' : 'stopped at the limit'}; final ${s.model === 'gaussian' ? 'log-likelihood' : 'objective'} ${input.run.finalObjective === null ? 'n/a' : input.run.finalObjective.toPrecision(6)}`)],
+      [
+        'Fit',
+        esc(
+          `${input.run.iterations} ${s.model === 'gaussian' ? 'EM iterations' : 'sweeps'}, ${input.run.converged ? 'settled' : 'stopped at the limit'}; final ${s.model === 'gaussian' ? 'log-likelihood' : 'objective'} ${input.run.finalObjective === null ? 'n/a' : input.run.finalObjective.toPrecision(6)}`,
+        ),
+      ],
       ['Full settings', tag('code', {}, esc(JSON.stringify(s)))],
       ...(input.reportPath ? ([['This report', tag('code', {}, esc(input.reportPath))]] as [string, string][]) : []),
     ]),
@@ -260,7 +400,7 @@ function provenanceSection(input: ReportInput, n: number): string {
 }
 
 /** The report's machine-readable summary (kept in the page as a JSON data block). */
-export function reportData(input: ReportInput, paragraph: string, p: MissingPattern): unknown {
+function reportData(input: ReportInput, paragraph: string, p: MissingPattern): unknown {
   return {
     format: REPORT_FORMAT,
     version: REPORT_FORMAT_VERSION,
@@ -269,8 +409,19 @@ export function reportData(input: ReportInput, paragraph: string, p: MissingPatt
     title: input.title,
     source: input.source ?? null,
     input: { rows: p.rows, cols: p.cols, observed: p.observed, scale: input.matrix.scale, sha256: input.inputSha256 },
-    thin: { below: p.thinBelow, rows: p.thinRows.map((i) => input.matrix.rowLabels[i]), cols: p.thinCols.map((j) => input.matrix.colLabels[j]) },
-    run: { label: input.run.label, settings: input.run.settings, iterations: input.run.iterations, converged: input.run.converged, finalObjective: input.run.finalObjective, refitsAfterEdits: input.run.refitsAfterEdits },
+    thin: {
+      below: p.thinBelow,
+      rows: p.thinRows.map((i) => input.matrix.rowLabels[i]),
+      cols: p.thinCols.map((j) => input.matrix.colLabels[j]),
+    },
+    run: {
+      label: input.run.label,
+      settings: input.run.settings,
+      iterations: input.run.iterations,
+      converged: input.run.converged,
+      finalObjective: input.run.finalObjective,
+      refitsAfterEdits: input.run.refitsAfterEdits,
+    },
     evaluation: input.evaluation,
     centering: input.centering,
     tuning: input.tuning,
@@ -283,7 +434,12 @@ export function reportData(input: ReportInput, paragraph: string, p: MissingPatt
 
 /** JSON that is safe inside a <script type="application/json"> element. */
 function jsonBlock(value: unknown): string {
-  return JSON.stringify(value).replace(/</g, '\\u003c').replace(/>/g, '\\u003e').replace(/&/g, '\\u0026').replace(/\u2028/g, '\\u2028').replace(/\u2029/g, '\\u2029');
+  return JSON.stringify(value)
+    .replace(/</g, '\\u003c')
+    .replace(/>/g, '\\u003e')
+    .replace(/&/g, '\\u0026')
+    .replace(/\u2028/g, '\\u2028')
+    .replace(/\u2029/g, '\\u2029');
 }
 
 export function buildReport(input: ReportInput): string {
@@ -297,7 +453,9 @@ export function buildReport(input: ReportInput): string {
     evaluationBlock(input),
     input.centering ? centeringBlock(input.centering) : '',
     input.tuning ? tuningBlock(input.tuning) : '',
-    !input.centering && !input.tuning ? tag('p', { class: 'rf-hint' }, 'No centering comparison or tuning was run on this data for this report.') : '',
+    !input.centering && !input.tuning
+      ? tag('p', { class: 'rf-hint' }, 'No centering comparison or tuning was run on this data for this report.')
+      : '',
   );
   const intervals = input.intervals ? intervalsSection(input, ++n) : '';
   const caution = cautionSection(++n);
@@ -317,8 +475,16 @@ export function buildReport(input: ReportInput): string {
       {},
       tag('p', { class: 'rf-kicker' }, esc(`${input.app.name} study report`)),
       tag('h1', { 'data-testid': 'report-title' }, esc(input.title)),
-      tag('p', { class: 'rf-sub' }, esc(`${input.run.label}: ${describeSettings(input.run.settings)} · made ${input.createdAt}`)),
-      tag('p', { class: 'rf-banner' }, 'Filled values are estimates, not observations. See “Reading the filled values” below.'),
+      tag(
+        'p',
+        { class: 'rf-sub' },
+        esc(`${input.run.label}: ${describeSettings(input.run.settings)} · made ${input.createdAt}`),
+      ),
+      tag(
+        'p',
+        { class: 'rf-banner' },
+        'Filled values are estimates, not observations. See “Reading the filled values” below.',
+      ),
     ),
     data,
     methods.html,
@@ -326,7 +492,13 @@ export function buildReport(input: ReportInput): string {
     intervals,
     caution,
     provenance,
-    tag('footer', {}, esc(`Made with ${input.app.name} ${input.app.version}. This page is self-contained: it loads nothing from anywhere and prints to A4 or Letter.`)),
+    tag(
+      'footer',
+      {},
+      esc(
+        `Made with ${input.app.name} ${input.app.version}. This page is self-contained: it loads nothing from anywhere and prints to A4 or Letter.`,
+      ),
+    ),
   );
   const dataBlock = `<script type="application/json" id="${REPORT_DATA_ID}">${jsonBlock(reportData(input, methods.paragraph, p))}</script>`;
   return `<!doctype html>\n<html lang="en"><head>${head}</head><body>${body}${dataBlock}</body></html>\n`;

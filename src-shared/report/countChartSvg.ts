@@ -16,14 +16,37 @@ export function shortLabel(label: string): string {
   return label.length > 12 ? `${label.slice(0, 5)}…${label.slice(-6)}` : label;
 }
 
-export function countChartSvg(counts: Int32Array, labels: string[], what: 'row' | 'column', total: number, thinBelow: number, testid: string): string {
-  return counts.length <= MAX_BARS ? barsSvg(counts, labels, what, total, thinBelow, testid) : histogramSvg(counts, what, total, thinBelow, testid);
+export function countChartSvg(
+  counts: Int32Array,
+  labels: string[],
+  what: 'row' | 'column',
+  total: number,
+  thinBelow: number,
+  testid: string,
+): string {
+  return counts.length <= MAX_BARS
+    ? barsSvg(counts, labels, what, total, thinBelow, testid)
+    : histogramSvg(counts, what, total, thinBelow, testid);
 }
 
-function barsSvg(counts: Int32Array, labels: string[], what: string, total: number, thinBelow: number, testid: string): string {
+function barsSvg(
+  counts: Int32Array,
+  labels: string[],
+  what: string,
+  total: number,
+  thinBelow: number,
+  testid: string,
+): string {
   const n = counts.length;
   const labelled = n <= 40;
-  const f: Frame = { width: 640, height: labelled ? 170 : 130, left: 42, right: 8, top: 10, bottom: labelled ? 58 : 22 };
+  const f: Frame = {
+    width: 640,
+    height: labelled ? 170 : 130,
+    left: 42,
+    right: 8,
+    top: 10,
+    bottom: labelled ? 58 : 22,
+  };
   const y = yScale(f, 0, Math.max(1, total));
   const slot = plotWidth(f) / Math.max(1, n);
   const bw = Math.max(1, slot * 0.72);
@@ -34,18 +57,32 @@ function barsSvg(counts: Int32Array, labels: string[], what: string, total: numb
     const top = y(counts[i]);
     body += tag(
       'rect',
-      { x, y: top, width: bw, height: Math.max(0, f.top + plotHeight(f) - top), fill: thin ? pageColours.warn : chartColours.accent },
+      {
+        x,
+        y: top,
+        width: bw,
+        height: Math.max(0, f.top + plotHeight(f) - top),
+        fill: thin ? pageColours.warn : chartColours.accent,
+      },
       tag('title', {}, esc(`${labels[i]}: ${counts[i]} of ${total} observed${thin ? ' (thin)' : ''}`)),
     );
-    if (thin && counts[i] === 0) body += tag('rect', { x, y: f.top + plotHeight(f) - 2, width: bw, height: 2, fill: pageColours.warn });
+    if (thin && counts[i] === 0)
+      body += tag('rect', { x, y: f.top + plotHeight(f) - 2, width: bw, height: 2, fill: pageColours.warn });
     if (labelled) {
       const lx = x + bw / 2;
       const ly = f.top + plotHeight(f) + 8;
       const short = shortLabel(labels[i]);
-      body += text(lx, ly, short, { 'text-anchor': 'end', transform: `rotate(-55 ${lx.toFixed(2)} ${ly})`, 'font-size': 9.5 });
+      body += text(lx, ly, short, {
+        'text-anchor': 'end',
+        transform: `rotate(-55 ${lx.toFixed(2)} ${ly})`,
+        'font-size': 9.5,
+      });
     }
   }
-  if (!labelled) body += text(f.left + plotWidth(f) / 2, f.height - 6, `${count(n)} ${what}s, in order`, { 'text-anchor': 'middle' });
+  if (!labelled)
+    body += text(f.left + plotWidth(f) / 2, f.height - 6, `${count(n)} ${what}s, in order`, {
+      'text-anchor': 'middle',
+    });
   return svg(f, `Observed cells per ${what}, out of ${total}`, body, testid);
 }
 
@@ -67,12 +104,27 @@ function histogramSvg(counts: Int32Array, what: string, total: number, thinBelow
     const top = y(bins[b]);
     body += tag(
       'rect',
-      { x: f.left + b * slot + 0.5, y: top, width: Math.max(1, slot - 1), height: f.top + plotHeight(f) - top, fill: hi < thinBelow ? pageColours.warn : chartColours.accent },
-      tag('title', {}, esc(`${count(bins[b])} ${what}s with ${lo === hi ? lo : `${lo}–${hi}`} observed cells${hi < thinBelow ? ' (thin)' : ''}`)),
+      {
+        x: f.left + b * slot + 0.5,
+        y: top,
+        width: Math.max(1, slot - 1),
+        height: f.top + plotHeight(f) - top,
+        fill: hi < thinBelow ? pageColours.warn : chartColours.accent,
+      },
+      tag(
+        'title',
+        {},
+        esc(
+          `${count(bins[b])} ${what}s with ${lo === hi ? lo : `${lo}–${hi}`} observed cells${hi < thinBelow ? ' (thin)' : ''}`,
+        ),
+      ),
     );
   }
   const ticks = [0, Math.floor(bins.length / 2), bins.length - 1];
-  for (const b of [...new Set(ticks)]) body += text(f.left + (b + 0.5) * slot, f.top + plotHeight(f) + 13, String(b * width), { 'text-anchor': 'middle' });
-  body += text(f.left + plotWidth(f) / 2, f.height - 4, `observed cells per ${what} (of ${count(total)})`, { 'text-anchor': 'middle' });
+  for (const b of [...new Set(ticks)])
+    body += text(f.left + (b + 0.5) * slot, f.top + plotHeight(f) + 13, String(b * width), { 'text-anchor': 'middle' });
+  body += text(f.left + plotWidth(f) / 2, f.height - 4, `observed cells per ${what} (of ${count(total)})`, {
+    'text-anchor': 'middle',
+  });
   return svg(f, `How many ${what}s have how many observed cells`, body, testid);
 }

@@ -30,24 +30,50 @@ export function errorBarSvg(items: ErrorBarItem[], yLabel: string, highlightWord
   items.forEach((it, k) => {
     const cx = f.left + (k + 0.5) * slot;
     const ink = it.highlight ? chartColours.best : chartColours.accent;
-    body += text(cx, f.height - 10, it.label, { 'text-anchor': 'middle', fill: it.highlight ? chartColours.best : chartColours.ink });
+    body += text(cx, f.height - 10, it.label, {
+      'text-anchor': 'middle',
+      fill: it.highlight ? chartColours.best : chartColours.ink,
+    });
     if (!Number.isFinite(it.mean)) {
       body += text(cx, f.top + 20, 'failed', { 'text-anchor': 'middle' });
       return;
     }
     if (Number.isFinite(it.sd)) {
-      body += tag('line', { x1: cx, x2: cx, y1: y(it.mean - it.sd), y2: y(it.mean + it.sd), stroke: ink, 'stroke-width': 1.5 });
-      for (const yy of [it.mean - it.sd, it.mean + it.sd]) body += tag('line', { x1: cx - 6, x2: cx + 6, y1: y(yy), y2: y(yy), stroke: ink, 'stroke-width': 1.5 });
+      body += tag('line', {
+        x1: cx,
+        x2: cx,
+        y1: y(it.mean - it.sd),
+        y2: y(it.mean + it.sd),
+        stroke: ink,
+        'stroke-width': 1.5,
+      });
+      for (const yy of [it.mean - it.sd, it.mean + it.sd])
+        body += tag('line', { x1: cx - 6, x2: cx + 6, y1: y(yy), y2: y(yy), stroke: ink, 'stroke-width': 1.5 });
     }
     it.folds.forEach((v, t) => {
       if (!Number.isFinite(v)) return;
       const dx = 14 + (t % 2) * 5;
-      body += tag('circle', { cx: cx + dx, cy: y(v), r: 2.6, fill: 'none', stroke: chartColours.inkSoft, 'stroke-width': 1 });
+      body += tag('circle', {
+        cx: cx + dx,
+        cy: y(v),
+        r: 2.6,
+        fill: 'none',
+        stroke: chartColours.inkSoft,
+        'stroke-width': 1,
+      });
     });
-    body += tag('circle', { cx, cy: y(it.mean), r: 4, fill: ink }, tag('title', {}, esc(`${it.label}: mean ${fmt(it.mean)}, sd ${fmt(it.sd)}`)));
+    body += tag(
+      'circle',
+      { cx, cy: y(it.mean), r: 4, fill: ink },
+      tag('title', {}, esc(`${it.label}: mean ${fmt(it.mean)}, sd ${fmt(it.sd)}`)),
+    );
     if (it.highlight) {
       body += tag('circle', { cx, cy: y(it.mean), r: 8, fill: 'none', stroke: chartColours.best, 'stroke-width': 1.5 });
-      body += text(cx - 12, y(it.mean) - 8, highlightWord, { 'text-anchor': 'end', fill: chartColours.best, 'font-weight': 600 });
+      body += text(cx - 12, y(it.mean) - 8, highlightWord, {
+        'text-anchor': 'end',
+        fill: chartColours.best,
+        'font-weight': 600,
+      });
     }
   });
   const label = `${yLabel} per setting: ${items.map((i) => `${i.label} ${fmt(i.mean)}${i.highlight ? ` (${highlightWord})` : ''}`).join(', ')}`;

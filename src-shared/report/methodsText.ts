@@ -21,7 +21,7 @@ export const REFERENCES = {
   cv: 'Hastie, T., Tibshirani, R. & Friedman, J. (2009). The Elements of Statistical Learning (2nd ed.), §7.10 Cross-validation. Springer.',
 } as const;
 
-export type ReferenceKey = keyof typeof REFERENCES | 'intervals';
+type ReferenceKey = keyof typeof REFERENCES | 'intervals';
 
 export interface MethodsText {
   paragraph: string;
@@ -61,7 +61,13 @@ function baselineOnlyWords(s: LowRankSettings): string {
 }
 
 function sameLowRank(a: FitSettings, b: FitSettings): boolean {
-  return a.model === 'lowrank' && b.model === 'lowrank' && a.rank === b.rank && a.lambda === b.lambda && a.centering === b.centering;
+  return (
+    a.model === 'lowrank' &&
+    b.model === 'lowrank' &&
+    a.rank === b.rank &&
+    a.lambda === b.lambda &&
+    a.centering === b.centering
+  );
 }
 
 /** 0.000001 → "1e-6"; ordinary numbers as they are. */
@@ -69,7 +75,13 @@ export function smallNumber(x: number): string {
   return x !== 0 && Math.abs(x) < 1e-3 ? x.toExponential().replace(/\.?0+e/, 'e') : String(x);
 }
 
-function stopWords(iterations: number, converged: boolean, tolerance: number, maxIterations: number, unit: string): string {
+function stopWords(
+  iterations: number,
+  converged: boolean,
+  tolerance: number,
+  maxIterations: number,
+  unit: string,
+): string {
   return converged
     ? `it settled after ${iterations} ${unit}${iterations === 1 ? '' : 's'} (relative change below ${smallNumber(tolerance)})`
     : `it stopped at the limit of ${maxIterations} ${unit}s before the relative change fell below ${smallNumber(tolerance)}`;
@@ -84,7 +96,10 @@ function tuningSentence(run: FitSettings, t: TunePayload, cite: (k: ReferenceKey
   const best = t.table[t.bestIndex];
   const se = t.table[t.oneStandardErrorIndex];
   const rule = `the one-standard-error rule (${cite('cv')})`;
-  const what = (s: FitSettings) => (s.model === 'lowrank' ? `rank ${s.rank}, λ ${s.lambda}, centering ${CENTERING_SHORT[s.centering]}` : `the Gaussian model, shrinkage ${s.shrinkage}`);
+  const what = (s: FitSettings) =>
+    s.model === 'lowrank'
+      ? `rank ${s.rank}, λ ${s.lambda}, centering ${CENTERING_SHORT[s.centering]}`
+      : `the Gaussian model, shrinkage ${s.shrinkage}`;
   if (se && sameLowRank(run, se.settings)) {
     return `The setting was chosen by ${t.k}-fold cross-validation (seed ${t.seed}, the same folds for every setting) from ${grid}, taking the simplest setting whose error lies within one standard error of the lowest, by ${rule}.`;
   }
@@ -98,7 +113,11 @@ function centeringSentence(run: FitSettings, c: TunePayload): string {
   const best = c.table[c.bestIndex];
   const first = c.table[0]?.settings;
   if (!best || best.settings.model !== 'lowrank' || !first || first.model !== 'lowrank') return '';
-  const used = run.model === 'lowrank' && run.centering === best.settings.centering && run.rank === first.rank && run.lambda === first.lambda;
+  const used =
+    run.model === 'lowrank' &&
+    run.centering === best.settings.centering &&
+    run.rank === first.rank &&
+    run.lambda === first.lambda;
   return `The four centering modes (none, by row, by column, both) were compared at rank ${first.rank} and λ ${first.lambda} by ${c.k}-fold cross-validation; centering ${CENTERING_SHORT[best.settings.centering]} had the lowest error (RMSE ${fmt(best.meanRmse)})${used ? ' and is the one used here' : ''}.`;
 }
 
@@ -140,7 +159,9 @@ export function methodsText(input: ReportInput): MethodsText {
     );
   }
   if (s.clipToScale || s.snapToStep) {
-    parts.push(`Estimates were ${listWords([s.clipToScale ? 'clipped to the rating scale' : '', s.snapToStep ? 'rounded to its steps' : ''].filter(Boolean))}.`);
+    parts.push(
+      `Estimates were ${listWords([s.clipToScale ? 'clipped to the rating scale' : '', s.snapToStep ? 'rounded to its steps' : ''].filter(Boolean))}.`,
+    );
   }
   if (input.choice && input.choice.candidates !== 0) {
     parts.push(
@@ -158,7 +179,9 @@ export function methodsText(input: ReportInput): MethodsText {
     const base = e.table[1];
     parts.push(
       `Accuracy was estimated by ${e.k}-fold cross-validation over the observed cells (seed ${e.seed}; ${cite('cv')}): each fold of ratings was hidden in turn, the model refitted on the rest and scored on the hidden ratings, giving a root mean squared error (RMSE) of ${fmt(own.meanRmse)} (standard deviation ${fmt(own.sdRmse)} across folds) and a mean absolute error (MAE) of ${fmt(own.meanMae)}` +
-        (base && base.meanRmse !== null ? `, against an RMSE of ${fmt(base.meanRmse)} for the ${BASELINE_MODELS[0].words.toLowerCase()} on the same folds.` : '.'),
+        (base && base.meanRmse !== null
+          ? `, against an RMSE of ${fmt(base.meanRmse)} for the ${BASELINE_MODELS[0].words.toLowerCase()} on the same folds.`
+          : '.'),
     );
   } else {
     parts.push('The accuracy of the estimates was not cross-validated for this report.');

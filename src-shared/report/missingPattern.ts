@@ -35,11 +35,16 @@ export interface MissingPattern {
   thinCols: number[];
 }
 
-export function thinThreshold(settings: FitSettings): number {
+function thinThreshold(settings: FitSettings): number {
   return settings.model === 'lowrank' ? Math.max(1, settings.rank) : 1;
 }
 
-export function missingPattern(m: RatingMatrix, settings: FitSettings, maxBlockRows = 90, maxBlockCols = 120): MissingPattern {
+export function missingPattern(
+  m: RatingMatrix,
+  settings: FitSettings,
+  maxBlockRows = 90,
+  maxBlockCols = 120,
+): MissingPattern {
   const rows = m.rowLabels.length;
   const cols = m.colLabels.length;
   const rowCounts = new Int32Array(rows);
@@ -75,5 +80,15 @@ export function missingPattern(m: RatingMatrix, settings: FitSettings, maxBlockR
   const thinCols: number[] = [];
   for (let i = 0; i < rows; i++) if (rowCounts[i] < thinBelow) thinRows.push(i);
   for (let j = 0; j < cols; j++) if (colCounts[j] < thinBelow) thinCols.push(j);
-  return { rows, cols, observed, rowCounts, colCounts, map: { blockRows, blockCols, rowsPerBlock, colsPerBlock, share }, thinBelow, thinRows, thinCols };
+  return {
+    rows,
+    cols,
+    observed,
+    rowCounts,
+    colCounts,
+    map: { blockRows, blockCols, rowsPerBlock, colsPerBlock, share },
+    thinBelow,
+    thinRows,
+    thinCols,
+  };
 }

@@ -16,13 +16,19 @@ function rgb(hex: string): number[] {
 }
 
 /** The fill of a block whose observed share rounds to level / LEVELS. */
-export function patternShade(level: number): string {
+function patternShade(level: number): string {
   if (level === 0) return pageColours.paper;
   // Mix the accent into paper: level LEVELS = full accent.
   const a = rgb(chartColours.accent);
   const p = rgb(pageColours.paper);
   const t = level / LEVELS;
-  return `#${a.map((c, k) => Math.round(p[k] + (c - p[k]) * t).toString(16).padStart(2, '0')).join('')}`;
+  return `#${a
+    .map((c, k) =>
+      Math.round(p[k] + (c - p[k]) * t)
+        .toString(16)
+        .padStart(2, '0'),
+    )
+    .join('')}`;
 }
 
 /** How the map reads, for its caption. */
@@ -44,14 +50,28 @@ export function patternMapSvg(map: PatternMap, rows: number, cols: number, testi
   const w = cell * map.blockCols;
   const h = cell * map.blockRows;
   const f: Frame = { width: Math.max(w + 12, 200), height: h + 30, left: 6, right: 6, top: 6, bottom: 24 };
-  let body = tag('rect', { x: f.left - 0.5, y: f.top - 0.5, width: w + 1, height: h + 1, fill: pageColours.paper, stroke: pageColours.rule });
+  let body = tag('rect', {
+    x: f.left - 0.5,
+    y: f.top - 0.5,
+    width: w + 1,
+    height: h + 1,
+    fill: pageColours.paper,
+    stroke: pageColours.rule,
+  });
   for (let bi = 0; bi < map.blockRows; bi++) {
     let bj = 0;
     while (bj < map.blockCols) {
       const level = levelOf(map.share[bi * map.blockCols + bj]);
       let end = bj + 1;
       while (end < map.blockCols && levelOf(map.share[bi * map.blockCols + end]) === level) end++;
-      if (level > 0) body += tag('rect', { x: f.left + bj * cell, y: f.top + bi * cell, width: (end - bj) * cell, height: cell, fill: patternShade(level) });
+      if (level > 0)
+        body += tag('rect', {
+          x: f.left + bj * cell,
+          y: f.top + bi * cell,
+          width: (end - bj) * cell,
+          height: cell,
+          fill: patternShade(level),
+        });
       bj = end;
     }
   }
@@ -60,7 +80,16 @@ export function patternMapSvg(map: PatternMap, rows: number, cols: number, testi
   const lx = f.left;
   const ly = f.top + h + 8;
   body += text(lx, ly + 9, 'blank');
-  for (let l = 0; l <= LEVELS; l++) body += tag('rect', { x: lx + 34 + l * 12, y: ly, width: 12, height: 10, fill: patternShade(l), stroke: pageColours.rule, 'stroke-width': 0.5 });
+  for (let l = 0; l <= LEVELS; l++)
+    body += tag('rect', {
+      x: lx + 34 + l * 12,
+      y: ly,
+      width: 12,
+      height: 10,
+      fill: patternShade(l),
+      stroke: pageColours.rule,
+      'stroke-width': 0.5,
+    });
   body += text(lx + 34 + (LEVELS + 1) * 12 + 5, ly + 9, 'observed');
   const label = `Map of observed (teal) and blank cells: ${rows} rows × ${cols} columns, ${blockWords}`;
   return svg(f, label, body, testid);

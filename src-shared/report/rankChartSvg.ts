@@ -22,7 +22,9 @@ interface Line {
 const num = (x: number | null | undefined): number => (x === null || x === undefined ? NaN : x);
 
 function lines(t: TunePayload): { ranks: number[]; lines: Line[] } {
-  const ranks = [...new Set(t.table.flatMap((r) => (r.settings.model === 'lowrank' ? [r.settings.rank] : [])))].sort((a, b) => a - b);
+  const ranks = [...new Set(t.table.flatMap((r) => (r.settings.model === 'lowrank' ? [r.settings.rank] : [])))].sort(
+    (a, b) => a - b,
+  );
   const lambdas: number[] = [];
   const centerings: Centering[] = [];
   const out = new Map<string, Line>();
@@ -61,7 +63,15 @@ export function rankChartSvg(t: TunePayload, testid: string): { svg: string; leg
   for (const r of ranks) body += text(x(r), f.height - 18, String(r), { 'text-anchor': 'middle' });
   body += text(f.left + plotWidth(f) / 2, f.height - 4, 'rank', { 'text-anchor': 'middle' });
   if (Number.isFinite(threshold)) {
-    body += tag('line', { x1: f.left, x2: f.width - f.right, y1: y(threshold), y2: y(threshold), stroke: chartColours.best, 'stroke-width': 1, 'stroke-dasharray': '5 4' });
+    body += tag('line', {
+      x1: f.left,
+      x2: f.width - f.right,
+      y1: y(threshold),
+      y2: y(threshold),
+      stroke: chartColours.best,
+      'stroke-width': 1,
+      'stroke-dasharray': '5 4',
+    });
   }
   for (const l of ls) {
     let d = '';
@@ -74,28 +84,84 @@ export function rankChartSvg(t: TunePayload, testid: string): { svg: string; leg
       d += `${pen ? 'L' : 'M'}${round(x(ranks[k]))} ${round(y(v))}`;
       pen = true;
     });
-    if (d) body += tag('path', { d, fill: 'none', stroke: l.colour, 'stroke-width': 1.8, 'stroke-dasharray': l.dash || undefined });
+    if (d)
+      body += tag('path', {
+        d,
+        fill: 'none',
+        stroke: l.colour,
+        'stroke-width': 1.8,
+        'stroke-dasharray': l.dash || undefined,
+      });
     l.values.forEach((v, k) => {
       if (Number.isFinite(v)) body += tag('circle', { cx: x(ranks[k]), cy: y(v), r: 2.4, fill: l.colour });
     });
   }
   const mark = (index: number) => {
     const r = t.table[index];
-    return r && r.settings.model === 'lowrank' && Number.isFinite(num(r.meanRmse)) ? { x: x(r.settings.rank), y: y(num(r.meanRmse)) } : null;
+    return r && r.settings.model === 'lowrank' && Number.isFinite(num(r.meanRmse))
+      ? { x: x(r.settings.rank), y: y(num(r.meanRmse)) }
+      : null;
   };
   const best = mark(t.bestIndex);
-  if (best) body += tag('circle', { cx: best.x, cy: best.y, r: 7, fill: 'none', stroke: chartColours.best, 'stroke-width': 2 });
+  if (best)
+    body += tag('circle', { cx: best.x, cy: best.y, r: 7, fill: 'none', stroke: chartColours.best, 'stroke-width': 2 });
   const se = mark(t.oneStandardErrorIndex);
-  if (se) body += tag('path', { d: `M${round(se.x)} ${round(se.y - 6)}L${round(se.x + 6)} ${round(se.y)}L${round(se.x)} ${round(se.y + 6)}L${round(se.x - 6)} ${round(se.y)}Z`, fill: chartColours.ink });
+  if (se)
+    body += tag('path', {
+      d: `M${round(se.x)} ${round(se.y - 6)}L${round(se.x + 6)} ${round(se.y)}L${round(se.x)} ${round(se.y + 6)}L${round(se.x - 6)} ${round(se.y)}Z`,
+      fill: chartColours.ink,
+    });
   const label = `Mean cross-validated RMSE against rank, ${ls.length} line${ls.length === 1 ? '' : 's'}; best and one-standard-error choice marked`;
   const several = new Set(ls.map((l) => l.centering)).size > 1;
   const swatch = (colour: string, dash: string) =>
-    tag('svg', { width: 26, height: 10, viewBox: '0 0 26 10', 'aria-hidden': 'true' }, tag('line', { x1: 1, x2: 25, y1: 5, y2: 5, stroke: colour, 'stroke-width': 2, 'stroke-dasharray': dash || undefined }));
-  const items = ls.map((l) => tag('span', { class: 'rf-legend-item' }, swatch(l.colour, l.dash), esc(`λ ${l.lambda}${several ? `, ${CENTERING_SHORT[l.centering]}` : ''}`)));
+    tag(
+      'svg',
+      { width: 26, height: 10, viewBox: '0 0 26 10', 'aria-hidden': 'true' },
+      tag('line', {
+        x1: 1,
+        x2: 25,
+        y1: 5,
+        y2: 5,
+        stroke: colour,
+        'stroke-width': 2,
+        'stroke-dasharray': dash || undefined,
+      }),
+    );
+  const items = ls.map((l) =>
+    tag(
+      'span',
+      { class: 'rf-legend-item' },
+      swatch(l.colour, l.dash),
+      esc(`λ ${l.lambda}${several ? `, ${CENTERING_SHORT[l.centering]}` : ''}`),
+    ),
+  );
   items.push(
-    tag('span', { class: 'rf-legend-item' }, tag('svg', { width: 14, height: 14, viewBox: '0 0 14 14', 'aria-hidden': 'true' }, tag('circle', { cx: 7, cy: 7, r: 5.5, fill: 'none', stroke: chartColours.best, 'stroke-width': 2 })), 'best'),
-    tag('span', { class: 'rf-legend-item' }, tag('svg', { width: 14, height: 14, viewBox: '0 0 14 14', 'aria-hidden': 'true' }, tag('path', { d: 'M7 1L13 7L7 13L1 7Z', fill: chartColours.ink })), 'one-SE choice'),
-    tag('span', { class: 'rf-legend-item' }, swatch(chartColours.best, '5 4'), esc(`one-SE threshold (${fmt(threshold)})`)),
+    tag(
+      'span',
+      { class: 'rf-legend-item' },
+      tag(
+        'svg',
+        { width: 14, height: 14, viewBox: '0 0 14 14', 'aria-hidden': 'true' },
+        tag('circle', { cx: 7, cy: 7, r: 5.5, fill: 'none', stroke: chartColours.best, 'stroke-width': 2 }),
+      ),
+      'best',
+    ),
+    tag(
+      'span',
+      { class: 'rf-legend-item' },
+      tag(
+        'svg',
+        { width: 14, height: 14, viewBox: '0 0 14 14', 'aria-hidden': 'true' },
+        tag('path', { d: 'M7 1L13 7L7 13L1 7Z', fill: chartColours.ink }),
+      ),
+      'one-SE choice',
+    ),
+    tag(
+      'span',
+      { class: 'rf-legend-item' },
+      swatch(chartColours.best, '5 4'),
+      esc(`one-SE threshold (${fmt(threshold)})`),
+    ),
   );
   return { svg: svg(f, label, body, testid), legend: tag('div', { class: 'rf-legend' }, ...items) };
 }

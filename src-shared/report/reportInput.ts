@@ -7,7 +7,7 @@ import type { TunePayload } from '../api';
 import type { FitSettings } from '../engine/types';
 import type { RatingMatrix } from '../matrix/ratingMatrix';
 
-export interface ReportRun {
+interface ReportRun {
   /** e.g. "Run 3" or "saved run run-2". */
   label: string;
   settings: FitSettings;
@@ -72,7 +72,13 @@ export interface ReportInput {
   tuning: TunePayload | null;
   intervals?: ReportIntervals | null;
   /** Set when the settings were chosen automatically (no model options given), as `fill` does. */
-  choice?: { reason: string; folds: number; candidates: number | null; meanRmse: number | null; baselineMeanRmse: number | null } | null;
+  choice?: {
+    reason: string;
+    folds: number;
+    candidates: number | null;
+    meanRmse: number | null;
+    baselineMeanRmse: number | null;
+  } | null;
   /** Exports written from this run, oldest first. */
   exports: ReportExport[];
   /** Where the report itself is written (optional). */

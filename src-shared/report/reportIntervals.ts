@@ -7,7 +7,7 @@ import type { IntervalsAtLevel } from '../engine/cellIntervals';
 import type { ReportIntervals } from './reportInput';
 
 /** The published sources of the interval method (see the comment at the top of engine/intervals.ts). */
-export const INTERVAL_SOURCES = [
+const INTERVAL_SOURCES = [
   'Vovk, V., Gammerman, A. & Shafer, G. (2005). Algorithmic Learning in a Random World. Springer.',
   'Lei, J., G’Sell, M., Rinaldo, A., Tibshirani, R. J. & Wasserman, L. (2018). Distribution-free predictive inference for regression. Journal of the American Statistical Association, 113(523), 1094–1111.',
   'Barber, R. F., Candès, E. J., Ramdas, A. & Tibshirani, R. J. (2021). Predictive inference with the jackknife+. The Annals of Statistics, 49(1), 486–507.',

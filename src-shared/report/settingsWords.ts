@@ -1,7 +1,7 @@
 /** Plain-words names for model settings: run history, tables, exports and the study report. */
 import type { Centering, FitSettings } from '../engine/types';
 
-export const CENTERING_WORDS: Record<Centering, string> = {
+const CENTERING_WORDS: Record<Centering, string> = {
   none: 'no centering',
   row: 'centred by row',
   column: 'centred by column',
@@ -16,6 +16,7 @@ export const CENTERING_SHORT: Record<Centering, string> = {
 };
 
 export function describeSettings(s: FitSettings): string {
-  if (s.model === 'gaussian') return `Gaussian model · shrinkage ${s.shrinkage}${s.transpose ? ' · variables are rows' : ''}`;
+  if (s.model === 'gaussian')
+    return `Gaussian model · shrinkage ${s.shrinkage}${s.transpose ? ' · variables are rows' : ''}`;
   return `rank ${s.rank} · λ ${s.lambda} · ${CENTERING_WORDS[s.centering]}`;
 }

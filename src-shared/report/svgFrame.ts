@@ -6,7 +6,7 @@
 import { esc, niceTicks, round, tag } from './html';
 import { chartColours } from './palette';
 
-export const SVG_FONT = '"IBM Plex Sans", "Segoe UI", Ubuntu, Cantarell, sans-serif';
+const SVG_FONT = '"IBM Plex Sans", "Segoe UI", Ubuntu, Cantarell, sans-serif';
 
 export interface Frame {
   width: number;
@@ -63,7 +63,14 @@ export function yAxis(f: Frame, lo: number, hi: number, digits: number, label: s
   let out = '';
   for (const t of niceTicks(lo, hi, n)) {
     if (t < lo - 1e-9 || t > hi + 1e-9) continue;
-    out += tag('line', { x1: f.left, x2: f.width - f.right, y1: y(t), y2: y(t), stroke: chartColours.grid, 'stroke-width': 1 });
+    out += tag('line', {
+      x1: f.left,
+      x2: f.width - f.right,
+      y1: y(t),
+      y2: y(t),
+      stroke: chartColours.grid,
+      'stroke-width': 1,
+    });
     out += text(f.left - 5, y(t) + 3.5, t.toFixed(digits), { 'text-anchor': 'end' });
   }
   const cy = f.top + plotHeight(f) / 2;

@@ -9,7 +9,12 @@ import { launchBrowser } from './support/browser';
 import { repoRoot, startHost, type RunningHost } from './support/hostProcess';
 
 type PageRun = { settings: { rank: number; lambda: number; centering: string } };
-type PageMatrix = { rowLabels: string[]; colLabels: string[]; values: (number | null)[]; scale: { min: number; max: number; step: number } };
+type PageMatrix = {
+  rowLabels: string[];
+  colLabels: string[];
+  values: (number | null)[];
+  scale: { min: number; max: number; step: number };
+};
 
 describe('a first Fill chooses its settings from the data', () => {
   let host: RunningHost;
@@ -17,7 +22,11 @@ describe('a first Fill chooses its settings from the data', () => {
   let page: Page;
   const tid = (id: string) => `[data-testid="${id}"]`;
   const runs = (): Promise<PageRun[]> =>
-    page.evaluate(() => (window as unknown as { rankfillApp: { runs: { runs: PageRun[] } } }).rankfillApp.runs.runs.map((r) => ({ settings: r.settings })));
+    page.evaluate(() =>
+      (window as unknown as { rankfillApp: { runs: { runs: PageRun[] } } }).rankfillApp.runs.runs.map((r) => ({
+        settings: r.settings,
+      })),
+    );
 
   beforeAll(async () => {
     host = await startHost([], { RANKFILL_CONFIG_DIR: mkdtempSync(join(tmpdir(), 'rankfill-config-')) });
@@ -37,17 +46,36 @@ describe('a first Fill chooses its settings from the data', () => {
     await page.click(tid('fill-button'));
     await expect.poll(async () => (await runs()).length, { timeout: 30_000 }).toBe(1);
     const note = (await page.textContent(tid('model-choice'))) ?? '';
-    expect(note).toMatch(/^Chosen from the data — rank \d+.*: lowest 3-fold error of \d+ settings; .+\. Change any setting to use your own\.$/);
+    expect(note).toMatch(
+      /^Chosen from the data — rank \d+.*: lowest 3-fold error of \d+ settings; .+\. Change any setting to use your own\.$/,
+    );
     const [run] = await runs();
     expect(await page.inputValue(tid('model-rank'))).toBe(String(run.settings.rank));
     expect(await page.inputValue(tid('model-centering'))).toBe(run.settings.centering);
     // The page's worker chose what the engine chooses in-process on the same matrix.
     const m = await page.evaluate(() => {
-      const cur = (window as unknown as { rankfillApp: { store: { current: { rowLabels: string[]; colLabels: string[]; values: Float64Array; scale: PageMatrix['scale'] } } } }).rankfillApp.store.current;
-      return { rowLabels: cur.rowLabels, colLabels: cur.colLabels, values: Array.from(cur.values, (x) => (Number.isNaN(x) ? null : x)), scale: cur.scale };
+      const cur = (
+        window as unknown as {
+          rankfillApp: {
+            store: {
+              current: { rowLabels: string[]; colLabels: string[]; values: Float64Array; scale: PageMatrix['scale'] };
+            };
+          };
+        }
+      ).rankfillApp.store.current;
+      return {
+        rowLabels: cur.rowLabels,
+        colLabels: cur.colLabels,
+        values: Array.from(cur.values, (x) => (Number.isNaN(x) ? null : x)),
+        scale: cur.scale,
+      };
     });
     const here = autoSettings({ ...m, values: Float64Array.from(m.values, (x) => (x === null ? NaN : x)) });
-    expect(run.settings).toMatchObject({ rank: here.settings.rank, lambda: here.settings.lambda, centering: here.settings.centering });
+    expect(run.settings).toMatchObject({
+      rank: here.settings.rank,
+      lambda: here.settings.lambda,
+      centering: here.settings.centering,
+    });
     expect(note).toContain(here.reason);
     await page.screenshot({ path: join(repoRoot, 'test-results', 'adaptive-fill.png') });
   });
@@ -55,8 +83,21 @@ describe('a first Fill chooses its settings from the data', () => {
   it('the Tuning tab suggests the data-derived ranks and λ values', async () => {
     await page.click(tid('tab-tuning'));
     const m = await page.evaluate(() => {
-      const cur = (window as unknown as { rankfillApp: { store: { current: { rowLabels: string[]; colLabels: string[]; values: Float64Array; scale: PageMatrix['scale'] } } } }).rankfillApp.store.current;
-      return { rowLabels: cur.rowLabels, colLabels: cur.colLabels, values: Array.from(cur.values, (x) => (Number.isNaN(x) ? null : x)), scale: cur.scale };
+      const cur = (
+        window as unknown as {
+          rankfillApp: {
+            store: {
+              current: { rowLabels: string[]; colLabels: string[]; values: Float64Array; scale: PageMatrix['scale'] };
+            };
+          };
+        }
+      ).rankfillApp.store.current;
+      return {
+        rowLabels: cur.rowLabels,
+        colLabels: cur.colLabels,
+        values: Array.from(cur.values, (x) => (Number.isNaN(x) ? null : x)),
+        scale: cur.scale,
+      };
     });
     const g = defaultGrid({ ...m, values: Float64Array.from(m.values, (x) => (x === null ? NaN : x)) });
     expect(await page.inputValue(tid('tuning-ranks'))).toBe(g.ranks.join(', '));
@@ -74,7 +115,9 @@ describe('a first Fill chooses its settings from the data', () => {
     expect((await runs())[1].settings.rank).toBe(1);
     // Another data set: its first Fill keeps the user's settings.
     const picker = page.locator(tid('sample-picker'));
-    const options = await picker.locator('option:not([disabled])').evaluateAll((os) => os.map((o) => (o as HTMLOptionElement).value));
+    const options = await picker
+      .locator('option:not([disabled])')
+      .evaluateAll((os) => os.map((o) => (o as HTMLOptionElement).value));
     await picker.selectOption(options[1]);
     await expect.poll(async () => (await runs()).length).toBe(0);
     await page.click(tid('fill-button'));
@@ -88,10 +131,18 @@ describe('a first Fill chooses its settings from the data', () => {
     await page.click(tid('run-evaluate-1'));
     const line = page.locator(tid('run-seeds-1'));
     await line.waitFor({ timeout: 30_000 });
-    const blanks = await page.evaluate(() =>
-      Array.from((window as unknown as { rankfillApp: { store: { current: { values: Float64Array } } } }).rankfillApp.store.current.values).filter((x) => Number.isNaN(x)).length,
+    const blanks = await page.evaluate(
+      () =>
+        Array.from(
+          (window as unknown as { rankfillApp: { store: { current: { values: Float64Array } } } }).rankfillApp.store
+            .current.values,
+        ).filter((x) => Number.isNaN(x)).length,
     );
-    expect(await line.textContent()).toMatch(new RegExp(`^(Seed check: with seed 2, \\d+ of ${blanks} filled cells move|Caution: the estimates depend on the start: with seed 2 instead of 1, \\d+ of ${blanks} filled cells)`));
+    expect(await line.textContent()).toMatch(
+      new RegExp(
+        `^(Seed check: with seed 2, \\d+ of ${blanks} filled cells move|Caution: the estimates depend on the start: with seed 2 instead of 1, \\d+ of ${blanks} filled cells)`,
+      ),
+    );
     await page.screenshot({ path: join(repoRoot, 'test-results', 'runs-seed-check.png') });
   });
 });

@@ -30,7 +30,13 @@ describe('commands and keyboard', () => {
   });
 
   const runWire = (command: string) =>
-    page.evaluate((c) => (window as unknown as { rankfillApp: { commands: { runWire(c: string): boolean } } }).rankfillApp.commands.runWire(c), command);
+    page.evaluate(
+      (c) =>
+        (
+          window as unknown as { rankfillApp: { commands: { runWire(c: string): boolean } } }
+        ).rankfillApp.commands.runWire(c),
+      command,
+    );
 
   it('F1 opens our help page on the workflow and the model; Escape closes it', async () => {
     await page.locator('.ag-row[row-index="0"] .ag-cell[col-id="c0"]').click();
@@ -57,9 +63,25 @@ describe('commands and keyboard', () => {
   it('Ctrl+Enter fills, as the menu item and the button do', async () => {
     await page.locator('.ag-row[row-index="0"] .ag-cell[col-id="c1"]').click();
     await page.keyboard.press('Control+Enter');
-    await expect.poll(() => page.evaluate(() => (window as unknown as { rankfillApp: { runs: { runs: unknown[] } } }).rankfillApp.runs.runs.length), { timeout: 30_000 }).toBe(1);
+    await expect
+      .poll(
+        () =>
+          page.evaluate(
+            () => (window as unknown as { rankfillApp: { runs: { runs: unknown[] } } }).rankfillApp.runs.runs.length,
+          ),
+        { timeout: 30_000 },
+      )
+      .toBe(1);
     expect(await runWire('model.fill')).toBe(true);
-    await expect.poll(() => page.evaluate(() => (window as unknown as { rankfillApp: { runs: { runs: unknown[] } } }).rankfillApp.runs.runs.length), { timeout: 30_000 }).toBe(2);
+    await expect
+      .poll(
+        () =>
+          page.evaluate(
+            () => (window as unknown as { rankfillApp: { runs: { runs: unknown[] } } }).rankfillApp.runs.runs.length,
+          ),
+        { timeout: 30_000 },
+      )
+      .toBe(2);
     expect(pageErrors).toEqual([]);
   });
 });
@@ -103,7 +125,18 @@ describe('keyboard reach and layout', () => {
       seen.push(await focused(page));
     }
     const at = (id: string) => seen.indexOf(id);
-    for (const id of ['sample-picker', 'import-button', 'export-button', 'transpose-button', 'open-project-button', 'save-as-button', 'grid', 'tab-model', 'model-family', 'fill-button'])
+    for (const id of [
+      'sample-picker',
+      'import-button',
+      'export-button',
+      'transpose-button',
+      'open-project-button',
+      'save-as-button',
+      'grid',
+      'tab-model',
+      'model-family',
+      'fill-button',
+    ])
       expect(seen, id).toContain(id);
     expect(at('sample-picker')).toBeLessThan(at('import-button'));
     expect(at('import-button')).toBeLessThan(at('export-button'));
@@ -161,7 +194,10 @@ describe('keyboard reach and layout', () => {
     await page.waitForSelector('.rf-filled', { timeout: 30_000 });
     await expect.poll(fullColumns).toBeGreaterThanOrEqual(8);
     await page.screenshot({ path: join(repoRoot, 'test-results', 'layout-1024x700.png') });
-    const width = () => page.evaluate(() => Math.round(document.querySelector('[data-testid=side-panel]')!.getBoundingClientRect().width));
+    const width = () =>
+      page.evaluate(() =>
+        Math.round(document.querySelector('[data-testid=side-panel]')!.getBoundingClientRect().width),
+      );
     const w0 = await width();
     await page.focus('[data-testid=side-grip]');
     await page.keyboard.press('ArrowLeft');

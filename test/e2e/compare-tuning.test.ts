@@ -51,7 +51,9 @@ describe('compare centering and tuning panels', () => {
     const folds = await page.locator(tid('centering-folds')).first().textContent();
     expect(folds!.match(/\d+\.\d+/g)).toHaveLength(5);
     await page.screenshot({ path: join(repoRoot, 'test-results', 'compare-centering.png') });
-    await page.locator(tid('side-panel')).screenshot({ path: join(repoRoot, 'test-results', 'compare-centering-panel.png') });
+    await page
+      .locator(tid('side-panel'))
+      .screenshot({ path: join(repoRoot, 'test-results', 'compare-centering-panel.png') });
   });
 
   it('"Use" puts a centering mode into the model form', async () => {
@@ -102,7 +104,9 @@ describe('compare centering and tuning panels', () => {
     await page.fill(tid('tuning-ranks'), Array.from({ length: 20 }, (_, i) => i).join(','));
     await page.fill(tid('tuning-lambdas'), '0.1, 0.3, 1, 3, 10, 30, 100, 300');
     await page.click(tid('tuning-run'));
-    await expect.poll(() => page.textContent(tid('tuning-progress-text')), { timeout: 15_000 }).toMatch(/\d+ of \d+ done/);
+    await expect
+      .poll(() => page.textContent(tid('tuning-progress-text')), { timeout: 15_000 })
+      .toMatch(/\d+ of \d+ done/);
     await page.click(tid('tuning-stop'));
     await expect.poll(() => page.textContent(tid('tuning-progress-text')), { timeout: 15_000 }).toContain('Stopped');
     expect(await page.isEnabled(tid('tuning-run'))).toBe(true);

@@ -125,7 +125,9 @@ describe('crash safety of saves through the browser host', () => {
       }
       const got = Number(parsed.project.notes.replace('version ', ''));
       const expectedValues = parseProject(versionText(got), 'x');
-      const same = expectedValues.ok && Array.from(expectedValues.project.matrix.values).every((x, k) => Object.is(x, parsed.project.matrix.values[k]));
+      const same =
+        expectedValues.ok &&
+        Array.from(expectedValues.project.matrix.values).every((x, k) => Object.is(x, parsed.project.matrix.values[k]));
       const allowed = got === onDisk || sent.has(got);
       // An acknowledged save is never lost: what is on disk is at least as new.
       if (!same || !allowed || got < acknowledged) {
@@ -133,7 +135,9 @@ describe('crash safety of saves through the browser host', () => {
         messages.push(`trial ${t}: version ${got} (old ${onDisk}, acknowledged ${acknowledged}, same values ${same})`);
       }
     }
-    console.log(`crash-safety: ${trials} trials, ${version} saves issued, ${killedMidLoop} kills during a running save loop, ${corrupt} corrupt files`);
+    console.log(
+      `crash-safety: ${trials} trials, ${version} saves issued, ${killedMidLoop} kills during a running save loop, ${corrupt} corrupt files`,
+    );
     expect(messages).toEqual([]);
     expect(corrupt).toBe(0);
     expect(trials).toBe(TRIALS);
@@ -172,7 +176,11 @@ describe('crash safety of saves through the browser host', () => {
       await expect.poll(() => page.textContent('.ag-header-cell[col-id="c0"]')).toContain('Recovered column');
       const edited = await page.evaluate(() => {
         const s = (window as unknown as PageWithApp).rankfillApp.store.current;
-        return { rowLabels: s.rowLabels, colLabels: s.colLabels, values: Array.from(s.values as Float64Array, (v: number) => (Number.isNaN(v) ? null : v)) };
+        return {
+          rowLabels: s.rowLabels,
+          colLabels: s.colLabels,
+          values: Array.from(s.values as Float64Array, (v: number) => (Number.isNaN(v) ? null : v)),
+        };
       });
       // Autosave writes within a few seconds of the last change.
       const recoveryDir = join(recoveryConfig, 'recovery');
@@ -198,7 +206,11 @@ describe('crash safety of saves through the browser host', () => {
       await expect.poll(() => page2.textContent('.ag-header-cell[col-id="c0"]')).toContain('Recovered column');
       const restored = await page2.evaluate(() => {
         const s = (window as unknown as PageWithApp).rankfillApp.store.current;
-        return { rowLabels: s.rowLabels, colLabels: s.colLabels, values: Array.from(s.values as Float64Array, (v: number) => (Number.isNaN(v) ? null : v)) };
+        return {
+          rowLabels: s.rowLabels,
+          colLabels: s.colLabels,
+          values: Array.from(s.values as Float64Array, (v: number) => (Number.isNaN(v) ? null : v)),
+        };
       });
       expect(restored).toEqual(edited);
       expect(restored.values[0]).toBe(3);

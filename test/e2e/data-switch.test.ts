@@ -53,8 +53,14 @@ describe('switching data sets', () => {
       const cells = Array.from(document.querySelectorAll<HTMLElement>('.ag-row .ag-cell')).filter(
         (c) => /^c\d+$/.test(c.getAttribute('col-id') ?? '') && !c.closest('.ag-row-pinned, .ag-floating-bottom'),
       );
-      const app = (window as unknown as { rankfillApp: { runs: { runs: unknown[] }; grid: { currentLayers: { overlay: unknown } } } }).rankfillApp;
-      const chart = document.querySelector('[data-testid="objective-chart"]') as HTMLElement & { dataset: DOMStringMap };
+      const app = (
+        window as unknown as {
+          rankfillApp: { runs: { runs: unknown[] }; grid: { currentLayers: { overlay: unknown } } };
+        }
+      ).rankfillApp;
+      const chart = document.querySelector('[data-testid="objective-chart"]') as HTMLElement & {
+        dataset: DOMStringMap;
+      };
       return {
         cells: cells.length,
         tinted: cells.filter((c) => c.style.backgroundColor !== '').length,
@@ -77,7 +83,12 @@ describe('switching data sets', () => {
     await expect.poll(async () => (await state()).runs).toBe(0);
     const s = await state();
     expect(s.cells).toBeGreaterThan(100);
-    expect({ tinted: s.tinted, filled: s.filled, diff: s.diff, overlay: s.overlay }).toEqual({ tinted: 0, filled: 0, diff: 0, overlay: false });
+    expect({ tinted: s.tinted, filled: s.filled, diff: s.diff, overlay: s.overlay }).toEqual({
+      tinted: 0,
+      filled: 0,
+      diff: 0,
+      overlay: false,
+    });
     await expect.poll(async () => (await state()).progressText).toBe('No fit yet.');
     expect((await state()).chartPoints).toBe(0);
     expect(await page.locator('[data-testid="run-list"] .rf-run').count()).toBe(0);
@@ -113,15 +124,27 @@ describe('switching data sets', () => {
   });
 
   it('Fill, then an imported file: none of the old run on the new cells', async () => {
-    const rows = Array.from({ length: 30 }, (_, i) => `r${i},${[1, 2, 3, 4, 5, 6, 7, 8].map((j) => ((i + j) % 3 === 0 ? '' : String(((i * j) % 5) + 1))).join(',')}`);
+    const rows = Array.from(
+      { length: 30 },
+      (_, i) =>
+        `r${i},${[1, 2, 3, 4, 5, 6, 7, 8].map((j) => ((i + j) % 3 === 0 ? '' : String(((i * j) % 5) + 1))).join(',')}`,
+    );
     const body = `id,${[1, 2, 3, 4, 5, 6, 7, 8].map((j) => `q${j}`).join(',')}\n${rows.join('\n')}\n`;
-    await page.setInputFiles('[data-testid=import-file]', { name: 'pilot.csv', mimeType: 'text/csv', buffer: Buffer.from(body) });
+    await page.setInputFiles('[data-testid=import-file]', {
+      name: 'pilot.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from(body),
+    });
     await page.waitForSelector('[data-testid=import-dialog]');
     await page.click('[data-testid=import-open]');
     await expect.poll(() => page.textContent('[data-testid="status-shape"]')).toBe('30 rows × 8 columns');
     await expect.poll(async () => (await state()).runs).toBe(0);
     const s = await state();
-    expect({ tinted: s.tinted, filled: s.filled, overlay: s.overlay }).toEqual({ tinted: 0, filled: 0, overlay: false });
+    expect({ tinted: s.tinted, filled: s.filled, overlay: s.overlay }).toEqual({
+      tinted: 0,
+      filled: 0,
+      overlay: false,
+    });
     expect(s.progressText).toBe('No fit yet.');
   });
 
@@ -146,16 +169,21 @@ describe('switching data sets', () => {
     await expect.poll(() => page.textContent('[data-testid="status-shape"]')).toBe('14 rows × 24 columns');
     // The live refit for the new layout arrives and is drawn; the notice never contradicts the grid.
     await expect.poll(async () => (await state()).filled, { timeout: 20_000 }).toBeGreaterThan(0);
-    const notice = (await page.locator('[data-testid=notice]').isVisible()) ? await page.textContent('[data-testid=notice]') : '';
+    const notice = (await page.locator('[data-testid=notice]').isVisible())
+      ? await page.textContent('[data-testid=notice]')
+      : '';
     expect(notice).not.toMatch(/Estimates hidden|Fill again/);
     const result = await page.evaluate(() => {
-      const app = (window as unknown as { rankfillApp: { runs: { shown?: { rows: number; cols: number } } } }).rankfillApp;
+      const app = (window as unknown as { rankfillApp: { runs: { shown?: { rows: number; cols: number } } } })
+        .rankfillApp;
       return { rows: app.runs.shown?.rows, cols: app.runs.shown?.cols };
     });
     expect(result).toEqual({ rows: 14, cols: 24 });
     // Filling again gives the same picture: estimates drawn, no notice saying they are hidden.
     await fillAndWait(2);
-    const after = (await page.locator('[data-testid=notice]').isVisible()) ? await page.textContent('[data-testid=notice]') : '';
+    const after = (await page.locator('[data-testid=notice]').isVisible())
+      ? await page.textContent('[data-testid=notice]')
+      : '';
     expect(after).not.toMatch(/Estimates hidden|Fill again/);
   });
 

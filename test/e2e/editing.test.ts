@@ -15,7 +15,9 @@ import { launchBrowser } from './support/browser';
 import { openProjectInFreshPage } from './support/projectPage';
 import { repoRoot, startHost, type RunningHost } from './support/hostProcess';
 
-const csv = readFileSync(join(repoRoot, 'samples', 'coffee-cupping-panel.csv'), 'utf8').trimEnd().split('\n');
+const csv = readFileSync(join(repoRoot, 'samples', 'coffee-cupping-panel.csv'), 'utf8')
+  .trimEnd()
+  .split('\n');
 const header = csv[0].split(',').slice(1);
 const rows = csv.slice(1).map((l) => l.split(','));
 const cellOf = (i: number, j: number) => rows[i][j + 1];
@@ -50,14 +52,18 @@ async function paste(page: Page, tsv: string) {
   await page.evaluate((t) => {
     const dt = new DataTransfer();
     dt.setData('text/plain', t);
-    (document.activeElement ?? document.body).dispatchEvent(new ClipboardEvent('paste', { clipboardData: dt, bubbles: true, cancelable: true }));
+    (document.activeElement ?? document.body).dispatchEvent(
+      new ClipboardEvent('paste', { clipboardData: dt, bubbles: true, cancelable: true }),
+    );
   }, tsv);
 }
 
 async function copy(page: Page): Promise<string> {
   return page.evaluate(() => {
     const dt = new DataTransfer();
-    (document.activeElement ?? document.body).dispatchEvent(new ClipboardEvent('copy', { clipboardData: dt, bubbles: true, cancelable: true }));
+    (document.activeElement ?? document.body).dispatchEvent(
+      new ClipboardEvent('copy', { clipboardData: dt, bubbles: true, cancelable: true }),
+    );
     return dt.getData('text/plain');
   });
 }
@@ -79,7 +85,9 @@ describe('editing and project files in the browser host', () => {
     await page.waitForSelector('body[data-ready="true"]', { timeout: 30_000 });
     // Keep the grid free of model estimates so that blank cells read blank.
     await page.evaluate(() => {
-      const box = [...document.querySelectorAll<HTMLInputElement>('input[type=checkbox]')].find((b) => /Refit after each edit/.test(b.parentElement?.textContent ?? ''));
+      const box = [...document.querySelectorAll<HTMLInputElement>('input[type=checkbox]')].find((b) =>
+        /Refit after each edit/.test(b.parentElement?.textContent ?? ''),
+      );
       if (box?.checked) box.click();
     });
   });
@@ -156,7 +164,9 @@ describe('editing and project files in the browser host', () => {
     await page.click('[data-testid=cmd-rename-column]');
     await page.fill('[data-testid=prompt-input]', header[0]);
     await page.click('[data-testid=dialog-confirm]');
-    await expect.poll(() => page.textContent('[data-testid=dialog-error]')).toContain(`already a column labelled “${header[0]}”`);
+    await expect
+      .poll(() => page.textContent('[data-testid=dialog-error]'))
+      .toContain(`already a column labelled “${header[0]}”`);
     await page.fill('[data-testid=prompt-input]', 'Aiko (second pass)');
     await page.click('[data-testid=dialog-confirm]');
     await expect.poll(() => page.textContent('.ag-header-cell[col-id="c2"]')).toContain('Aiko (second pass)');
@@ -164,9 +174,13 @@ describe('editing and project files in the browser host', () => {
 
   it('swaps rows and columns as one change, and Undo swaps back', async () => {
     await page.click('[data-testid=transpose-button]');
-    await expect.poll(() => page.textContent('[data-testid=status-shape]')).toBe(`${header.length} rows × ${rows.length} columns`);
+    await expect
+      .poll(() => page.textContent('[data-testid=status-shape]'))
+      .toBe(`${header.length} rows × ${rows.length} columns`);
     await page.keyboard.press('Control+z');
-    await expect.poll(() => page.textContent('[data-testid=status-shape]')).toBe(`${rows.length} rows × ${header.length} columns`);
+    await expect
+      .poll(() => page.textContent('[data-testid=status-shape]'))
+      .toBe(`${rows.length} rows × ${header.length} columns`);
   });
 
   it('keeps the project, then a fresh page reopens exactly what was on screen', async () => {
@@ -215,7 +229,11 @@ describe('editing and project files in the browser host', () => {
 
   it('previews an import with its problems as line:column: reason, and opens nothing when refused', async () => {
     const before = await page.textContent('[data-testid=status-shape]');
-    await page.setInputFiles('[data-testid=import-file]', { name: 'ragged.csv', mimeType: 'text/csv', buffer: Buffer.from('id,a,b\nr1,1,2\nr2,3\n') });
+    await page.setInputFiles('[data-testid=import-file]', {
+      name: 'ragged.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from('id,a,b\nr1,1,2\nr2,3\n'),
+    });
     await page.waitForSelector('[data-testid=import-dialog]');
     expect(await page.textContent('[data-testid=import-problems]')).toMatch(/3:\d+: /);
     expect(await page.locator('[data-testid=import-open]').count()).toBe(0);
@@ -225,7 +243,11 @@ describe('editing and project files in the browser host', () => {
 
   it('previews a semicolon file with decimal commas, then opens it', async () => {
     const body = 'who;q1;q2;q3\nann;3,5;4;\nbo;2;NA;4,5\n';
-    await page.setInputFiles('[data-testid=import-file]', { name: 'survey.csv', mimeType: 'text/csv', buffer: Buffer.from(body) });
+    await page.setInputFiles('[data-testid=import-file]', {
+      name: 'survey.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from(body),
+    });
     await page.waitForSelector('[data-testid=import-dialog]');
     const summary = (await page.textContent('[data-testid=import-summary]')) ?? '';
     expect(summary).toContain('2 rows × 3 columns');

@@ -12,7 +12,12 @@ import { repoRoot, startHost, type RunningHost } from './support/hostProcess';
 function readSample(file: string) {
   const rows = Papa.parse<string[]>(readFileSync(join(repoRoot, 'samples', file), 'utf8').trimEnd()).data;
   const values = rows.slice(1).map((r) => r.slice(1).map((c) => (c === '' ? null : Number(c))));
-  return { header: rows[0].slice(1), labels: rows.slice(1).map((r) => r[0]), values, blanks: values.flat().filter((v) => v === null).length };
+  return {
+    header: rows[0].slice(1),
+    labels: rows.slice(1).map((r) => r[0]),
+    values,
+    blanks: values.flat().filter((v) => v === null).length,
+  };
 }
 
 type Snapshot = { predictions: (number | null)[]; filledInGrid: string[] };
@@ -25,7 +30,10 @@ describe('fill, compare and export in the browser host', () => {
   const sample = readSample('coffee-cupping-panel.csv');
 
   beforeAll(async () => {
-    host = await startHost([], { RANKFILL_EXPORT_DIR: exportDir, RANKFILL_CONFIG_DIR: mkdtempSync(join(tmpdir(), 'rankfill-config-')) });
+    host = await startHost([], {
+      RANKFILL_EXPORT_DIR: exportDir,
+      RANKFILL_CONFIG_DIR: mkdtempSync(join(tmpdir(), 'rankfill-config-')),
+    });
     browser = await launchBrowser();
     // Wide enough that every column of the sample is rendered (column virtualization stays on).
     page = await browser.newPage({ viewport: { width: 2400, height: 1100 } });
@@ -40,11 +48,15 @@ describe('fill, compare and export in the browser host', () => {
 
   const snapshot = (): Promise<Snapshot> =>
     page.evaluate(() => {
-      const app = (window as unknown as { rankfillApp: { runs: { shown?: { result: { predictions: Float64Array } } } } }).rankfillApp;
+      const app = (
+        window as unknown as { rankfillApp: { runs: { shown?: { result: { predictions: Float64Array } } } } }
+      ).rankfillApp;
       const p = app.runs.shown?.result.predictions ?? new Float64Array(0);
       return {
         predictions: Array.from(p, (x) => (Number.isFinite(x) ? x : null)),
-        filledInGrid: Array.from(document.querySelectorAll('.ag-row .ag-cell.rf-filled'), (c) => (c.textContent ?? '').trim()),
+        filledInGrid: Array.from(document.querySelectorAll('.ag-row .ag-cell.rf-filled'), (c) =>
+          (c.textContent ?? '').trim(),
+        ),
       };
     });
 
@@ -58,8 +70,10 @@ describe('fill, compare and export in the browser host', () => {
     expect(first.filledInGrid.every((t) => /^\d+\.\d$/.test(t))).toBe(true);
     // The document still holds exactly the observed data.
     const observed = await page.evaluate(() =>
-      Array.from((window as unknown as { rankfillApp: { store: { current: { values: Float64Array } } } }).rankfillApp.store.current.values, (x) =>
-        Number.isNaN(x) ? null : x,
+      Array.from(
+        (window as unknown as { rankfillApp: { store: { current: { values: Float64Array } } } }).rankfillApp.store
+          .current.values,
+        (x) => (Number.isNaN(x) ? null : x),
       ),
     );
     expect(observed).toEqual(sample.values.flat());
@@ -67,7 +81,14 @@ describe('fill, compare and export in the browser host', () => {
     expect(await page.locator('.ag-row[row-index="0"] .ag-cell[col-id="rowCount"]').textContent()).toBe(
       String(sample.values[0].filter((v) => v !== null).length),
     );
-    await expect.poll(() => page.locator('.ag-floating-bottom .ag-cell[col-id="rowLabel"], .ag-row-pinned .ag-cell[col-id="rowLabel"]').first().textContent()).toBe('Column offset');
+    await expect
+      .poll(() =>
+        page
+          .locator('.ag-floating-bottom .ag-cell[col-id="rowLabel"], .ag-row-pinned .ag-cell[col-id="rowLabel"]')
+          .first()
+          .textContent(),
+      )
+      .toBe('Column offset');
     expect(await page.textContent('[data-testid="status-line"]')).toMatch(/global mean \d\.\d\d/);
     await page.screenshot({ path: join(repoRoot, 'test-results', 'fill-overlay.png') });
   });
@@ -75,9 +96,17 @@ describe('fill, compare and export in the browser host', () => {
   it('switching centering to none and refilling changes the estimates; the comparison shows the differences', async () => {
     await page.selectOption('[data-testid="model-centering"]', 'none');
     await page.click('[data-testid="fill-button"]');
-    await expect.poll(() => page.evaluate(() => (window as unknown as { rankfillApp: { runs: { runs: unknown[] } } }).rankfillApp.runs.runs.length)).toBe(2);
+    await expect
+      .poll(() =>
+        page.evaluate(
+          () => (window as unknown as { rankfillApp: { runs: { runs: unknown[] } } }).rankfillApp.runs.runs.length,
+        ),
+      )
+      .toBe(2);
     const second = await snapshot();
-    const changed = second.predictions.filter((p, c) => sample.values.flat()[c] === null && Math.abs((p ?? 0) - (first.predictions[c] ?? 0)) > 1e-6).length;
+    const changed = second.predictions.filter(
+      (p, c) => sample.values.flat()[c] === null && Math.abs((p ?? 0) - (first.predictions[c] ?? 0)) > 1e-6,
+    ).length;
     expect(changed).toBe(sample.blanks);
     await page.click('[data-testid="tab-runs"]');
     await page.selectOption('[data-testid="compare-a"]', '1');
@@ -85,11 +114,15 @@ describe('fill, compare and export in the browser host', () => {
     await page.click('[data-testid="compare-button"]');
     await expect.poll(() => page.locator('.ag-row .ag-cell.rf-diff').count()).toBe(sample.blanks);
     const moved = await page.textContent('[data-testid="compare-moved"]');
-    expect(moved).toMatch(new RegExp(`^\\d+ of ${sample.blanks} filled cells move by more than 1 \\(one scale step\\)`));
+    expect(moved).toMatch(
+      new RegExp(`^\\d+ of ${sample.blanks} filled cells move by more than 1 \\(one scale step\\)`),
+    );
     // One diff cell equals B − A computed here from the two runs' predictions.
     const blank = sample.values.flat().findIndex((v) => v === null);
     const cols = sample.header.length;
-    const diffText = await page.locator(`.ag-row[row-index="${Math.floor(blank / cols)}"] .ag-cell[col-id="c${blank % cols}"]`).textContent();
+    const diffText = await page
+      .locator(`.ag-row[row-index="${Math.floor(blank / cols)}"] .ag-cell[col-id="c${blank % cols}"]`)
+      .textContent();
     const d = (second.predictions[blank] ?? 0) - (first.predictions[blank] ?? 0);
     expect(Number(diffText)).toBeCloseTo(d, 1);
     await page.screenshot({ path: join(repoRoot, 'test-results', 'compare-runs.png') });
@@ -116,10 +149,12 @@ describe('fill, compare and export in the browser host', () => {
     await page.keyboard.type('9');
     await page.keyboard.press('Enter');
     await expect.poll(() => cell.textContent()).toBe('9');
-    await expect.poll(async () => {
-      const now = await snapshot();
-      return now.predictions.some((p, c) => Math.abs((p ?? 0) - (before.predictions[c] ?? 0)) > 1e-9);
-    }).toBe(true);
+    await expect
+      .poll(async () => {
+        const now = await snapshot();
+        return now.predictions.some((p, c) => Math.abs((p ?? 0) - (before.predictions[c] ?? 0)) > 1e-9);
+      })
+      .toBe(true);
     expect(await cell.getAttribute('class')).not.toContain('rf-filled');
     await page.keyboard.press('ControlOrMeta+z');
   });
@@ -136,7 +171,8 @@ describe('fill, compare and export in the browser host', () => {
     const rows = Papa.parse<string[]>(readFileSync(path, 'utf8').trimEnd()).data;
     expect(rows[0]).toEqual(['row', 'column', 'value', 'source', 'baseline', 'spread', 'lower', 'upper']);
     const doc = await page.evaluate(() => {
-      const m = (window as unknown as { rankfillApp: { store: { current: { values: Float64Array } } } }).rankfillApp.store.current;
+      const m = (window as unknown as { rankfillApp: { store: { current: { values: Float64Array } } } }).rankfillApp
+        .store.current;
       return Array.from(m.values, (x) => (Number.isNaN(x) ? null : x));
     });
     let observed = 0;
@@ -163,7 +199,11 @@ describe('fill, compare and export in the browser host', () => {
     expect(sidecar.caution).toContain('model estimates');
     expect(sidecar.model.settings.centering).toBe('none');
     expect(sidecar.input.sha256).toMatch(/^[0-9a-f]{64}$/);
-    expect(sidecar.intervals).toMatchObject({ level: 0.8, method: 'cross-validated normalized conformal', boundsInclusive: true });
+    expect(sidecar.intervals).toMatchObject({
+      level: 0.8,
+      method: 'cross-validated normalized conformal',
+      boundsInclusive: true,
+    });
     expect(sidecar.intervals.folds).toHaveLength(5);
     await page.screenshot({ path: join(repoRoot, 'test-results', 'export-dialog.png') });
     // Writing again to the same file asks first; keeping it leaves the file as it was.
@@ -192,11 +232,19 @@ describe('fill, compare and export in the browser host', () => {
 
     const fresh = await openProjectInFreshPage(browser, host.launchUrl, projectPath, 2400);
     await expect
-      .poll(() => fresh.evaluate(() => (window as unknown as { rankfillApp: { runs: { runs: unknown[] } } }).rankfillApp.runs.runs.length), { timeout: 30_000 })
+      .poll(
+        () =>
+          fresh.evaluate(
+            () => (window as unknown as { rankfillApp: { runs: { runs: unknown[] } } }).rankfillApp.runs.runs.length,
+          ),
+        { timeout: 30_000 },
+      )
       .toBe(2);
     expect(await fresh.inputValue('[data-testid="model-centering"]')).toBe('none');
     const after = await fresh.evaluate(() => {
-      const app = (window as unknown as { rankfillApp: { runs: { shown?: { result: { predictions: Float64Array } } } } }).rankfillApp;
+      const app = (
+        window as unknown as { rankfillApp: { runs: { shown?: { result: { predictions: Float64Array } } } } }
+      ).rankfillApp;
       return Array.from(app.runs.shown?.result.predictions ?? [], (x) => (Number.isFinite(x) ? x : null));
     });
     // Restored by refitting the saved settings (cold start); the saved run had been refitted
@@ -208,4 +256,3 @@ describe('fill, compare and export in the browser host', () => {
     await fresh.close();
   });
 });
-

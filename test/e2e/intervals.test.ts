@@ -26,7 +26,9 @@ describe('intervals in the workbench', () => {
 
   const firstBlank = () =>
     page.evaluate(() => {
-      const m = (window as unknown as { rankfillApp: { store: { current: { values: Float64Array; colLabels: string[] } } } }).rankfillApp.store.current;
+      const m = (
+        window as unknown as { rankfillApp: { store: { current: { values: Float64Array; colLabels: string[] } } } }
+      ).rankfillApp.store.current;
       const c = Array.from(m.values).findIndex((x) => Number.isNaN(x));
       return { row: Math.floor(c / m.colLabels.length), col: c % m.colLabels.length };
     });
@@ -36,7 +38,15 @@ describe('intervals in the workbench', () => {
     await page.waitForSelector('.ag-row .ag-cell.rf-filled');
     // The run's calibration arrives with its trust.
     await expect
-      .poll(() => page.evaluate(() => !!(window as unknown as { rankfillApp: { runs: { shown?: { trust?: { intervals?: unknown } } } } }).rankfillApp.runs.shown?.trust?.intervals), { timeout: 30_000 })
+      .poll(
+        () =>
+          page.evaluate(
+            () =>
+              !!(window as unknown as { rankfillApp: { runs: { shown?: { trust?: { intervals?: unknown } } } } })
+                .rankfillApp.runs.shown?.trust?.intervals,
+          ),
+        { timeout: 30_000 },
+      )
       .toBe(true);
     expect(await page.textContent('[data-testid="overlay-legend"]')).toContain('narrow interval');
     const { row, col } = await firstBlank();
@@ -49,7 +59,9 @@ describe('intervals in the workbench', () => {
     const [est, lo, hi] = m80!.slice(1).map(Number);
     expect(lo).toBeLessThanOrEqual(est);
     expect(est).toBeLessThanOrEqual(hi);
-    expect(await page.textContent('[data-testid="cell-interval-meaning"]')).toMatch(/on average over cells.*not as a promise for this cell/);
+    expect(await page.textContent('[data-testid="cell-interval-meaning"]')).toMatch(
+      /on average over cells.*not as a promise for this cell/,
+    );
     await page.screenshot({ path: join(repoRoot, 'test-results', 'intervals-cell-tab.png') });
     // A higher level gives a range at least as wide (the quantile grows with the level).
     await page.click('[data-testid="tab-model"]');
@@ -61,7 +73,11 @@ describe('intervals in the workbench', () => {
     expect(Number(m95[2]) - Number(m95[1])).toBeGreaterThanOrEqual(hi - lo);
     // The grid's tint strength follows the interval width: the widest blank cell has the deepest tint.
     const tints = await page.evaluate(() => {
-      const app = (window as unknown as { rankfillApp: { grid: { currentLayers: { overlay: { width?: Float64Array; maxWidth?: number } | null } } } }).rankfillApp;
+      const app = (
+        window as unknown as {
+          rankfillApp: { grid: { currentLayers: { overlay: { width?: Float64Array; maxWidth?: number } | null } } };
+        }
+      ).rankfillApp;
       const o = app.grid.currentLayers.overlay;
       return { hasWidth: !!o?.width, maxWidth: o?.maxWidth ?? 0 };
     });

@@ -49,6 +49,8 @@ describe('launch without the token on a command line', () => {
     second.on('console', (m) => errors.push(m.text()));
     await second.goto(argv[1]);
     await second.waitForTimeout(1500);
-    expect(await second.textContent('[data-testid="status-shape"]').catch(() => null)).not.toMatch(/\d+ rows × \d+ columns/);
+    expect(await second.textContent('[data-testid="status-shape"]').catch(() => null)).not.toMatch(
+      /\d+ rows × \d+ columns/,
+    );
   }, 60_000);
 });

@@ -46,7 +46,10 @@ describe('bad inputs through the browser host', () => {
     for (const name of files) {
       const reply = name.endsWith('.rankfill')
         ? await call(host, 'project.open', { path: join(badDir, name) })
-        : await call(host, 'document.previewImport', { fileName: name, text: readFileSync(join(badDir, name), 'utf8') });
+        : await call(host, 'document.previewImport', {
+            fileName: name,
+            text: readFileSync(join(badDir, name), 'utf8'),
+          });
       if (!reply.ok) {
         crashes++;
         rows.push(`${name}: API error ${reply.error?.code}: ${reply.error?.message}`);
@@ -76,7 +79,12 @@ describe('bad inputs through the browser host', () => {
     const snapshot = () =>
       page.evaluate(() => {
         const s = (window as unknown as PageWithApp).rankfillApp.store;
-        return JSON.stringify({ t: s.title, r: s.current.rowLabels, c: s.current.colLabels, v: Array.from(s.current.values as Float64Array, (x: number) => (Number.isNaN(x) ? null : x)) });
+        return JSON.stringify({
+          t: s.title,
+          r: s.current.rowLabels,
+          c: s.current.colLabels,
+          v: Array.from(s.current.values as Float64Array, (x: number) => (Number.isNaN(x) ? null : x)),
+        });
       });
     const before = await snapshot();
     await page.setInputFiles('[data-testid=import-file]', join(badDir, 'unbalanced-quote.csv'));
@@ -89,7 +97,9 @@ describe('bad inputs through the browser host', () => {
     await page.waitForSelector('[data-testid=path-dialog]');
     await page.fill('[data-testid=prompt-input]', join(badDir, 'future-version.rankfill'));
     await page.click('[data-testid=dialog-confirm]');
-    await expect.poll(() => page.textContent('[data-testid=notice]')).toContain('was not opened (the open project is unchanged)');
+    await expect
+      .poll(() => page.textContent('[data-testid=notice]'))
+      .toContain('was not opened (the open project is unchanged)');
     expect(await page.textContent('[data-testid=notice]')).toMatch(/future-version\.rankfill:\d+:\d+: /);
     expect(await snapshot()).toBe(before);
   });

@@ -24,7 +24,12 @@ interface Opened {
   blocked: string[];
   consoleErrors: string[];
   methods: string;
-  data: { run: { settings: FitSettings }; evaluation: { k: number; seed: number; table: unknown[] }; centering: unknown; exports: { path: string }[] };
+  data: {
+    run: { settings: FitSettings };
+    evaluation: { k: number; seed: number; table: unknown[] };
+    centering: unknown;
+    exports: { path: string }[];
+  };
   page: Page;
 }
 
@@ -61,7 +66,12 @@ function expectMethodsMatch(methods: string, s: FitSettings, folds: number): voi
   if (s.model === 'lowrank') {
     expect(methods).toContain(`rank-${s.rank} factorization`);
     expect(methods).toContain(`(λ = ${s.lambda}`);
-    const centering = { none: 'without removing any baseline', row: 'after removing each row’s mean', column: 'after removing each column’s mean', both: 'after removing row and column baselines' }[s.centering];
+    const centering = {
+      none: 'without removing any baseline',
+      row: 'after removing each row’s mean',
+      column: 'after removing each column’s mean',
+      both: 'after removing row and column baselines',
+    }[s.centering];
     expect(methods).toContain(centering);
     expect(methods).toContain('alternating least squares (ALS');
   } else {
@@ -97,7 +107,8 @@ describe('study report', () => {
   beforeAll(async () => {
     mkdirSync(results, { recursive: true });
     // bin/rankfill.js runs the built CLI bundle: build it when a focused run comes before any build.
-    if (!existsSync(join(repoRoot, 'out/cli/rankfill.js'))) spawnSync('npm', ['run', 'build:cli'], { cwd: repoRoot, encoding: 'utf8' });
+    if (!existsSync(join(repoRoot, 'out/cli/rankfill.js')))
+      spawnSync('npm', ['run', 'build:cli'], { cwd: repoRoot, encoding: 'utf8' });
     host = await startHost([], { RANKFILL_EXPORT_DIR: exportDir });
     browser = await launchBrowser();
     page = await browser.newPage({ viewport: { width: 1500, height: 950 } });
@@ -132,7 +143,9 @@ describe('study report', () => {
     expect(reportPath.endsWith('report.html')).toBe(true);
     await page.screenshot({ path: join(results, 'report-dialog.png') });
     await page.click('[data-testid="report-write"]');
-    await expect.poll(() => page.textContent('[data-testid="report-status"]'), { timeout: 30_000 }).toContain('Written:');
+    await expect
+      .poll(() => page.textContent('[data-testid="report-status"]'), { timeout: 30_000 })
+      .toContain('Written:');
     expect(existsSync(reportPath)).toBe(true);
     // A second write to the same file asks first; declining leaves it as it was.
     const before = readFileSync(reportPath, 'utf8');
@@ -143,7 +156,11 @@ describe('study report', () => {
     expect(readFileSync(reportPath, 'utf8')).toBe(before);
     await page.click('[data-testid="report-close"]');
 
-    const settings = await page.evaluate(() => (window as unknown as { rankfillApp: { runs: { shown: { settings: unknown } } } }).rankfillApp.runs.shown.settings) as FitSettings;
+    const settings = (await page.evaluate(
+      () =>
+        (window as unknown as { rankfillApp: { runs: { shown: { settings: unknown } } } }).rankfillApp.runs.shown
+          .settings,
+    )) as FitSettings;
     const opened = await openOffline(browser, reportPath);
     try {
       expect(opened.blocked).toEqual([]);
@@ -156,11 +173,21 @@ describe('study report', () => {
       expect(opened.data.exports.map((x) => x.path)).toEqual([exportPath]);
       expect(await opened.page.textContent('[data-testid="report-exports"]')).toContain(exportPath);
       expect(await opened.page.locator('[data-testid="report-centering-chart"]').count()).toBe(1);
-      expect(await opened.page.textContent('[data-testid="report-caution"]')).toContain('Filled values are model estimates');
+      expect(await opened.page.textContent('[data-testid="report-caution"]')).toContain(
+        'Filled values are model estimates',
+      );
       // When the run's trust carries an interval calibration, the report has the intervals section at the page's level.
-      const hasIntervals = await page.evaluate(() => Boolean((window as unknown as { rankfillApp: { runs: { shown: { trust?: { intervals?: unknown } } } } }).rankfillApp.runs.shown.trust?.intervals));
+      const hasIntervals = await page.evaluate(() =>
+        Boolean(
+          (window as unknown as { rankfillApp: { runs: { shown: { trust?: { intervals?: unknown } } } } }).rankfillApp
+            .runs.shown.trust?.intervals,
+        ),
+      );
       expect(await opened.page.locator('[data-testid="report-intervals"]').count()).toBe(hasIntervals ? 1 : 0);
-      if (hasIntervals) expect(opened.methods).toContain('Each filled value was given an 80 % cross-validated normalized conformal prediction interval');
+      if (hasIntervals)
+        expect(opened.methods).toContain(
+          'Each filled value was given an 80 % cross-validated normalized conformal prediction interval',
+        );
       await opened.page.screenshot({ path: join(results, 'report-window.png'), fullPage: true });
       const printed = await printAndRender(opened.page, 'report-window');
       expect(printed.pages).toBeGreaterThanOrEqual(3);
@@ -181,9 +208,13 @@ describe('study report', () => {
       await fresh.waitForSelector('[data-testid="report-dialog"][open]');
       await fresh.fill('[data-testid="report-path"]', join(exportDir, 'chosen report.html'));
       await fresh.click('[data-testid="report-write"]');
-      await expect.poll(() => fresh.textContent('[data-testid="report-status"]'), { timeout: 30_000 }).toContain('Written:');
+      await expect
+        .poll(() => fresh.textContent('[data-testid="report-status"]'), { timeout: 30_000 })
+        .toContain('Written:');
       const html = readFileSync(join(exportDir, 'chosen report.html'), 'utf8');
-      expect(html).toMatch(/The settings were chosen automatically: \d+ candidate settings .* were scored by a quick 3-fold cross-validation/);
+      expect(html).toMatch(
+        /The settings were chosen automatically: \d+ candidate settings .* were scored by a quick 3-fold cross-validation/,
+      );
     } finally {
       await fresh.close();
     }
@@ -194,7 +225,30 @@ describe('study report', () => {
     const csv = join(exportDir, 'cli filled.csv');
     const r = spawnSync(
       process.execPath,
-      [join(repoRoot, 'bin/rankfill.js'), 'report', join(repoRoot, 'samples/peer-review-round.csv'), '--out', out, '--rank', '3', '--lambda', '10', '--centering', 'column', '--seed', '5', '--tune', '--ranks', '0,1,2,3', '--lambdas', '1,10', '--level', '0.9', '--csv', csv],
+      [
+        join(repoRoot, 'bin/rankfill.js'),
+        'report',
+        join(repoRoot, 'samples/peer-review-round.csv'),
+        '--out',
+        out,
+        '--rank',
+        '3',
+        '--lambda',
+        '10',
+        '--centering',
+        'column',
+        '--seed',
+        '5',
+        '--tune',
+        '--ranks',
+        '0,1,2,3',
+        '--lambdas',
+        '1,10',
+        '--level',
+        '0.9',
+        '--csv',
+        csv,
+      ],
       { encoding: 'utf8', timeout: 120_000 },
     );
     expect(r.stderr).toBe('');
@@ -203,13 +257,21 @@ describe('study report', () => {
     try {
       expect(opened.blocked).toEqual([]);
       expect(opened.consoleErrors).toEqual([]);
-      expect(opened.data.run.settings).toMatchObject({ model: 'lowrank', rank: 3, lambda: 10, centering: 'column', seed: 5 });
+      expect(opened.data.run.settings).toMatchObject({
+        model: 'lowrank',
+        rank: 3,
+        lambda: 10,
+        centering: 'column',
+        seed: 5,
+      });
       expectMethodsMatch(opened.methods, opened.data.run.settings, 5);
       expect(opened.methods).toContain('cross-validation of ranks 0, 1, 2, 3 × λ 1, 10 was also run (seed 5)');
       expect(opened.data.exports.map((x) => x.path)).toEqual([csv]);
       expect(await opened.page.locator('[data-testid="report-tuning-chart"]').count()).toBe(1);
       expect(await opened.page.textContent('[data-testid="report-intervals"]')).toContain('Nominal coverage90 %');
-      expect(opened.methods).toContain('Each filled value was given a 90 % cross-validated normalized conformal prediction interval');
+      expect(opened.methods).toContain(
+        'Each filled value was given a 90 % cross-validated normalized conformal prediction interval',
+      );
       await opened.page.screenshot({ path: join(results, 'report-cli.png'), fullPage: true });
       const printed = await printAndRender(opened.page, 'report-cli');
       expect(printed.pages).toBeGreaterThanOrEqual(3);

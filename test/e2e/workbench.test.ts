@@ -8,9 +8,16 @@ import { repoRoot, startHost, type RunningHost } from './support/hostProcess';
 // Expected counts come from reading the sample CSV independently here, not
 // from the app's own parser.
 function sampleCounts(file: string) {
-  const lines = readFileSync(join(repoRoot, 'samples', file), 'utf8').trimEnd().split('\n');
+  const lines = readFileSync(join(repoRoot, 'samples', file), 'utf8')
+    .trimEnd()
+    .split('\n');
   const cells = lines.slice(1).map((l) => l.split(',').slice(1));
-  return { rows: cells.length, cols: cells[0].length, blanks: cells.flat().filter((c) => c === '').length, firstRow: cells[0] };
+  return {
+    rows: cells.length,
+    cols: cells[0].length,
+    blanks: cells.flat().filter((c) => c === '').length,
+    firstRow: cells[0],
+  };
 }
 
 describe('workbench in the browser host', () => {
@@ -38,18 +45,27 @@ describe('workbench in the browser host', () => {
 
   it('opens the first sample with the right shape and count of blank cells', async () => {
     const expected = sampleCounts('coffee-cupping-panel.csv');
-    await expect.poll(() => page.textContent('[data-testid="status-shape"]')).toBe(`${expected.rows} rows × ${expected.cols} columns`);
+    await expect
+      .poll(() => page.textContent('[data-testid="status-shape"]'))
+      .toBe(`${expected.rows} rows × ${expected.cols} columns`);
     const missing = await page.textContent('[data-testid="status-missing"]');
     expect(missing).toContain(`(${expected.blanks} blank)`);
     // Count blank cells in the grid itself (the small sample fits the viewport, so every row and column is rendered).
     await page.waitForSelector(`.ag-row[row-index="${expected.rows - 1}"]`, { state: 'attached' });
-    const blankInGrid = await page.$$eval('.ag-row .ag-cell[col-id^="c"]', (cells) => cells.filter((c) => (c.textContent ?? '').trim() === '').length);
+    const blankInGrid = await page.$$eval(
+      '.ag-row .ag-cell[col-id^="c"]',
+      (cells) => cells.filter((c) => (c.textContent ?? '').trim() === '').length,
+    );
     expect(blankInGrid).toBe(expected.blanks);
     // Missing cells are blank, never 0 or NaN.
-    const texts = await page.$$eval('.ag-row .ag-cell[col-id^="c"]', (cells) => cells.map((c) => (c.textContent ?? '').trim()));
+    const texts = await page.$$eval('.ag-row .ag-cell[col-id^="c"]', (cells) =>
+      cells.map((c) => (c.textContent ?? '').trim()),
+    );
     expect(texts.some((t) => t === 'NaN')).toBe(false);
     // Row labels are pinned left.
-    const firstLabel = await page.textContent('.ag-row[row-index="0"] .ag-grid-pinned-left-cells .ag-cell[col-id="rowLabel"]');
+    const firstLabel = await page.textContent(
+      '.ag-row[row-index="0"] .ag-grid-pinned-left-cells .ag-cell[col-id="rowLabel"]',
+    );
     expect(firstLabel?.trim()).toBe('Harbor Dawn');
   });
 
@@ -88,7 +104,9 @@ describe('workbench in the browser host', () => {
     // The edit above is unsaved, so the page asks first (issue 4); leave it behind.
     await page.click('[data-testid="unsaved-discard"]');
     const expected = sampleCounts('peer-review-round.csv');
-    await expect.poll(() => page.textContent('[data-testid="status-shape"]')).toBe(`${expected.rows} rows × ${expected.cols} columns`);
+    await expect
+      .poll(() => page.textContent('[data-testid="status-shape"]'))
+      .toBe(`${expected.rows} rows × ${expected.cols} columns`);
     await page.screenshot({ path: join(repoRoot, 'test-results', 'workbench-peer-review.png') });
   });
 

@@ -77,17 +77,31 @@ export async function startHttpHost(opts: HttpHostOptions): Promise<HttpHost> {
   const allowedHosts = () => new Set([`${LOOPBACK}:${port}`, `localhost:${port}`]);
   const allowedOrigins = () => new Set([`http://${LOOPBACK}:${port}`, `http://localhost:${port}`]);
 
-  const send = (res: ServerResponse, status: number, body: string | Buffer, type: string, extra: Record<string, string> = {}) => {
+  const send = (
+    res: ServerResponse,
+    status: number,
+    body: string | Buffer,
+    type: string,
+    extra: Record<string, string> = {},
+  ) => {
     res.writeHead(status, { 'Content-Type': type, 'Cache-Control': 'no-store', ...securityHeaders(), ...extra });
     res.end(body);
   };
   const sendJson = (res: ServerResponse, status: number, value: ApiResult<unknown>) =>
     send(res, status, JSON.stringify(value), 'application/json; charset=utf-8');
-  const refuse = (res: ServerResponse, status: number, code: 'unauthorized' | 'bad-request' | 'transport', message: string) =>
-    sendJson(res, status, { ok: false, error: { code, message } });
+  const refuse = (
+    res: ServerResponse,
+    status: number,
+    code: 'unauthorized' | 'bad-request' | 'transport',
+    message: string,
+  ) => sendJson(res, status, { ok: false, error: { code, message } });
 
   const megabytes = (n: number) =>
-    n >= 1024 * 1024 ? `${(n / (1024 * 1024)).toFixed(1)} MB` : n >= 1024 ? `${(n / 1024).toFixed(1)} KB` : `${n} bytes`;
+    n >= 1024 * 1024
+      ? `${(n / (1024 * 1024)).toFixed(1)} MB`
+      : n >= 1024
+        ? `${(n / 1024).toFixed(1)} KB`
+        : `${n} bytes`;
 
   /** A body refused part-way: answer, then close the connection (the rest of the body is not read). */
   class BodyRefused extends Error {
@@ -103,7 +117,12 @@ export async function startHttpHost(opts: HttpHostOptions): Promise<HttpHost> {
     new Promise((resolve, reject) => {
       const declared = Number(req.headers['content-length']);
       if (Number.isFinite(declared) && declared > maxBody) {
-        reject(new BodyRefused(413, `the request body (${megabytes(declared)}) is larger than the limit of ${megabytes(maxBody)}`));
+        reject(
+          new BodyRefused(
+            413,
+            `the request body (${megabytes(declared)}) is larger than the limit of ${megabytes(maxBody)}`,
+          ),
+        );
         return;
       }
       const chunks: Buffer[] = [];
@@ -120,12 +139,14 @@ export async function startHttpHost(opts: HttpHostOptions): Promise<HttpHost> {
         } else resolve(text!);
       };
       const timer = setTimeout(
-        () => finish(new BodyRefused(408, `the request body did not arrive within ${Math.round(bodyTimeoutMs / 1000)} s`)),
+        () =>
+          finish(new BodyRefused(408, `the request body did not arrive within ${Math.round(bodyTimeoutMs / 1000)} s`)),
         bodyTimeoutMs,
       );
       req.on('data', (c: Buffer) => {
         size += c.length;
-        if (size > maxBody) return finish(new BodyRefused(413, `the request body is larger than the limit of ${megabytes(maxBody)}`));
+        if (size > maxBody)
+          return finish(new BodyRefused(413, `the request body is larger than the limit of ${megabytes(maxBody)}`));
         chunks.push(c);
       });
       req.on('end', () => finish(null, Buffer.concat(chunks).toString('utf8')));
@@ -143,7 +164,12 @@ export async function startHttpHost(opts: HttpHostOptions): Promise<HttpHost> {
         res.once('finish', () => setTimeout(() => req.socket.destroy(), 50).unref());
         return undefined;
       }
-      refuse(res, 400, 'bad-request', `unreadable request: ${err instanceof Error ? err.message.slice(0, 200) : String(err)}`);
+      refuse(
+        res,
+        400,
+        'bad-request',
+        `unreadable request: ${err instanceof Error ? err.message.slice(0, 200) : String(err)}`,
+      );
       return undefined;
     }
   };
@@ -183,9 +209,11 @@ export async function startHttpHost(opts: HttpHostOptions): Promise<HttpHost> {
 
   const handle = async (req: IncomingMessage, res: ServerResponse) => {
     const host = req.headers.host ?? '';
-    if (!allowedHosts().has(host)) return refuse(res, 421, 'unauthorized', 'this host answers only on its loopback address');
+    if (!allowedHosts().has(host))
+      return refuse(res, 421, 'unauthorized', 'this host answers only on its loopback address');
     const origin = req.headers.origin;
-    if (origin !== undefined && !allowedOrigins().has(origin)) return refuse(res, 403, 'unauthorized', 'cross-origin requests are refused');
+    if (origin !== undefined && !allowedOrigins().has(origin))
+      return refuse(res, 403, 'unauthorized', 'cross-origin requests are refused');
     let url: URL;
     try {
       url = new URL(req.url ?? '/', `http://${host}`);
@@ -201,7 +229,12 @@ export async function startHttpHost(opts: HttpHostOptions): Promise<HttpHost> {
       const body = await readJsonBody(req, res);
       if (!body) return;
       if (!tradeNonce((body.value as { nonce?: unknown } | null)?.nonce)) {
-        return refuse(res, 401, 'unauthorized', 'this launch address was already used or has expired; open the address Rankfill printed');
+        return refuse(
+          res,
+          401,
+          'unauthorized',
+          'this launch address was already used or has expired; open the address Rankfill printed',
+        );
       }
       return sendJson(res, 200, { ok: true, data: { token } });
     }
@@ -223,7 +256,8 @@ export async function startHttpHost(opts: HttpHostOptions): Promise<HttpHost> {
     }
 
     if (url.pathname === '/api/events') {
-      if (!tokenOk(url.searchParams.get('token'))) return refuse(res, 401, 'unauthorized', 'missing or wrong API token');
+      if (!tokenOk(url.searchParams.get('token')))
+        return refuse(res, 401, 'unauthorized', 'missing or wrong API token');
       res.writeHead(200, {
         'Content-Type': 'text/event-stream; charset=utf-8',
         'Cache-Control': 'no-store',

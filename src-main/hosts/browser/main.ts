@@ -38,12 +38,20 @@ async function main(): Promise<void> {
   const args = parseArgs(process.argv.slice(2));
   const log = (line: string) => console.error(`[rankfill] ${line}`);
   const services = createServices({ host: 'browser', createWorker: createFitWorker, createParseWorker, log });
-  const host = await startHttpHost({ router: services.router, rendererDir: join(__dirname, '../renderer'), port: args.port, log });
+  const host = await startHttpHost({
+    router: services.router,
+    rendererDir: join(__dirname, '../renderer'),
+    port: args.port,
+    log,
+  });
   console.log(`Rankfill is ready at ${host.launchUrl}`);
   // The browser gets a one-time launch address, never the token (its command line is visible to `ps`).
   if (args.open) openBrowser(host.newLaunchUrl());
   const stop = () => {
-    void host.close().then(() => services.dispose()).finally(() => process.exit(0));
+    void host
+      .close()
+      .then(() => services.dispose())
+      .finally(() => process.exit(0));
   };
   process.on('SIGINT', stop);
   process.on('SIGTERM', stop);

@@ -5,7 +5,11 @@
  */
 import { spawn as nodeSpawn, type SpawnOptions } from 'node:child_process';
 
-export type Spawner = (command: string, args: string[], options: SpawnOptions) => { on(event: 'error', l: () => void): unknown; unref(): void };
+type Spawner = (
+  command: string,
+  args: string[],
+  options: SpawnOptions,
+) => { on(event: 'error', l: () => void): unknown; unref(): void };
 
 export interface OpenBrowserEnv {
   platform?: NodeJS.Platform;
@@ -14,7 +18,7 @@ export interface OpenBrowserEnv {
 }
 
 /** The opener command and its arguments for an address. */
-export function openerCommand(url: string, platform: NodeJS.Platform): [string, string[]] {
+function openerCommand(url: string, platform: NodeJS.Platform): [string, string[]] {
   if (platform === 'darwin') return ['open', [url]];
   if (platform === 'win32') return ['explorer', [url]];
   return ['xdg-open', [url]];

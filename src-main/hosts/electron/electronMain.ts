@@ -45,8 +45,13 @@ export function runElectronHost(): void {
     // Closing asks the page first (unsaved changes); the page answers through app.closeWindow.
     let closeAllowed = false;
     let send: (command: string) => void = () => {};
-    const rebuildMenu = (recent: string[], edit: { undo: string | null; redo: string | null } = { undo: null, redo: null }) =>
-      Menu.setApplicationMenu(Menu.buildFromTemplate(appMenuTemplate(send, process.platform === 'darwin', recent, edit)));
+    const rebuildMenu = (
+      recent: string[],
+      edit: { undo: string | null; redo: string | null } = { undo: null, redo: null },
+    ) =>
+      Menu.setApplicationMenu(
+        Menu.buildFromTemplate(appMenuTemplate(send, process.platform === 'darwin', recent, edit)),
+      );
     const shell = electronShell({ window: () => mainWindow, allowClose: () => (closeAllowed = true), rebuildMenu });
     const services = createServices({ host: 'electron', createWorker: createFitWorker, createParseWorker, shell, log });
     registerIpc(ipcMain, services.router, () => (mainWindow ? [mainWindow.webContents] : []));

@@ -148,7 +148,8 @@ export class ConditionalWorkspace {
         const ra = missing[a] * p;
         for (let b = 0; b < m; b++) fac[a * m + b] = precision[ra + missing[b]];
       }
-      if (!choleskyInPlace(fac, m)) throw new FitFailedError('The precision block of a missingness pattern is not positive definite.');
+      if (!choleskyInPlace(fac, m))
+        throw new FitFailedError('The precision block of a missingness pattern is not positive definite.');
       this.logDetObserved = params.logDetSigma + choleskyLogDet(fac, m);
       choleskyInverse(fac, m, cc, this.col);
       // K_mo gathered row-major m × o
@@ -170,7 +171,8 @@ export class ConditionalWorkspace {
       const ra = observed[a] * p;
       for (let b = 0; b <= a; b++) fac[a * o + b] = sigma[ra + observed[b]];
     }
-    if (!choleskyInPlace(fac, o)) throw new FitFailedError('The observed block of a missingness pattern is not positive definite.');
+    if (!choleskyInPlace(fac, o))
+      throw new FitFailedError('The observed block of a missingness pattern is not positive definite.');
     return choleskyLogDet(fac, o);
   }
 

@@ -62,7 +62,7 @@ export interface EmGaussianResult {
 }
 
 /** Available-case means and variances (divisor n_j); Σ⁰ is their diagonal. */
-export function availableCaseStart(data: Float64Array, n: number, p: number): { mu: Float64Array; sigma: Float64Array } {
+function availableCaseStart(data: Float64Array, n: number, p: number): { mu: Float64Array; sigma: Float64Array } {
   const mu = new Float64Array(p);
   const sigma = new Float64Array(p * p);
   for (let j = 0; j < p; j++) {
@@ -152,10 +152,14 @@ function eStep(
 
 export function emGaussian(data: Float64Array, n: number, p: number, opts: EmGaussianOptions): EmGaussianResult {
   const shrinkage = opts.shrinkage;
-  if (!(shrinkage >= 0 && shrinkage < 1)) throw new FitFailedError(`Shrinkage must be at least 0 and below 1 (got ${shrinkage}).`);
+  if (!(shrinkage >= 0 && shrinkage < 1))
+    throw new FitFailedError(`Shrinkage must be at least 0 and below 1 (got ${shrinkage}).`);
   const maxIterations = Math.max(0, Math.floor(opts.maxIterations));
   const patterns = groupByPattern(data, n, p);
-  const tooSlow = emWorkloadRefusal(emWorkPerIteration(patterns, p), opts.maxWorkPerIteration ?? GAUSSIAN_MAX_WORK_PER_ITERATION);
+  const tooSlow = emWorkloadRefusal(
+    emWorkPerIteration(patterns, p),
+    opts.maxWorkPerIteration ?? GAUSSIAN_MAX_WORK_PER_ITERATION,
+  );
   if (tooSlow !== undefined) throw new FitFailedError(tooSlow);
   const start = availableCaseStart(data, n, p);
   let mu = start.mu;

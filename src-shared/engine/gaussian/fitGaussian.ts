@@ -26,7 +26,13 @@ import { FitCancelledError, FitFailedError } from '../errors';
 import { findNonFinite } from '../observed';
 import { clipSnap } from '../predictions';
 import { emGaussian } from './emGaussian';
-import { GAUSSIAN_MAX_VARIABLES, assertGaussianLimits, emWorkPerIteration, emWorkloadRefusal, gaussianRefusalReason } from './limits';
+import {
+  GAUSSIAN_MAX_VARIABLES,
+  assertGaussianLimits,
+  emWorkPerIteration,
+  emWorkloadRefusal,
+  gaussianRefusalReason,
+} from './limits';
 import { groupByPattern } from './patterns';
 
 export interface GaussianFitOptions {
@@ -35,7 +41,7 @@ export interface GaussianFitOptions {
 }
 
 /** The n × p data block the model sees (variables as columns); copies only when transposing. */
-export function gaussianDataBlock(
+function gaussianDataBlock(
   matrix: RatingMatrix,
   transpose: boolean,
 ): { data: Float64Array; n: number; p: number; labels: string[] } {
@@ -66,7 +72,11 @@ export function gaussianRefusal(matrix: RatingMatrix, transpose = false): string
   return emWorkloadRefusal(emWorkPerIteration(groupByPattern(block.data, block.n, block.p), block.p));
 }
 
-export function fitGaussian(matrix: RatingMatrix, settings: GaussianSettings, opts: GaussianFitOptions = {}): FitResult {
+export function fitGaussian(
+  matrix: RatingMatrix,
+  settings: GaussianSettings,
+  opts: GaussianFitOptions = {},
+): FitResult {
   const t0 = Date.now();
   const rows = matrix.rowLabels.length;
   const cols = matrix.colLabels.length;
@@ -79,7 +89,13 @@ export function fitGaussian(matrix: RatingMatrix, settings: GaussianSettings, op
   const transpose = settings.transpose;
   if ((transpose ? rows : cols) > GAUSSIAN_MAX_VARIABLES) {
     // refuse on the shape alone, before copying anything
-    assertGaussianLimits(new Float64Array(0), transpose ? cols : rows, transpose ? rows : cols, [], transpose ? 'row' : 'column');
+    assertGaussianLimits(
+      new Float64Array(0),
+      transpose ? cols : rows,
+      transpose ? rows : cols,
+      [],
+      transpose ? 'row' : 'column',
+    );
   }
   const { data, n, p, labels } = gaussianDataBlock(matrix, transpose);
   assertGaussianLimits(data, n, p, labels, transpose ? 'row' : 'column');

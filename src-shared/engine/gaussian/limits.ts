@@ -8,7 +8,7 @@
 import { FitFailedError } from '../errors';
 
 export const GAUSSIAN_MAX_VARIABLES = 300;
-export const GAUSSIAN_MIN_OBSERVED_PER_VARIABLE = 3;
+const GAUSSIAN_MIN_OBSERVED_PER_VARIABLE = 3;
 
 export type VariableKind = 'column' | 'row';
 
@@ -25,7 +25,8 @@ export function gaussianRefusalReason(
 ): string | undefined {
   const plural = kind === 'column' ? 'columns' : 'rows';
   const other = kind === 'column' ? 'rows' : 'columns';
-  if (p === 0) return `The Gaussian model needs at least one variable (${plural}); this matrix has none. Use the low-rank model instead.`;
+  if (p === 0)
+    return `The Gaussian model needs at least one variable (${plural}); this matrix has none. Use the low-rank model instead.`;
   if (p > GAUSSIAN_MAX_VARIABLES) {
     return (
       `The Gaussian model handles at most ${GAUSSIAN_MAX_VARIABLES} variables, but this matrix has ${p} ${plural}. ` +
@@ -68,7 +69,10 @@ export function assertGaussianLimits(
  *   per row      o² + om + m² + p²/2 (fill, log-likelihood, sufficient statistics)
  *   per iteration p³ (factor and invert Σ).
  */
-export function emWorkPerIteration(patterns: readonly { observed: ArrayLike<number>; missing: ArrayLike<number>; rows: ArrayLike<number> }[], p: number): number {
+export function emWorkPerIteration(
+  patterns: readonly { observed: ArrayLike<number>; missing: ArrayLike<number>; rows: ArrayLike<number> }[],
+  p: number,
+): number {
   let work = p * p * p;
   for (const pat of patterns) {
     const o = pat.observed.length;

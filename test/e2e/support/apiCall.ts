@@ -11,7 +11,11 @@ export interface ApiReply<T> {
   error?: { code?: string; message?: string };
 }
 
-export async function callApi<T = Record<string, unknown>>(host: RunningHost, method: string, payload: unknown): Promise<ApiReply<T>> {
+export async function callApi<T = Record<string, unknown>>(
+  host: RunningHost,
+  method: string,
+  payload: unknown,
+): Promise<ApiReply<T>> {
   const res = await fetch(new URL('/api/call', host.url), {
     method: 'POST',
     headers: { 'Content-Type': 'application/json', [TOKEN_HEADER]: host.token },
@@ -22,5 +26,7 @@ export async function callApi<T = Record<string, unknown>>(host: RunningHost, me
 
 /** What the page exposes as `window.rankfillApp` for assertions (only the parts tests read). */
 export interface PageWithApp {
-  rankfillApp: { store: { title: string; current: { rowLabels: string[]; colLabels: string[]; values: Float64Array } } };
+  rankfillApp: {
+    store: { title: string; current: { rowLabels: string[]; colLabels: string[]; values: Float64Array } };
+  };
 }

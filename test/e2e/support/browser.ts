@@ -2,9 +2,14 @@
 import { chromium, type Browser } from 'playwright-core';
 import { existsSync } from 'node:fs';
 
-const CANDIDATES = ['/usr/bin/chromium', '/usr/bin/chromium-browser', '/usr/bin/google-chrome', '/usr/bin/google-chrome-stable'];
+const CANDIDATES = [
+  '/usr/bin/chromium',
+  '/usr/bin/chromium-browser',
+  '/usr/bin/google-chrome',
+  '/usr/bin/google-chrome-stable',
+];
 
-export function chromiumPath(): string {
+function chromiumPath(): string {
   const fromEnv = process.env.RANKFILL_CHROMIUM;
   const found = fromEnv ?? CANDIDATES.find((p) => existsSync(p));
   if (!found || !existsSync(found)) {
@@ -17,6 +22,13 @@ export function launchBrowser(): Promise<Browser> {
   return chromium.launch({
     executablePath: chromiumPath(),
     headless: true,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--no-first-run', '--disable-dev-shm-usage'],
+    args: [
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--no-first-run',
+      '--disable-dev-shm-usage',
+    ],
   });
 }

@@ -22,13 +22,21 @@ export interface RunningHost {
 export const repoRoot = join(__dirname, '../../..');
 
 /** Starts the host with its own fresh config folder (recovery files, recent list) unless `env` names one. */
-export function startHost(extraArgs: string[] = [], env: NodeJS.ProcessEnv = {}, o: { open?: boolean } = {}): Promise<RunningHost> {
+export function startHost(
+  extraArgs: string[] = [],
+  env: NodeJS.ProcessEnv = {},
+  o: { open?: boolean } = {},
+): Promise<RunningHost> {
   const configDir = mkdtempSync(join(tmpdir(), 'rankfill-e2e-config-'));
-  const child = spawn(process.execPath, [join(repoRoot, 'out/main/browserHost.js'), '--port', '0', ...(o.open ? [] : ['--no-open']), ...extraArgs], {
-    cwd: repoRoot,
-    env: { ...process.env, RANKFILL_CONFIG_DIR: configDir, RANKFILL_EXPORT_DIR: join(configDir, 'exports'), ...env },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
+  const child = spawn(
+    process.execPath,
+    [join(repoRoot, 'out/main/browserHost.js'), '--port', '0', ...(o.open ? [] : ['--no-open']), ...extraArgs],
+    {
+      cwd: repoRoot,
+      env: { ...process.env, RANKFILL_CONFIG_DIR: configDir, RANKFILL_EXPORT_DIR: join(configDir, 'exports'), ...env },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    },
+  );
   let out = '';
   return new Promise((resolve, reject) => {
     const timer = setTimeout(() => reject(new Error(`host did not start in 20 s:\n${out}`)), 20_000);

@@ -44,17 +44,43 @@ describe('ApiRouter: every message validated at the boundary', () => {
   it('refuses extra fields and wrong matrix shapes', async () => {
     expect((await router().call('fit.cancel', { jobId: 'a', extra: 1 })).ok).toBe(false);
     const badMatrix = { rowLabels: ['a'], colLabels: ['b'], values: [1, 2], scale: { min: 1, max: 5, step: 1 } };
-    const r = await router().call('fit.start', { matrix: badMatrix, settings: { model: 'gaussian', shrinkage: 0, transpose: false, maxIterations: 10, tolerance: 1e-6, seed: 1, clipToScale: true, snapToStep: false } });
+    const r = await router().call('fit.start', {
+      matrix: badMatrix,
+      settings: {
+        model: 'gaussian',
+        shrinkage: 0,
+        transpose: false,
+        maxIterations: 10,
+        tolerance: 1e-6,
+        seed: 1,
+        clipToScale: true,
+        snapToStep: false,
+      },
+    });
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.error.message).toContain('values length must equal rows × columns');
   });
 
   it('turns a thrown handler error into an error reply, never a crash', async () => {
     const log: string[] = [];
-    const r = await router({ 'samples.open': async () => { throw new UserFacingError('no sample called "q"'); } }, log).call('samples.open', { id: 'q' });
+    const r = await router(
+      {
+        'samples.open': async () => {
+          throw new UserFacingError('no sample called "q"');
+        },
+      },
+      log,
+    ).call('samples.open', { id: 'q' });
     expect(r).toEqual({ ok: false, error: { code: 'failed', message: 'no sample called "q"' } });
     expect(log).toEqual([]);
-    const r2 = await router({ 'samples.open': async () => { throw new TypeError('boom'); } }, log).call('samples.open', { id: 'q' });
+    const r2 = await router(
+      {
+        'samples.open': async () => {
+          throw new TypeError('boom');
+        },
+      },
+      log,
+    ).call('samples.open', { id: 'q' });
     expect(r2).toEqual({ ok: false, error: { code: 'failed', message: 'boom' } });
     expect(log[0]).toMatch(/^samples\.open failed: TypeError: boom/);
   });
@@ -62,9 +88,21 @@ describe('ApiRouter: every message validated at the boundary', () => {
   it('refuses to pass on a reply that breaks the contract', async () => {
     const r = await router({ 'fit.start': async () => ({ jobId: '' }) }).call('fit.start', {
       matrix: goodDoc.matrix,
-      settings: { model: 'gaussian', shrinkage: 0.1, transpose: false, maxIterations: 10, tolerance: 1e-6, seed: 1, clipToScale: true, snapToStep: false },
+      settings: {
+        model: 'gaussian',
+        shrinkage: 0.1,
+        transpose: false,
+        maxIterations: 10,
+        tolerance: 1e-6,
+        seed: 1,
+        clipToScale: true,
+        snapToStep: false,
+      },
     });
-    expect(r).toEqual({ ok: false, error: { code: 'bad-reply', message: 'fit.start: internal reply did not match the contract' } });
+    expect(r).toEqual({
+      ok: false,
+      error: { code: 'bad-reply', message: 'fit.start: internal reply did not match the contract' },
+    });
   });
 
   it('publishes only events that match their schema', () => {
@@ -74,7 +112,9 @@ describe('ApiRouter: every message validated at the boundary', () => {
     r.onEvent((e) => seen.push(e));
     r.emit('fit.progress', { jobId: 'j', iteration: 3, objective: 1.5, elapsedMs: 12 });
     r.emit('fit.progress', { jobId: 'j', iteration: -1, objective: 1.5, elapsedMs: 12 });
-    expect(seen).toEqual([{ event: 'fit.progress', payload: { jobId: 'j', iteration: 3, objective: 1.5, elapsedMs: 12 } }]);
+    expect(seen).toEqual([
+      { event: 'fit.progress', payload: { jobId: 'j', iteration: 3, objective: 1.5, elapsedMs: 12 } },
+    ]);
     expect(log[0]).toMatch(/^event fit\.progress dropped: iteration/);
   });
 });

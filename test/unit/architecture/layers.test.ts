@@ -19,9 +19,11 @@ function files(dir: string): string[] {
 
 function imports(file: string): string[] {
   const text = readFileSync(file, 'utf8');
-  return [...text.matchAll(/(?:import|export)\s[^'"]*?from\s+['"]([^'"]+)['"]|import\(\s*['"]([^'"]+)['"]\s*\)|^import\s+['"]([^'"]+)['"]/gm)].map(
-    (m) => m[1] ?? m[2] ?? m[3],
-  );
+  return [
+    ...text.matchAll(
+      /(?:import|export)\s[^'"]*?from\s+['"]([^'"]+)['"]|import\(\s*['"]([^'"]+)['"]\s*\)|^import\s+['"]([^'"]+)['"]/gm,
+    ),
+  ].map((m) => m[1] ?? m[2] ?? m[3]);
 }
 
 const NODE_BUILTINS = /^(node:|fs$|path$|os$|child_process$|worker_threads$|http$|crypto$|events$|url$|stream$)/;
@@ -37,7 +39,8 @@ describe('layers by runtime', () => {
         } else if (!PURE_LIBS.has(spec)) bad.push(`${relative(root, f)} → ${spec}`);
       }
       const text = readFileSync(f, 'utf8');
-      if (/(?<!['"\w.])(window|document|localStorage|process)\./.test(text.replace(/\/\/.*$|\/\*[\s\S]*?\*\//gm, ''))) bad.push(`${relative(root, f)} uses a runtime global`);
+      if (/(?<!['"\w.])(window|document|localStorage|process)\./.test(text.replace(/\/\/.*$|\/\*[\s\S]*?\*\//gm, '')))
+        bad.push(`${relative(root, f)} uses a runtime global`);
     }
     expect(bad).toEqual([]);
   });
@@ -46,7 +49,8 @@ describe('layers by runtime', () => {
     const bad: string[] = [];
     for (const f of files(join(root, 'src-renderer'))) {
       for (const spec of imports(f)) {
-        if (spec.includes('src-main') || NODE_BUILTINS.test(spec) || spec === 'electron') bad.push(`${relative(root, f)} → ${spec}`);
+        if (spec.includes('src-main') || NODE_BUILTINS.test(spec) || spec === 'electron')
+          bad.push(`${relative(root, f)} → ${spec}`);
       }
     }
     expect(bad).toEqual([]);

@@ -45,11 +45,30 @@ describe('rankfill fill', () => {
     const { text, values } = wideCsv();
     const input = file('in.csv', text);
     const out = join(dir, 'out.csv');
-    const r = await run('fill', input, '--out', out, '--rank', '1', '--lambda', '0.5', '--centering', 'row', '--seed', '4', '--json');
+    const r = await run(
+      'fill',
+      input,
+      '--out',
+      out,
+      '--rank',
+      '1',
+      '--lambda',
+      '0.5',
+      '--centering',
+      'row',
+      '--seed',
+      '4',
+      '--json',
+    );
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const summary = JSON.parse(r.stdout);
-    expect(summary).toMatchObject({ command: 'fill', rows: 12, cols: 8, settings: { rank: 1, lambda: 0.5, centering: 'row', seed: 4 } });
+    expect(summary).toMatchObject({
+      command: 'fill',
+      rows: 12,
+      cols: 8,
+      settings: { rank: 1, lambda: 0.5, centering: 'row', seed: 4 },
+    });
     expect(summary.iterations).toBeGreaterThan(0);
     expect(summary.objective).toBe(summary.objectiveTrace[summary.objectiveTrace.length - 1]);
     const lines = readFileSync(out, 'utf8').trim().split(/\r?\n/);
@@ -59,7 +78,12 @@ describe('rankfill fill', () => {
     const flat = values.flat();
     const observed = flat.filter((x) => !Number.isNaN(x));
     const fit = fitModel(
-      { rowLabels: values.map((_, i) => `i${i + 1}`), colLabels: values[0].map((_, j) => `p${j + 1}`), values: Float64Array.from(flat), scale: { min: Math.min(...observed), max: Math.max(...observed), step: 0 } },
+      {
+        rowLabels: values.map((_, i) => `i${i + 1}`),
+        colLabels: values[0].map((_, j) => `p${j + 1}`),
+        values: Float64Array.from(flat),
+        scale: { min: Math.min(...observed), max: Math.max(...observed), step: 0 },
+      },
       { ...defaultLowRankSettings(), rank: 1, lambda: 0.5, centering: 'row', seed: 4 },
     );
     for (let i = 0; i < 12; i++) {
@@ -77,7 +101,19 @@ describe('rankfill fill', () => {
   it('--long reads and writes triples; --decimals rounds only predictions; --scale with step snaps', async () => {
     const input = file('long.csv', 'row,column,value\na,x,1\na,y,2\nb,x,2\nb,z,5\nc,y,4\nc,z,3\n');
     const out = join(dir, 'long-out.csv');
-    const r = await run('fill', input, '--out', out, '--long', '--rank', '0', '--centering', 'column', '--decimals', '1');
+    const r = await run(
+      'fill',
+      input,
+      '--out',
+      out,
+      '--long',
+      '--rank',
+      '0',
+      '--centering',
+      'column',
+      '--decimals',
+      '1',
+    );
     expect(r.code).toBe(0);
     const lines = readFileSync(out, 'utf8').trim().split(/\r?\n/);
     // --long input writes the window's long layout: value, source, baseline, spread.
@@ -89,7 +125,10 @@ describe('rankfill fill', () => {
     expect(lines).toContain('c,x,1.5,filled,1.5,');
     expect(lines).toContain('a,x,1,observed,1.5,');
     const snapped = join(dir, 'snapped.csv');
-    expect((await run('fill', input, '--out', snapped, '--long', '--rank', '0', '--centering', 'column', '--scale', '1:5:1')).code).toBe(0);
+    expect(
+      (await run('fill', input, '--out', snapped, '--long', '--rank', '0', '--centering', 'column', '--scale', '1:5:1'))
+        .code,
+    ).toBe(0);
     expect(readFileSync(snapped, 'utf8')).toContain('c,x,2,filled'); // 1.5 → nearest step (round half up)
   });
 });
@@ -144,12 +183,28 @@ describe('rankfill evaluate and tune', () => {
     expect(j.table).toHaveLength(4);
     const mean = j.table.reduce((a: number, f: { rmse: number }) => a + f.rmse, 0) / 4;
     expect(j.meanRmse).toBeCloseTo(mean, 12);
-    expect(j.table.reduce((a: number, f: { n: number }) => a + f.n, 0)).toBe(wideCsv().values.flat().filter((x) => !Number.isNaN(x)).length);
+    expect(j.table.reduce((a: number, f: { n: number }) => a + f.n, 0)).toBe(
+      wideCsv()
+        .values.flat()
+        .filter((x) => !Number.isNaN(x)).length,
+    );
   });
 
   it('tune --json reports the grid, the best and the one-standard-error choice', async () => {
     const input = file('t.csv', wideCsv().text);
-    const r = await run('tune', input, '--ranks', '0,1,2', '--lambdas', '1,10', '--centering', 'row,both', '--folds', '3', '--json');
+    const r = await run(
+      'tune',
+      input,
+      '--ranks',
+      '0,1,2',
+      '--lambdas',
+      '1,10',
+      '--centering',
+      'row,both',
+      '--folds',
+      '3',
+      '--json',
+    );
     expect(r.code).toBe(0);
     const j = JSON.parse(r.stdout);
     expect(j.table).toHaveLength(12);
@@ -202,13 +257,22 @@ describe('exit codes and messages', () => {
   });
 
   it('usage errors exit 2 with the usage line', async () => {
-    for (const argv of [[], ['fit', 'x.csv'], ['fill', 'x.csv'], ['tune', 'x.csv', '--rank', '2'], ['fill', 'x.csv', '--out', 'y', '--rank', 'two'], ['evaluate', 'x.csv', '--scale', '5:1']]) {
+    for (const argv of [
+      [],
+      ['fit', 'x.csv'],
+      ['fill', 'x.csv'],
+      ['tune', 'x.csv', '--rank', '2'],
+      ['fill', 'x.csv', '--out', 'y', '--rank', 'two'],
+      ['evaluate', 'x.csv', '--scale', '5:1'],
+    ]) {
       const r = await run(...argv);
       expect(r.code).toBe(2);
       expect(r.stderr).toMatch(/^rankfill: .+\nusage: rankfill fill/);
     }
     expect(() => parseArgs(['tune', 'a.csv', '--centering', 'row,diagonal'])).toThrow(UsageError);
-    expect(parseArgs(['tune', 'a.csv', '--centering=row,both'])).toMatchObject({ options: { centerings: ['row', 'both'] } });
+    expect(parseArgs(['tune', 'a.csv', '--centering=row,both'])).toMatchObject({
+      options: { centerings: ['row', 'both'] },
+    });
   });
 
   it('a missing input file is reported as FILE:1:1 with exit 2', async () => {
@@ -223,13 +287,21 @@ describe('bin/rankfill.js', () => {
     const bin = fileURLToPath(new URL('../../../bin/rankfill.js', import.meta.url));
     const bundle = fileURLToPath(new URL('../../../out/cli/rankfill.js', import.meta.url));
     // Build the bundle when a focused run (npx vitest …) comes before any build.
-    if (!existsSync(bundle)) spawnSync('npm', ['run', 'build:cli'], { cwd: fileURLToPath(new URL('../../..', import.meta.url)), encoding: 'utf8' });
+    if (!existsSync(bundle))
+      spawnSync('npm', ['run', 'build:cli'], {
+        cwd: fileURLToPath(new URL('../../..', import.meta.url)),
+        encoding: 'utf8',
+      });
     expect(existsSync(bundle), 'out/cli/rankfill.js is missing: run `npm run build:cli` first').toBe(true);
     const input = file('bin.csv', wideCsv().text);
     const ok = spawnSync(process.execPath, [bin, 'evaluate', input, '--folds', '3', '--json'], { encoding: 'utf8' });
     expect(ok.status).toBe(0);
     expect(JSON.parse(ok.stdout).table).toHaveLength(3);
-    const bad = spawnSync(process.execPath, [bin, 'fill', file('bad.csv', 'x,a\nr1,zz\n'), '--out', join(dir, 'o.csv')], { encoding: 'utf8' });
+    const bad = spawnSync(
+      process.execPath,
+      [bin, 'fill', file('bad.csv', 'x,a\nr1,zz\n'), '--out', join(dir, 'o.csv')],
+      { encoding: 'utf8' },
+    );
     expect(bad.status).toBe(2);
     expect(bad.stderr).toMatch(/bad\.csv:2:2: /);
     const usage = spawnSync(process.execPath, [bin, 'frobnicate'], { encoding: 'utf8' });

@@ -41,13 +41,16 @@ describe('per-command --help', () => {
       const mine = OPTIONS.filter((o) => o.commands.includes(command));
       expect(mine.length).toBeGreaterThan(8);
       for (const o of mine) {
-        const line = r.stdout.split('\n').find((l) => l.trimStart().startsWith(`--${o.name}`) && !l.includes(`--${o.name}s`));
+        const line = r.stdout
+          .split('\n')
+          .find((l) => l.trimStart().startsWith(`--${o.name}`) && !l.includes(`--${o.name}s`));
         expect(line, `--${o.name}`).toBeDefined();
         expect(line).toMatch(/\(default: .+\)$/);
       }
       // Options of other commands are not listed.
       const names = new Set(mine.map((o) => o.name));
-      for (const o of OPTIONS.filter((x) => !x.commands.includes(command) && !names.has(x.name))) expect(r.stdout).not.toMatch(new RegExp(`^  --${o.name} `, 'm'));
+      for (const o of OPTIONS.filter((x) => !x.commands.includes(command) && !names.has(x.name)))
+        expect(r.stdout).not.toMatch(new RegExp(`^  --${o.name} `, 'm'));
     });
   }
 
@@ -63,7 +66,11 @@ describe('per-command --help', () => {
     expect(evaluate).toMatch(new RegExp(`--lambda L .*\\(default: ${lr.lambda}\\)`));
     expect(evaluate).toMatch(new RegExp(`--centering \\S+ .*\\(default: ${lr.centering}\\)`));
     expect(fill).toMatch(new RegExp(`--shrinkage S .*\\(default: ${g.shrinkage}\\)`));
-    expect(fill).toMatch(new RegExp(`--iterations N .*\\(default: ${lr.maxIterations} \\(low-rank\\), ${g.maxIterations} \\(gaussian\\)\\)`));
+    expect(fill).toMatch(
+      new RegExp(
+        `--iterations N .*\\(default: ${lr.maxIterations} \\(low-rank\\), ${g.maxIterations} \\(gaussian\\)\\)`,
+      ),
+    );
     expect(fill).toMatch(new RegExp(`--seed S .*\\(default: ${lr.seed}\\)`));
     expect(fill).toContain('(default: 1e-6)');
     expect(lr.tolerance).toBe(1e-6);
@@ -106,11 +113,24 @@ describe('--force', () => {
   });
 });
 
-describe('--layout, --decimals, --sidecar, --mask (the window\'s writers)', () => {
+describe("--layout, --decimals, --sidecar, --mask (the window's writers)", () => {
   it('filled: observed cells as read, estimates rounded to --decimals, corner says estimates', async () => {
     const input = file('l1.csv', WIDE);
     const out = join(dir, 'l1-out.csv');
-    const r = await run('fill', input, '--out', out, '--rank', '0', '--centering', 'column', '--decimals', '2', '--mask', '--sidecar');
+    const r = await run(
+      'fill',
+      input,
+      '--out',
+      out,
+      '--rank',
+      '0',
+      '--centering',
+      'column',
+      '--decimals',
+      '2',
+      '--mask',
+      '--sidecar',
+    );
     expect(r.code).toBe(0);
     const lines = readFileSync(out, 'utf8').trim().split(/\r\n/);
     expect(lines[0]).toBe('row \\ column (blank cells filled with model estimates),a,b,c');
@@ -122,7 +142,11 @@ describe('--layout, --decimals, --sidecar, --mask (the window\'s writers)', () =
     expect(mask[1]).toBe('r1,observed,observed,filled');
     expect(mask[3]).toBe('r3,filled,observed,observed');
     const sidecar = JSON.parse(readFileSync(join(dir, 'l1-out.settings.json'), 'utf8'));
-    expect(sidecar).toMatchObject({ format: 'rankfill-export-settings', export: { kind: 'filled-wide', decimals: 2 }, model: { family: 'lowrank' } });
+    expect(sidecar).toMatchObject({
+      format: 'rankfill-export-settings',
+      export: { kind: 'filled-wide', decimals: 2 },
+      model: { family: 'lowrank' },
+    });
     expect(sidecar.input.sha256).toMatch(/^[0-9a-f]{64}$/);
     expect(sidecar.caution).toMatch(/model estimates/);
   });
@@ -130,16 +154,52 @@ describe('--layout, --decimals, --sidecar, --mask (the window\'s writers)', () =
   it('estimates: observed cells blank; long: a source column', async () => {
     const input = file('l2.csv', WIDE);
     const est = join(dir, 'l2-est.csv');
-    expect((await run('fill', input, '--out', est, '--rank', '0', '--centering', 'column', '--layout', 'estimates', '--decimals', '1')).code).toBe(0);
+    expect(
+      (
+        await run(
+          'fill',
+          input,
+          '--out',
+          est,
+          '--rank',
+          '0',
+          '--centering',
+          'column',
+          '--layout',
+          'estimates',
+          '--decimals',
+          '1',
+        )
+      ).code,
+    ).toBe(0);
     expect(readFileSync(est, 'utf8').split(/\r\n/)[1]).toBe('r1,,,4.7');
     const long = join(dir, 'l2-long.csv');
-    expect((await run('fill', input, '--out', long, '--rank', '0', '--centering', 'column', '--layout', 'long', '--decimals', '1')).code).toBe(0);
+    expect(
+      (
+        await run(
+          'fill',
+          input,
+          '--out',
+          long,
+          '--rank',
+          '0',
+          '--centering',
+          'column',
+          '--layout',
+          'long',
+          '--decimals',
+          '1',
+        )
+      ).code,
+    ).toBe(0);
     const lines = readFileSync(long, 'utf8').trim().split(/\r\n/);
     expect(lines[0]).toBe('row,column,value,source,baseline,spread');
     expect(lines).toContain('r1,a,1,observed,2.3,');
     expect(lines).toContain('r1,c,4.7,filled,4.7,');
     expect((await run('fill', input, '--out', join(dir, 'x.csv'), '--layout', 'long', '--mask')).code).toBe(2);
-    expect((await run('fill', input, '--out', join(dir, 'x.csv'), '--layout', 'wide')).stderr).toMatch(/--layout expects one of filled, estimates, long/);
+    expect((await run('fill', input, '--out', join(dir, 'x.csv'), '--layout', 'wide')).stderr).toMatch(
+      /--layout expects one of filled, estimates, long/,
+    );
   });
 });
 
@@ -159,11 +219,16 @@ describe('--duplicates and the --long hint', () => {
     const r = await run('fill', input, '--long', '--duplicates', 'average', '--out', avg);
     expect(r.code).toBe(0);
     expect(readFileSync(avg, 'utf8')).toContain('r1,a,2.5,observed'); // (1 + 4) / 2
-    expect((await run('fill', input, '--duplicates', 'last', '--out', join(dir, 'd3.csv'))).stderr).toMatch(/--duplicates applies to long input only/);
+    expect((await run('fill', input, '--duplicates', 'last', '--out', join(dir, 'd3.csv'))).stderr).toMatch(
+      /--duplicates applies to long input only/,
+    );
   });
 
   it('a long file read as wide ends with one line suggesting --long', async () => {
-    const text = ['row,column,value', ...Array.from({ length: 30 }, (_, i) => `p${i % 6},item ${i % 5},${1 + (i % 4)}`)].join('\n') + '\n';
+    const text =
+      ['row,column,value', ...Array.from({ length: 30 }, (_, i) => `p${i % 6},item ${i % 5},${1 + (i % 4)}`)].join(
+        '\n',
+      ) + '\n';
     const r = await run('evaluate', file('long-as-wide.csv', text));
     expect(r.code).toBe(2);
     const lines = r.stderr.trim().split('\n');
@@ -179,8 +244,29 @@ describe('--duplicates and the --long hint', () => {
 describe('tune honours --scale', () => {
   it('the scale given is the one used (and reported)', async () => {
     const input = file('tune.csv', WIDE);
-    const plain = JSON.parse((await run('tune', input, '--ranks', '0', '--lambdas', '1', '--centering', 'column', '--folds', '2', '--json')).stdout);
-    const scaled = JSON.parse((await run('tune', input, '--ranks', '0', '--lambdas', '1', '--centering', 'column', '--folds', '2', '--scale', '0:10:1', '--json')).stdout);
+    const plain = JSON.parse(
+      (await run('tune', input, '--ranks', '0', '--lambdas', '1', '--centering', 'column', '--folds', '2', '--json'))
+        .stdout,
+    );
+    const scaled = JSON.parse(
+      (
+        await run(
+          'tune',
+          input,
+          '--ranks',
+          '0',
+          '--lambdas',
+          '1',
+          '--centering',
+          'column',
+          '--folds',
+          '2',
+          '--scale',
+          '0:10:1',
+          '--json',
+        )
+      ).stdout,
+    );
     expect(plain.scale).toEqual({ min: 1, max: 5, step: 1 });
     expect(scaled.scale).toEqual({ min: 0, max: 10, step: 1 });
     // A step given with --scale rounds the estimates to it (a column mean of 2.5 → 3), so the errors differ.
@@ -192,7 +278,9 @@ describe('tune honours --scale', () => {
     const input = file('offstep.csv', 'who,a,b\nr1,1,4.5\nr2,2,3\nr3,7,1\n');
     const r = await run('evaluate', input, '--scale', '1:5:1');
     expect(r.code).toBe(2);
-    expect(r.stderr).toMatch(/offstep\.csv:2:3: 4\.5 lies between the allowed values 4 and 5 \(scale 1–5 in steps of 1\)/);
+    expect(r.stderr).toMatch(
+      /offstep\.csv:2:3: 4\.5 lies between the allowed values 4 and 5 \(scale 1–5 in steps of 1\)/,
+    );
     expect(r.stderr).toMatch(/offstep\.csv:4:2: 7 lies outside the scale 1–5 in steps of 1/);
   });
 });

@@ -22,9 +22,13 @@ async function run(...argv: string[]) {
 describe('rankfill intervals', () => {
   it('fill --level 0.9 --long writes lower,upper columns: inclusive, clipped, around every estimate', async () => {
     // --long reads triples too: the tall panel as row,column,value (blank cells left out).
-    const wide = tallPanelCsv(200, 10, 0.2, 9).trim().split('\n').map((l) => l.split(','));
+    const wide = tallPanelCsv(200, 10, 0.2, 9)
+      .trim()
+      .split('\n')
+      .map((l) => l.split(','));
     const triples = ['row,column,value'];
-    for (const r of wide.slice(1)) r.slice(1).forEach((v, j) => v !== '' && triples.push(`${r[0]},${wide[0][j + 1]},${v}`));
+    for (const r of wide.slice(1))
+      r.slice(1).forEach((v, j) => v !== '' && triples.push(`${r[0]},${wide[0][j + 1]},${v}`));
     const input = join(dir, 'tall.csv');
     writeFileSync(input, triples.join('\n') + '\n');
     const out = join(dir, 'tall-long.csv');
@@ -32,7 +36,13 @@ describe('rankfill intervals', () => {
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const j = JSON.parse(r.stdout);
-    expect(j.intervals).toMatchObject({ level: 0.9, boundsInclusive: true, clippedToScale: true, method: 'cross-validated normalized conformal', written: 'lower,upper columns' });
+    expect(j.intervals).toMatchObject({
+      level: 0.9,
+      boundsInclusive: true,
+      clippedToScale: true,
+      method: 'cross-validated normalized conformal',
+      written: 'lower,upper columns',
+    });
     expect(j.intervals.folds).toHaveLength(5);
     const lines = readFileSync(out, 'utf8').trim().split(/\r?\n/);
     expect(lines[0]).toBe('row,column,value,source,baseline,spread,lower,upper');
@@ -52,7 +62,12 @@ describe('rankfill intervals', () => {
     }
     expect(filled).toBe(j.filled);
     const sidecar = JSON.parse(readFileSync(join(dir, 'tall-long.settings.json'), 'utf8'));
-    expect(sidecar.intervals).toMatchObject({ level: 0.9, method: 'cross-validated normalized conformal', scaleFrom: 'error model', boundsInclusive: true });
+    expect(sidecar.intervals).toMatchObject({
+      level: 0.9,
+      method: 'cross-validated normalized conformal',
+      scaleFrom: 'error model',
+      boundsInclusive: true,
+    });
     expect(sidecar.intervals.heldOutCoverage).toBeCloseTo(j.intervals.heldOutCoverage, 12);
     expect(sidecar.intervals.meaning).toMatch(/on average over cells, not for each cell/);
   });

@@ -9,7 +9,14 @@ import { describe, expect, it } from 'vitest';
 import { appMenuTemplate } from '../../../src-main/hosts/electron/appMenu';
 import { commandHandlers, type CommandTargets } from '../../../src-renderer/commands/commandHandlers';
 import { CommandRegistry } from '../../../src-renderer/commands/commandRegistry';
-import { COMMAND_IDS, COMMAND_SHORTCUTS, commandForKey, parseAccelerator, parseCommand, type CommandId } from '../../../src-shared/commands';
+import {
+  COMMAND_IDS,
+  COMMAND_SHORTCUTS,
+  commandForKey,
+  parseAccelerator,
+  parseCommand,
+  type CommandId,
+} from '../../../src-shared/commands';
 
 /** Targets that record which function was called with what. */
 function recordingTargets(calls: string[]): CommandTargets {
@@ -18,9 +25,25 @@ function recordingTargets(calls: string[]): CommandTargets {
     (...args: unknown[]) => {
       calls.push(args.length ? `${name}(${args.join(',')})` : name);
     };
-  const group = <K extends string>(prefix: string, names: readonly K[]) => Object.fromEntries(names.map((n) => [n, rec(`${prefix}.${n}`)])) as Record<K, () => void>;
+  const group = <K extends string>(prefix: string, names: readonly K[]) =>
+    Object.fromEntries(names.map((n) => [n, rec(`${prefix}.${n}`)])) as Record<K, () => void>;
   return {
-    edit: group('edit', ['undo', 'redo', 'addRow', 'addColumn', 'renameRow', 'renameColumn', 'deleteRows', 'deleteColumns', 'moveRow', 'moveColumn', 'sortByLabel', 'sortByColumn', 'transpose', 'editScale'] as const),
+    edit: group('edit', [
+      'undo',
+      'redo',
+      'addRow',
+      'addColumn',
+      'renameRow',
+      'renameColumn',
+      'deleteRows',
+      'deleteColumns',
+      'moveRow',
+      'moveColumn',
+      'sortByLabel',
+      'sortByColumn',
+      'transpose',
+      'editScale',
+    ] as const),
     files: group('files', ['save', 'saveAs', 'open', 'openRecent', 'clearRecent', 'closeRequested'] as const),
     chooseSample: rec('chooseSample'),
     chooseImportFile: rec('chooseImportFile'),
@@ -63,7 +86,9 @@ describe('command registry', () => {
     const errors: string[] = [];
     const targets = recordingTargets(calls);
     targets.files.save = () => Promise.reject(new Error('disk full'));
-    const reg = new CommandRegistry(commandHandlers(targets), (id, err) => errors.push(`${id}: ${(err as Error).message}`));
+    const reg = new CommandRegistry(commandHandlers(targets), (id, err) =>
+      errors.push(`${id}: ${(err as Error).message}`),
+    );
     expect(reg.runWire('file.openRecent.2')).toBe(true);
     expect(reg.runWire('file.openRecent')).toBe(false);
     expect(reg.runWire('file.format-disk')).toBe(false);

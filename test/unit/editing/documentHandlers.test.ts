@@ -23,7 +23,12 @@ const h = createDocumentHandlers({
 
 const project = (v: number) =>
   serializeProject({
-    ...newProjectDocument({ rowLabels: ['a', 'b'], colLabels: ['x'], values: Float64Array.from([v, NaN]), scale: { min: 1, max: 5, step: 1 } }),
+    ...newProjectDocument({
+      rowLabels: ['a', 'b'],
+      colLabels: ['x'],
+      values: Float64Array.from([v, NaN]),
+      scale: { min: 1, max: 5, step: 1 },
+    }),
     notes: `v${v}`,
   });
 
@@ -31,7 +36,15 @@ describe('document handlers', () => {
   it('previews a semicolon file with decimal commas, and refuses a ragged one with line:column problems', async () => {
     const ok = await h['document.previewImport']({ fileName: 's.csv', text: 'who;q1;q2\nann;3,5;\nbo;NA;4\n' });
     if (!ok.ok) throw new Error(JSON.stringify(ok.problems));
-    expect(ok.info).toMatchObject({ delimiter: ';', layout: 'wide', decimalComma: true, rows: 2, cols: 2, observed: 2, offThread: false });
+    expect(ok.info).toMatchObject({
+      delimiter: ';',
+      layout: 'wide',
+      decimalComma: true,
+      rows: 2,
+      cols: 2,
+      observed: 2,
+      offThread: false,
+    });
     expect(ok.document.matrix.values).toEqual([3.5, null, null, 4]);
     const bad = await h['document.previewImport']({ fileName: 'r.csv', text: 'id,a,b\nr1,1,2\nr2,3\n' });
     expect(bad.ok).toBe(false);
@@ -42,7 +55,12 @@ describe('document handlers', () => {
     const text = 'row,col,value\nr1,c1,2\nr1,c1,4\nr2,c1,missing\n';
     const refused = await h['document.previewImport']({ fileName: 'l.csv', text, missingTokens: ['missing'] });
     expect(refused.ok).toBe(false);
-    const averaged = await h['document.previewImport']({ fileName: 'l.csv', text, missingTokens: ['missing'], duplicates: 'average' });
+    const averaged = await h['document.previewImport']({
+      fileName: 'l.csv',
+      text,
+      missingTokens: ['missing'],
+      duplicates: 'average',
+    });
     if (!averaged.ok) throw new Error(JSON.stringify(averaged.problems));
     // Source: arithmetic mean of 2 and 4.
     expect(averaged.document.matrix.values).toEqual([3, null]);
@@ -76,7 +94,10 @@ describe('document handlers', () => {
     const p = join(dir, 'no-such-folder', 'x.rankfill');
     const reply = await h['project.save']({ path: p, projectText: project(3) });
     expect(reply.ok).toBe(false);
-    if (!reply.ok) expect(reply.problems[0].message).toBe(`cannot save: the folder ${join(dir, 'no-such-folder')} does not exist; create it first or choose another folder (nothing was written)`);
+    if (!reply.ok)
+      expect(reply.problems[0].message).toBe(
+        `cannot save: the folder ${join(dir, 'no-such-folder')} does not exist; create it first or choose another folder (nothing was written)`,
+      );
   });
 
   it('opening a truncated or future-version file answers with problems, never a project', async () => {

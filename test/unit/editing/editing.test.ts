@@ -20,7 +20,12 @@ import { formatTabBlock, parseTabBlock } from '../../../src-renderer/editing/tab
 const N = NaN;
 /** 3 × 2 matrix, 1–5 scale:  a: 1 _ / b: 5 2 / c: _ 4 */
 function sample(): RatingMatrix {
-  return { rowLabels: ['a', 'b', 'c'], colLabels: ['x', 'y'], values: Float64Array.from([1, N, 5, 2, N, 4]), scale: { min: 1, max: 5, step: 1 } };
+  return {
+    rowLabels: ['a', 'b', 'c'],
+    colLabels: ['x', 'y'],
+    values: Float64Array.from([1, N, 5, 2, N, 4]),
+    scale: { min: 1, max: 5, step: 1 },
+  };
 }
 const vals = (m: RatingMatrix) => Array.from(m.values, (v) => (Number.isNaN(v) ? null : v));
 function ok<T extends { ok: boolean }>(r: T): Extract<T, { ok: true }> {
@@ -129,7 +134,12 @@ describe('row and column operations', () => {
     expect(moveRow(sample(), 0, -1).ok).toBe(false);
   });
   it('sorts rows by label in natural order and by a column with blanks last', () => {
-    const m: RatingMatrix = { rowLabels: ['Row 10', 'Row 2', 'row 1'], colLabels: ['v'], values: Float64Array.from([3, N, 1]), scale: { min: 1, max: 5, step: 1 } };
+    const m: RatingMatrix = {
+      rowLabels: ['Row 10', 'Row 2', 'row 1'],
+      colLabels: ['v'],
+      values: Float64Array.from([3, N, 1]),
+      scale: { min: 1, max: 5, step: 1 },
+    };
     // Source: natural ("numeric") collation as in Intl.Collator with numeric: true (ECMA-402).
     expect(sortRows(m, { by: 'label' }).rowLabels).toEqual(['row 1', 'Row 2', 'Row 10']);
     expect(sortRows(m, { by: 'label' }, 'desc').rowLabels).toEqual(['Row 10', 'Row 2', 'row 1']);

@@ -101,7 +101,16 @@ describe('determinism and failures', () => {
     const values = Float64Array.from([1, Infinity, 2, 3]);
     expect(() => fitModel(matrixOf(2, 2, values), base())).toThrow('non-finite value at row 1, column 2');
     expect(() => fitModel(matrixOf(2, 2, new Float64Array(4).fill(NaN)), base())).toThrow('no observed values');
-    expect(() => fitModel(matrixOf(2, 2, values.map(() => 1)), { ...base(), rank: -1 })).toThrow('rank');
+    expect(() =>
+      fitModel(
+        matrixOf(
+          2,
+          2,
+          values.map(() => 1),
+        ),
+        { ...base(), rank: -1 },
+      ),
+    ).toThrow('rank');
   });
 
   it('a non-finite start ends the fit with a clear error instead of returning NaN', () => {
@@ -109,7 +118,9 @@ describe('determinism and failures', () => {
     const { matrix } = lowRankCase(12, 9, 2, 0.3, 0.7, 24);
     const rowFactors = new Float64Array(12 * 2).fill(Infinity);
     const colFactors = new Float64Array(9 * 2).fill(1);
-    expect(() => fitModel(matrix, { ...base(), rank: 2 }, { warmStart: { rowFactors, colFactors } })).toThrow(/not finite/);
+    expect(() => fitModel(matrix, { ...base(), rank: 2 }, { warmStart: { rowFactors, colFactors } })).toThrow(
+      /not finite/,
+    );
   });
 
   it('a warm start from a converged fit converges again at once', () => {
@@ -119,17 +130,24 @@ describe('determinism and failures', () => {
     const first = fitModel(matrix, s);
     const again = fitModel(matrix, s, { warmStart: { rowFactors: first.rowFactors, colFactors: first.colFactors } });
     expect(again.iterations).toBeLessThan(first.iterations);
-    expect(again.objectiveTrace[again.objectiveTrace.length - 1]).toBeCloseTo(first.objectiveTrace[first.objectiveTrace.length - 1], 6);
+    expect(again.objectiveTrace[again.objectiveTrace.length - 1]).toBeCloseTo(
+      first.objectiveTrace[first.objectiveTrace.length - 1],
+      6,
+    );
   });
 
   it('reports progress and stops when asked', () => {
     const { matrix } = lowRankCase(40, 30, 3, 0.3, 0.5, 22);
     const seen: number[] = [];
     expect(() =>
-      fitModel(matrix, { ...base(), rank: 3, tolerance: 0, maxIterations: 50 }, {
-        onProgress: (p) => seen.push(p.iteration),
-        shouldStop: () => seen.length >= 2,
-      }),
+      fitModel(
+        matrix,
+        { ...base(), rank: 3, tolerance: 0, maxIterations: 50 },
+        {
+          onProgress: (p) => seen.push(p.iteration),
+          shouldStop: () => seen.length >= 2,
+        },
+      ),
     ).toThrow('fit cancelled');
     expect(seen).toEqual([1, 2]);
     // A stop requested before anything ran also cancels (checked during the spectral start).
@@ -138,7 +156,16 @@ describe('determinism and failures', () => {
 
   it('gaussian family is dispatched (or reported missing) through fitModel', () => {
     const { matrix } = lowRankCase(10, 6, 1, 0.3, 0.9, 23);
-    const g = { model: 'gaussian' as const, shrinkage: 0.1, transpose: false, maxIterations: 5, tolerance: 1e-6, seed: 1, clipToScale: false, snapToStep: false };
+    const g = {
+      model: 'gaussian' as const,
+      shrinkage: 0.1,
+      transpose: false,
+      maxIterations: 5,
+      tolerance: 1e-6,
+      seed: 1,
+      clipToScale: false,
+      snapToStep: false,
+    };
     try {
       const r = fitModel(matrix, g);
       expect(r.predictions.length).toBe(60);

@@ -7,7 +7,15 @@ import { lowRankCase } from './helpers';
 
 describe('contributions of observed cells to a filled value', () => {
   const { matrix } = lowRankCase(30, 20, 2, 0.3, 0.5, 11);
-  const settings = { ...defaultLowRankSettings(), rank: 2, lambda: 2, centering: 'row' as const, tolerance: 1e-12, maxIterations: 500, clipToScale: false };
+  const settings = {
+    ...defaultLowRankSettings(),
+    rank: 2,
+    lambda: 2,
+    centering: 'row' as const,
+    tolerance: 1e-12,
+    maxIterations: 500,
+    clipToScale: false,
+  };
   const result = fitModel(matrix, settings);
   const cols = 20;
 
@@ -27,13 +35,19 @@ describe('contributions of observed cells to a filled value', () => {
     expect(ex.contributions.length).toBe(obs.length);
     // Sorted by size of contribution.
     for (let t = 1; t < ex.contributions.length; t++) {
-      expect(Math.abs(ex.contributions[t - 1].contribution)).toBeGreaterThanOrEqual(Math.abs(ex.contributions[t].contribution));
+      expect(Math.abs(ex.contributions[t - 1].contribution)).toBeGreaterThanOrEqual(
+        Math.abs(ex.contributions[t].contribution),
+      );
     }
   });
 
   it('add up, at convergence, to the fitted interaction term: prediction = baseline + Σ contributions', () => {
     // Follows from ALS stationarity: at a fixed point u_i is the ridge solution given V (common practice, no source).
-    for (const [i, j] of [[0, 1], [7, 3], [21, 19]]) {
+    for (const [i, j] of [
+      [0, 1],
+      [7, 3],
+      [21, 19],
+    ]) {
       const ex = explainCell(matrix.values, result, i, j)!;
       expect(ex.baseline + ex.interaction).toBeCloseTo(result.predictions[i * cols + j], 5);
     }

@@ -27,7 +27,15 @@ function exactCase(rows: number, cols: number, k: number, centering: Centering, 
       truth[i * cols + j] = s;
       mask[i * cols + j] = rng.next() < 0.7 ? 1 : 0;
     }
-  return { matrix: matrixOf(rows, cols, truth.map((x, q) => (mask[q] ? x : NaN))), truth, mask };
+  return {
+    matrix: matrixOf(
+      rows,
+      cols,
+      truth.map((x, q) => (mask[q] ? x : NaN)),
+    ),
+    truth,
+    mask,
+  };
 }
 
 describe('convergence floor on exact low-rank matrices', () => {
@@ -51,7 +59,8 @@ describe('convergence floor on exact low-rank matrices', () => {
         expect(fit.converged).toBe(true);
         expect(fit.iterations).toBeLessThan(1000);
         let worst = 0;
-        for (let q = 0; q < mask.length; q++) if (!mask[q]) worst = Math.max(worst, Math.abs(fit.predictions[q] - truth[q]));
+        for (let q = 0; q < mask.length; q++)
+          if (!mask[q]) worst = Math.max(worst, Math.abs(fit.predictions[q] - truth[q]));
         // Entries are O(1): an exact recovery leaves only rounding-sized errors on hidden cells.
         expect(worst).toBeLessThan(1e-6);
       });

@@ -66,7 +66,11 @@ describe('crossValidate', () => {
     const cols = 8;
     const folds = makeFolds(matrix, 4, 3);
     const foldOf = cellFolds(matrix, folds);
-    const cv = crossValidate(matrix, { ...defaultLowRankSettings(), rank: 0, centering: 'column', clipToScale: false }, folds);
+    const cv = crossValidate(
+      matrix,
+      { ...defaultLowRankSettings(), rank: 0, centering: 'column', clipToScale: false },
+      folds,
+    );
     const rmses: number[] = [];
     for (let f = 0; f < 4; f++) {
       let se = 0;

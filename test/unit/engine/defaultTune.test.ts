@@ -2,7 +2,13 @@ import { describe, expect, it } from 'vitest';
 import { tuneDefault } from '../../../src-shared/engine/defaultTune';
 import { defaultGrid } from '../../../src-shared/engine/tuningGrid';
 import { tune } from '../../../src-shared/engine/tuning';
-import { autoSettings, baselineCandidates, chooseAuto, factorCandidates, spreadRanks } from '../../../src-shared/engine/autoSettings';
+import {
+  autoSettings,
+  baselineCandidates,
+  chooseAuto,
+  factorCandidates,
+  spreadRanks,
+} from '../../../src-shared/engine/autoSettings';
 import { crossValidate, makeFolds } from '../../../src-shared/engine/crossValidation';
 import { defaultLowRankSettings } from '../../../src-shared/engine/defaults';
 import type { LowRankSettings } from '../../../src-shared/engine/types';
@@ -15,7 +21,8 @@ function additiveCase(rows: number, cols: number, seed: number) {
   const a = Array.from({ length: rows }, () => rng.normal());
   const b = Array.from({ length: cols }, () => rng.normal());
   const values = new Float64Array(rows * cols).fill(NaN);
-  for (let i = 0; i < rows; i++) for (let j = 0; j < cols; j++) if (rng.next() < 0.5) values[i * cols + j] = 3 + a[i] + b[j] + 0.5 * rng.normal();
+  for (let i = 0; i < rows; i++)
+    for (let j = 0; j < cols; j++) if (rng.next() < 0.5) values[i * cols + j] = 3 + a[i] + b[j] + 0.5 * rng.normal();
   return matrixOf(rows, cols, values);
 }
 
@@ -68,7 +75,12 @@ describe('the adaptive default for a first Fill', () => {
 
   it('has rank 0 among its candidates, so it is never worse in its cross-validation than the baselines', () => {
     const m = additiveCase(40, 25, 2);
-    expect(baselineCandidates(m).map((s) => `${s.rank}/${s.centering}`)).toEqual(['0/none', '0/row', '0/column', '0/both']);
+    expect(baselineCandidates(m).map((s) => `${s.rank}/${s.centering}`)).toEqual([
+      '0/none',
+      '0/row',
+      '0/column',
+      '0/both',
+    ]);
     const factors = factorCandidates(m, 'both');
     expect(factors.length).toBe(9);
     expect(factors.every((s) => s.rank > 0 && s.centering === 'both')).toBe(true);
@@ -89,15 +101,26 @@ describe('the adaptive default for a first Fill', () => {
     const a = autoSettings(matrix, { seed: 2 });
     expect(a.settings.rank).toBeGreaterThanOrEqual(3);
     expect(a.baselineRmse - a.rmse).toBeGreaterThan(0.5);
-    expect(a.reason).toMatch(/^rank \d+, λ [\d.]+, none: lowest 3-fold error of 13 settings; \d\.\d{3} better than baselines alone$/);
+    expect(a.reason).toMatch(
+      /^rank \d+, λ [\d.]+, none: lowest 3-fold error of 13 settings; \d\.\d{3} better than baselines alone$/,
+    );
   });
 
   it('chooses rank 0 when nothing beats it, and falls back to the defaults on tiny data', () => {
     const s = defaultLowRankSettings();
-    const row = (rank: number, meanRmse: number) => ({ settings: { ...s, rank }, meanRmse, sdRmse: 0, meanMae: 0, sdMae: 0, folds: [] });
+    const row = (rank: number, meanRmse: number) => ({
+      settings: { ...s, rank },
+      meanRmse,
+      sdRmse: 0,
+      meanMae: 0,
+      sdMae: 0,
+      folds: [],
+    });
     const c = chooseAuto([row(0, 0.8), row(2, 0.81), row(5, 0.85)], 3, s);
     expect(c.settings.rank).toBe(0);
-    expect(c.reason).toBe('rank 0 (baselines alone), both: lowest 3-fold error of 3 settings; no setting with hidden traits did better');
+    expect(c.reason).toBe(
+      'rank 0 (baselines alone), both: lowest 3-fold error of 3 settings; no setting with hidden traits did better',
+    );
     const tiny = autoSettings(matrixOf(2, 2, Float64Array.from([1, 2, NaN, 4])));
     expect(tiny.settings.rank).toBe(s.rank);
     expect(tiny.reason).toMatch(/too few to cross-validate/);

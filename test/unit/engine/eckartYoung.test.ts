@@ -8,7 +8,10 @@ describe('rank-k fit of a fully observed matrix', () => {
   // Source: Eckart–Young–Mirsky theorem — the best rank-k approximation in Frobenius norm is
   // the truncated SVD; with λ = 0 and no centering the ALS objective is exactly that problem.
   // Reference SVD: ml-matrix.
-  for (const [rows, cols, k, seed] of [[30, 20, 3, 1], [25, 40, 2, 2]] as const) {
+  for (const [rows, cols, k, seed] of [
+    [30, 20, 3, 1],
+    [25, 40, 2, 2],
+  ] as const) {
     it(`${rows}×${cols}, rank ${k}: reconstruction equals the truncated SVD to 1e-6`, () => {
       const { matrix, noisy } = lowRankCase(rows, cols, k, 0.5, 1.1, seed); // observed fraction > 1 → all cells
       const fit = fitModel(matrix, {

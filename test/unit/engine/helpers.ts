@@ -2,11 +2,16 @@
 import type { RatingMatrix } from '../../../src-shared/matrix/ratingMatrix';
 import { createRng } from '../../../src-shared/engine/random';
 
-export function labels(prefix: string, n: number): string[] {
+function labels(prefix: string, n: number): string[] {
   return Array.from({ length: n }, (_, i) => `${prefix}${i + 1}`);
 }
 
-export function matrixOf(rows: number, cols: number, values: Float64Array, scale = { min: -1e9, max: 1e9, step: 0 }): RatingMatrix {
+export function matrixOf(
+  rows: number,
+  cols: number,
+  values: Float64Array,
+  scale = { min: -1e9, max: 1e9, step: 0 },
+): RatingMatrix {
   return { rowLabels: labels('r', rows), colLabels: labels('c', cols), values, scale };
 }
 

@@ -26,7 +26,10 @@ describe.skipIf(!available)('movie-ratings-small, 5-fold cross-validation', () =
     expect(global.meanRmse).toBeLessThan(1.1);
     // Source: reference figure 0.867 for ALS rank 10, λ 10 on two-way-centred residuals.
     // Only the first fold (k: 1 makes crossValidate stop after fold 0), to keep the test quick.
-    const als = crossValidate(m, { ...base, rank: 10, lambda: 10, maxIterations: 15, tolerance: 1e-4 }, { ...folds, k: 1 } as typeof folds);
+    const als = crossValidate(m, { ...base, rank: 10, lambda: 10, maxIterations: 15, tolerance: 1e-4 }, {
+      ...folds,
+      k: 1,
+    } as typeof folds);
     expect(als.meanRmse).toBeLessThan(baseline.folds[0].rmse + 0.005);
   });
 });

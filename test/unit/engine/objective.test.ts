@@ -22,8 +22,10 @@ function objectiveFromDefinition(values: Float64Array, r: FitResult, lambda: num
       loss += e * e;
     }
   let pen = 0;
-  for (let i = 0; i < rows; i++) for (let c = 0; c < k; c++) pen += (byCount ? nRow[i] : 1) * r.rowFactors[i * k + c] ** 2;
-  for (let j = 0; j < cols; j++) for (let c = 0; c < k; c++) pen += (byCount ? nCol[j] : 1) * r.colFactors[j * k + c] ** 2;
+  for (let i = 0; i < rows; i++)
+    for (let c = 0; c < k; c++) pen += (byCount ? nRow[i] : 1) * r.rowFactors[i * k + c] ** 2;
+  for (let j = 0; j < cols; j++)
+    for (let c = 0; c < k; c++) pen += (byCount ? nCol[j] : 1) * r.colFactors[j * k + c] ** 2;
   return 0.5 * loss + 0.5 * lambda * pen;
 }
 
@@ -31,15 +33,40 @@ describe('the recorded objective', () => {
   // The trace is collected inside the half-steps by an algebraic identity; here it is checked
   // against the objective's definition (stated in lowRank.ts), computed independently.
   const cases = [
-    { name: 'sparse rows (fewer observations than the rank: dual form)', rows: 40, cols: 30, rank: 6, observed: 0.12, lambda: 2, byCount: false },
+    {
+      name: 'sparse rows (fewer observations than the rank: dual form)',
+      rows: 40,
+      cols: 30,
+      rank: 6,
+      observed: 0.12,
+      lambda: 2,
+      byCount: false,
+    },
     { name: 'λ scaled by counts', rows: 30, cols: 25, rank: 3, observed: 0.5, lambda: 0.3, byCount: true },
-    { name: 'a complete matrix with λ = 0 (tiny loss: the direct-sum fallback)', rows: 12, cols: 10, rank: 2, observed: 1, lambda: 0, byCount: false },
+    {
+      name: 'a complete matrix with λ = 0 (tiny loss: the direct-sum fallback)',
+      rows: 12,
+      cols: 10,
+      rank: 2,
+      observed: 1,
+      lambda: 0,
+      byCount: false,
+    },
   ];
   for (const c of cases) {
     it(c.name, () => {
       const { matrix } = lowRankCase(c.rows, c.cols, c.rank, c.observed === 1 ? 0 : 0.2, c.observed, 5);
       for (const iterations of [1, 3, 25]) {
-        const settings = { ...defaultLowRankSettings(), rank: c.rank, lambda: c.lambda, scaleLambdaByCount: c.byCount, centering: 'both' as const, maxIterations: iterations, tolerance: 0, clipToScale: false };
+        const settings = {
+          ...defaultLowRankSettings(),
+          rank: c.rank,
+          lambda: c.lambda,
+          scaleLambdaByCount: c.byCount,
+          centering: 'both' as const,
+          maxIterations: iterations,
+          tolerance: 0,
+          clipToScale: false,
+        };
         const r = fitModel(matrix, settings);
         const recorded = r.objectiveTrace[r.objectiveTrace.length - 1];
         const direct = objectiveFromDefinition(matrix.values, r, c.lambda, c.byCount);

@@ -15,7 +15,15 @@ describe('low-rank recovery', () => {
   for (const seed of [11, 12, 13]) {
     it(`recovers hidden cells to RMSE < 1.5σ (seed ${seed})`, () => {
       const { matrix, noisy, mask } = lowRankCase(120, 80, 3, sigma, 0.5, seed);
-      const fit = fitModel(matrix, { ...defaultLowRankSettings(), rank: 3, lambda: 0.1, centering: 'none', clipToScale: false, seed, maxIterations: 300 });
+      const fit = fitModel(matrix, {
+        ...defaultLowRankSettings(),
+        rank: 3,
+        lambda: 0.1,
+        centering: 'none',
+        clipToScale: false,
+        seed,
+        maxIterations: 300,
+      });
       let se = 0;
       let n = 0;
       for (let c = 0; c < mask.length; c++)
@@ -33,7 +41,14 @@ describe('low-rank recovery', () => {
   it('objective never increases along the trace', () => {
     // Source: block coordinate descent — each exact ridge half-step minimizes the objective in its block.
     const { matrix } = lowRankCase(60, 50, 4, 0.3, 0.4, 5);
-    const fit = fitModel(matrix, { ...defaultLowRankSettings(), rank: 4, lambda: 0.5, centering: 'both', tolerance: 0, maxIterations: 40 });
+    const fit = fitModel(matrix, {
+      ...defaultLowRankSettings(),
+      rank: 4,
+      lambda: 0.5,
+      centering: 'both',
+      tolerance: 0,
+      maxIterations: 40,
+    });
     for (let t = 1; t < fit.objectiveTrace.length; t++) {
       expect(fit.objectiveTrace[t]).toBeLessThanOrEqual(fit.objectiveTrace[t - 1] * (1 + 1e-12));
     }

@@ -15,7 +15,10 @@ describe('ALS half-step = ridge regression', () => {
     const ptr = Int32Array.from([0, 5, 9]);
     const nbr = Int32Array.from([0, 2, 3, 5, 8, 1, 4, 6, 7]);
     const res = new Float64Array(9).map(() => rng.normal());
-    for (const [lambda, scaled] of [[0.7, false], [0.3, true]] as const) {
+    for (const [lambda, scaled] of [
+      [0.7, false],
+      [0.3, true],
+    ] as const) {
       const out = new Float64Array(2 * k);
       ridgeHalfStep(out, other, ptr, nbr, res, lambda, scaled, createWorkspace(k));
       for (let e = 0; e < 2; e++) {
@@ -40,7 +43,10 @@ describe('ALS half-step = ridge regression', () => {
     const ptr = Int32Array.from([0, 2, 7, 8]);
     const nbr = Int32Array.from([3, 6, 0, 1, 2, 4, 7, 5]);
     const res = new Float64Array(8).map(() => rng.normal());
-    for (const [lambda, scaled] of [[0.5, false], [0.2, true]] as const) {
+    for (const [lambda, scaled] of [
+      [0.5, false],
+      [0.2, true],
+    ] as const) {
       const out = new Float64Array(3 * k);
       ridgeHalfStep(out, other, ptr, nbr, res, lambda, scaled, createWorkspace(k));
       for (let e = 0; e < 3; e++) {

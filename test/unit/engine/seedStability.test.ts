@@ -1,5 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { compareSeedFits, describeSeedStability, moveThreshold, seedStability } from '../../../src-shared/engine/seedStability';
+import {
+  compareSeedFits,
+  describeSeedStability,
+  moveThreshold,
+  seedStability,
+} from '../../../src-shared/engine/seedStability';
 import { defaultLowRankSettings } from '../../../src-shared/engine/defaults';
 import { lowRankCase, matrixOf } from './helpers';
 
@@ -17,7 +22,9 @@ describe('seed stability', () => {
     expect(r.maxMove).toBe(1);
     expect(r.meanMove).toBeCloseTo(1.4 / 4, 12);
     expect(r.flagged).toBe(true);
-    expect(describeSeedStability(r)).toMatch(/^the estimates depend on the start: with seed 2 instead of 1, 2 of 4 filled cells \(50\.0 %\) move by more than 0\.25/);
+    expect(describeSeedStability(r)).toMatch(
+      /^the estimates depend on the start: with seed 2 instead of 1, 2 of 4 filled cells \(50\.0 %\) move by more than 0\.25/,
+    );
     expect(moveThreshold({ min: 0, max: 10, step: 0 })).toBe(0.5);
   });
 
@@ -26,7 +33,14 @@ describe('seed stability', () => {
     // rank-2 matrix (Jain, Netrapalli & Sanghavi 2013), whatever the power iteration's seed.
     const { matrix } = lowRankCase(50, 40, 2, 0.05, 0.6, 3);
     const m = { ...matrix, scale: { min: -20, max: 20, step: 0.5 } };
-    const r = seedStability(m, { ...defaultLowRankSettings(), rank: 2, lambda: 0.1, centering: 'none', maxIterations: 300, tolerance: 1e-10 });
+    const r = seedStability(m, {
+      ...defaultLowRankSettings(),
+      rank: 2,
+      lambda: 0.1,
+      centering: 'none',
+      maxIterations: 300,
+      tolerance: 1e-10,
+    });
     expect(r.cells).toBeGreaterThan(0);
     expect(r.moved).toBe(0);
     expect(r.flagged).toBe(false);
@@ -37,7 +51,15 @@ describe('seed stability', () => {
     // Two random starts after 2 sweeps are far from each other on a rank-4 problem (common practice, no source).
     const { matrix } = lowRankCase(40, 30, 4, 0.1, 0.4, 8);
     const m = { ...matrix, scale: { min: -20, max: 20, step: 0.5 } };
-    const r = seedStability(m, { ...defaultLowRankSettings(), rank: 4, lambda: 0.01, centering: 'none', init: 'random', maxIterations: 2, tolerance: 0 });
+    const r = seedStability(m, {
+      ...defaultLowRankSettings(),
+      rank: 4,
+      lambda: 0.01,
+      centering: 'none',
+      init: 'random',
+      maxIterations: 2,
+      tolerance: 0,
+    });
     expect(r.flagged).toBe(true);
     expect(r.movedFraction).toBeGreaterThan(0.01);
   });

@@ -52,6 +52,7 @@ describe('tune', () => {
     const cold = tune(matrix, { settings: list }, 4, 9, undefined, undefined, { reuse: false });
     const again = tune(matrix, { settings: [list[7]] }, 4, 9);
     expect(again.table[0].folds).toEqual(cold.table[7].folds);
-    for (let t = 0; t < list.length; t++) expect(Math.abs(result.table[t].meanRmse - cold.table[t].meanRmse)).toBeLessThan(1e-3);
+    for (let t = 0; t < list.length; t++)
+      expect(Math.abs(result.table[t].meanRmse - cold.table[t].meanRmse)).toBeLessThan(1e-3);
   });
 });

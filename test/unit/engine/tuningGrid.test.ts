@@ -35,7 +35,10 @@ describe('data-derived λ centre', () => {
           dense.set(i, j, y);
         }
     const s = summarizeForGrid(matrixOf(rows, cols, values));
-    const sigma1 = new SingularValueDecomposition(dense, { computeLeftSingularVectors: false, computeRightSingularVectors: false }).diagonal[0];
+    const sigma1 = new SingularValueDecomposition(dense, {
+      computeLeftSingularVectors: false,
+      computeRightSingularVectors: false,
+    }).diagonal[0];
     // The two-way baseline takes a little out of the noise; finite-size fluctuation is a few %.
     expect(centreLambda(s) / sigma1).toBeGreaterThan(0.9);
     expect(centreLambda(s) / sigma1).toBeLessThan(1.1);
@@ -66,11 +69,19 @@ describe('top of the λ grid', () => {
     const values = new Float64Array(rows * cols).fill(NaN);
     const u = Array.from({ length: rows }, () => rng.normal());
     const v = Array.from({ length: cols }, () => rng.normal());
-    for (let i = 0; i < rows; i++) for (let j = 0; j < cols; j++) if (rng.next() < 0.5) values[i * cols + j] = u[i] * v[j] + 0.3 * rng.normal();
+    for (let i = 0; i < rows; i++)
+      for (let j = 0; j < cols; j++) if (rng.next() < 0.5) values[i * cols + j] = u[i] * v[j] + 0.3 * rng.normal();
     const m = matrixOf(rows, cols, values);
     const s = summarizeForGrid(m);
     const sigma1 = s.topSingular!;
-    const settings = { ...defaultLowRankSettings(), rank: 2, centering: 'both' as const, clipToScale: false, maxIterations: 400, tolerance: 0 };
+    const settings = {
+      ...defaultLowRankSettings(),
+      rank: 2,
+      centering: 'both' as const,
+      clipToScale: false,
+      maxIterations: 400,
+      tolerance: 0,
+    };
     const above = fitModel(m, { ...settings, lambda: 1.1 * sigma1 });
     expect(Math.max(...above.rowFactors.map(Math.abs))).toBeLessThan(1e-3);
     const below = fitModel(m, { ...settings, lambda: 0.9 * sigma1 });

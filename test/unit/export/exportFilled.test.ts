@@ -3,7 +3,12 @@ import Papa from 'papaparse';
 import { describe, expect, it } from 'vitest';
 import { defaultLowRankSettings } from '../../../src-shared/engine/defaults';
 import { fitModel } from '../../../src-shared/engine/fitModel';
-import { buildExport, buildSidecar, exportedEstimate, matrixFingerprintText } from '../../../src-shared/io/exportFilled';
+import {
+  buildExport,
+  buildSidecar,
+  exportedEstimate,
+  matrixFingerprintText,
+} from '../../../src-shared/io/exportFilled';
 import type { RatingMatrix } from '../../../src-shared/matrix/ratingMatrix';
 
 const matrix: RatingMatrix = {
@@ -19,7 +24,14 @@ const parse = (text: string, delimiter = ',') => Papa.parse<string[]>(text.trimE
 
 describe('exports of the filled matrix', () => {
   it('wide: observed cells unchanged, blanks filled, corner cell says they are estimates', () => {
-    const rows = parse(buildExport(matrix, result, undefined, { kind: 'filled-wide', roundToStep: false, decimals: null, delimiter: ',' }));
+    const rows = parse(
+      buildExport(matrix, result, undefined, {
+        kind: 'filled-wide',
+        roundToStep: false,
+        decimals: null,
+        delimiter: ',',
+      }),
+    );
     expect(rows[0][0]).toContain('model estimates');
     expect(rows[0].slice(1)).toEqual(['x', 'y', 'z', 'w']);
     expect(rows.map((r) => r[0]).slice(1)).toEqual(matrix.rowLabels);
@@ -33,7 +45,15 @@ describe('exports of the filled matrix', () => {
   });
 
   it('estimates only: observed cells are blank', () => {
-    const rows = parse(buildExport(matrix, result, undefined, { kind: 'estimates-wide', roundToStep: true, decimals: null, delimiter: ';' }), ';');
+    const rows = parse(
+      buildExport(matrix, result, undefined, {
+        kind: 'estimates-wide',
+        roundToStep: true,
+        decimals: null,
+        delimiter: ';',
+      }),
+      ';',
+    );
     expect(rows[1][1]).toBe('');
     expect(rows[1][2]).not.toBe('');
     // Rounded to the 0.5 step.
@@ -42,7 +62,10 @@ describe('exports of the filled matrix', () => {
 
   it('long: every cell with its source, baseline and spread; filled cells never unmarked', () => {
     const spread = new Float64Array(12).fill(0.25);
-    const rows = parse(buildExport(matrix, result, spread, { kind: 'long', roundToStep: false, decimals: 2, delimiter: '\t' }), '\t');
+    const rows = parse(
+      buildExport(matrix, result, spread, { kind: 'long', roundToStep: false, decimals: 2, delimiter: '\t' }),
+      '\t',
+    );
     expect(rows[0]).toEqual(['row', 'column', 'value', 'source', 'baseline', 'spread']);
     expect(rows.length - 1).toBe(12);
     const filled = rows.slice(1).filter((r) => r[3] === 'filled');

@@ -9,7 +9,7 @@
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { describe, expect, it } from "vitest";
+import { describe, expect, it } from 'vitest';
 import { runCli } from '../../../src-main/cli/main';
 import { buildExport, buildMask } from '../../../src-shared/io/exportFilled';
 import { parseDelimited } from '../../../src-shared/io/parseDelimited';
@@ -59,7 +59,9 @@ describe('CSV formula guard (OWASP, "CSV Injection")', () => {
     expect(mask[4]).toBe("'@evil,observed,observed,filled");
     const fit = fitModel(m, { ...defaultLowRankSettings(), rank: 0 });
     const exported = buildExport(m, fit, undefined, { kind: 'long', roundToStep: false, decimals: 2, delimiter: ',' });
-    expect(exported.split('\r\n')[1]).toMatch(/^"'=HYPERLINK\(""http:\/\/x\.example"",""click""\)",'\+1\+1,-1\.5,observed,/);
+    expect(exported.split('\r\n')[1]).toMatch(
+      /^"'=HYPERLINK\(""http:\/\/x\.example"",""click""\)",'\+1\+1,-1\.5,observed,/,
+    );
     // No record anywhere starts a cell with a formula character, except plain numbers.
     const cells = [...wide, ...long, ...mask, ...exported.split('\r\n')].flatMap((l) => l.split(','));
     expect(cells.filter((c) => startsLikeFormula(c.replace(/^"/, '')))).toEqual([]);
@@ -78,7 +80,11 @@ describe('CSV formula guard (OWASP, "CSV Injection")', () => {
     try {
       const input = join(dir, 'in.csv');
       writeFileSync(input, 'row,=cost,b\n@team,1,2\nplain,2,\n');
-      const run = (...extra: string[]) => runCli(['fill', input, '--out', join(dir, 'out.csv'), '--rank', '0', '--force', ...extra], { stdout: () => {}, stderr: () => {} });
+      const run = (...extra: string[]) =>
+        runCli(['fill', input, '--out', join(dir, 'out.csv'), '--rank', '0', '--force', ...extra], {
+          stdout: () => {},
+          stderr: () => {},
+        });
       expect(await run()).toBe(0);
       let lines = readFileSync(join(dir, 'out.csv'), 'utf8').split('\r\n');
       expect(lines[0]).toMatch(/,'=cost,b$/);
@@ -92,4 +98,3 @@ describe('CSV formula guard (OWASP, "CSV Injection")', () => {
     }
   });
 });
-

@@ -46,7 +46,9 @@ function asRead(values: Float64Array, n: number, p: number) {
 
 describe('rankfill options for the Gaussian model', () => {
   it('parses --model, --shrinkage, --transpose, --models and --shrinkages', () => {
-    expect(parseArgs(['fill', 'a.csv', '--out', 'b.csv', '--model', 'gaussian', '--shrinkage=0.1', '--transpose'])).toMatchObject({
+    expect(
+      parseArgs(['fill', 'a.csv', '--out', 'b.csv', '--model', 'gaussian', '--shrinkage=0.1', '--transpose']),
+    ).toMatchObject({
       options: { model: 'gaussian', shrinkage: 0.1, transpose: true },
     });
     expect(parseArgs(['evaluate', 'a.csv'])).toMatchObject({ options: { model: 'lowrank', transpose: false } });
@@ -59,7 +61,10 @@ describe('rankfill options for the Gaussian model', () => {
 
   it('refuses options that do not belong to the chosen family or are out of range', () => {
     const bad: [string[], RegExp][] = [
-      [['fill', 'a.csv', '--out', 'b.csv', '--model', 'gaussian', '--centering', 'row'], /centering does not apply to the gaussian model/],
+      [
+        ['fill', 'a.csv', '--out', 'b.csv', '--model', 'gaussian', '--centering', 'row'],
+        /centering does not apply to the gaussian model/,
+      ],
       [['evaluate', 'a.csv', '--model', 'gaussian', '--rank', '2'], /--rank applies to the lowrank model only/],
       [['evaluate', 'a.csv', '--shrinkage', '0.1'], /--shrinkage applies to the gaussian model only/],
       [['evaluate', 'a.csv', '--model', 'gaussian', '--shrinkage', '1'], /≥ 0 and < 1/],
@@ -112,17 +117,33 @@ describe('rankfill options for the Gaussian model', () => {
 describe('rankfill tune between families', () => {
   it('on a tall correlated panel the choice is the Gaussian family, with the options to fill with it', async () => {
     const { path } = tallPanel(150, 6, 7);
-    const r = await run('tune', path, '--ranks', '1,2', '--lambdas', '1,10', '--centering', 'column,both', '--folds', '3', '--json');
+    const r = await run(
+      'tune',
+      path,
+      '--ranks',
+      '1,2',
+      '--lambdas',
+      '1,10',
+      '--centering',
+      'column,both',
+      '--folds',
+      '3',
+      '--json',
+    );
     expect(r.code).toBe(0);
     const j = JSON.parse(r.stdout);
     expect(j.models).toEqual(['lowrank', 'gaussian']);
     expect(j.table).toHaveLength(8 + 4);
-    expect(j.table.filter((t: { model: string }) => t.model === 'gaussian').map((t: { shrinkage: number }) => t.shrinkage)).toEqual([0, 0.05, 0.1, 0.2]);
+    expect(
+      j.table.filter((t: { model: string }) => t.model === 'gaussian').map((t: { shrinkage: number }) => t.shrinkage),
+    ).toEqual([0, 0.05, 0.1, 0.2]);
     expect(j.choice.model).toBe('gaussian');
     expect(typeof j.choice.shrinkage).toBe('number');
     expect(j.choice.fillArguments).toEqual(['--model', 'gaussian', '--shrinkage', String(j.choice.shrinkage)]);
     expect(j.choice.reason).toMatch(/lowest cross-validated RMSE/);
-    const bestLow = Math.min(...j.table.filter((t: { model: string }) => t.model === 'lowrank').map((t: { meanRmse: number }) => t.meanRmse));
+    const bestLow = Math.min(
+      ...j.table.filter((t: { model: string }) => t.model === 'lowrank').map((t: { meanRmse: number }) => t.meanRmse),
+    );
     // the family is chosen by its best row; the choice is its simplest setting within one SE
     expect(j.best.model).toBe('gaussian');
     expect(j.best.meanRmse).toBeLessThan(bestLow);
@@ -135,10 +156,26 @@ describe('rankfill tune between families', () => {
   it('leaves the Gaussian model out, saying why, when it would refuse the matrix', async () => {
     // 8 rows × 301 columns: more than 300 variables
     const rows = ['id,' + Array.from({ length: 301 }, (_, j) => `c${j + 1}`).join(',')];
-    for (let i = 0; i < 8; i++) rows.push(`r${i + 1},` + Array.from({ length: 301 }, (_, j) => ((i * 7 + j * 3) % 5 === 0 ? '' : String(1 + ((i + j) % 5)))).join(','));
+    for (let i = 0; i < 8; i++)
+      rows.push(
+        `r${i + 1},` +
+          Array.from({ length: 301 }, (_, j) => ((i * 7 + j * 3) % 5 === 0 ? '' : String(1 + ((i + j) % 5)))).join(','),
+      );
     const path = join(dir, 'wide.csv');
     writeFileSync(path, rows.join('\n') + '\n');
-    const r = await run('tune', path, '--ranks', '0,1', '--lambdas', '1', '--centering', 'both', '--folds', '3', '--json');
+    const r = await run(
+      'tune',
+      path,
+      '--ranks',
+      '0,1',
+      '--lambdas',
+      '1',
+      '--centering',
+      'both',
+      '--folds',
+      '3',
+      '--json',
+    );
     expect(r.code).toBe(0);
     const j = JSON.parse(r.stdout);
     expect(j.models).toEqual(['lowrank']);
@@ -152,7 +189,19 @@ describe('rankfill tune between families', () => {
 
   it('by default tries the Gaussian model only on tall panels', async () => {
     const { path } = tallPanel(12, 8, 9);
-    const r = await run('tune', path, '--ranks', '0,1', '--lambdas', '1', '--centering', 'both', '--folds', '3', '--json');
+    const r = await run(
+      'tune',
+      path,
+      '--ranks',
+      '0,1',
+      '--lambdas',
+      '1',
+      '--centering',
+      'both',
+      '--folds',
+      '3',
+      '--json',
+    );
     expect(r.code).toBe(0);
     const j = JSON.parse(r.stdout);
     expect(j.models).toEqual(['lowrank']);

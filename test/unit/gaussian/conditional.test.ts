@@ -18,7 +18,11 @@ function schurReference(x: number[], obs: number[], mis: number[]) {
   const smm = s.selection(mis, mis);
   const d = Matrix.columnVector(obs.map((a) => x[a] - mu[a]));
   const sooInv = inverse(soo);
-  const mean = smo.mmul(sooInv).mmul(d).to1DArray().map((v, a) => v + mu[mis[a]]);
+  const mean = smo
+    .mmul(sooInv)
+    .mmul(d)
+    .to1DArray()
+    .map((v, a) => v + mu[mis[a]]);
   const cov = smm.clone().sub(smo.mmul(sooInv).mmul(smo.transpose()));
   const q = d.transpose().mmul(sooInv).mmul(d).get(0, 0);
   const logDensity = -0.5 * (obs.length * Math.log(2 * Math.PI) + Math.log(determinant(soo)) + q);
@@ -40,7 +44,9 @@ describe('conditional expectation fill against the Schur-complement formula (ml-
         // Source: conditional distribution of a partitioned multivariate normal,
         // E[x_m|x_o] = μ_m + Σ_mo Σ_oo⁻¹(x_o − μ_o), Cov = Σ_mm − Σ_mo Σ_oo⁻¹ Σ_om;
         // reference computed with ml-matrix (inverse, determinant, selection).
-        const row = Float64Array.from([0, 1, 2].map((j) => (obs.includes(j) ? (Number.isNaN(x[j]) ? 1.4 : x[j]) : NaN)));
+        const row = Float64Array.from(
+          [0, 1, 2].map((j) => (obs.includes(j) ? (Number.isNaN(x[j]) ? 1.4 : x[j]) : NaN)),
+        );
         const xs = Array.from(row);
         const ref = schurReference(xs, obs, mis);
         const ws = new ConditionalWorkspace(3);

@@ -44,9 +44,9 @@ describe('fitGaussian refusals', () => {
   it('refuses a fit whose iterations would be too slow, and an infinite value', () => {
     // common practice, no source: a refusal instead of a hang
     const { values } = panel(60, 6, 3, 0.4);
-    expect(() => emGaussian(values, 60, 6, { shrinkage: 0, maxIterations: 5, tolerance: 0, maxWorkPerIteration: 1000 })).toThrow(
-      /operations per EM iteration.*low-rank/,
-    );
+    expect(() =>
+      emGaussian(values, 60, 6, { shrinkage: 0, maxIterations: 5, tolerance: 0, maxWorkPerIteration: 1000 }),
+    ).toThrow(/operations per EM iteration.*low-rank/);
     const v = new Float64Array(values);
     v[7] = Infinity;
     expect(() => fitGaussian(toMatrix(v, 60, 6), settings())).toThrow(/row "r2", column "c2" is not a finite number/);
@@ -146,7 +146,8 @@ describe('fitGaussian output layer', () => {
     const distance = (s: number) => {
       const r = fitGaussian(toMatrix(values, n, p), settings({ clipToScale: false, shrinkage: s }));
       let d = 0;
-      for (let c = 0; c < n * p; c++) if (Number.isNaN(values[c])) d += Math.abs(r.predictions[c] - r.colBaseline[c % p]);
+      for (let c = 0; c < n * p; c++)
+        if (Number.isNaN(values[c])) d += Math.abs(r.predictions[c] - r.colBaseline[c % p]);
       return d;
     };
     expect(distance(0.9)).toBeLessThan(0.5 * distance(0));

@@ -30,7 +30,14 @@ export function hideAtRandom(values: Float64Array, rate: number, seed: number): 
   return out;
 }
 
-export function toMatrix(values: Float64Array, rows: number, cols: number, min = -1e6, max = 1e6, step = 0): RatingMatrix {
+export function toMatrix(
+  values: Float64Array,
+  rows: number,
+  cols: number,
+  min = -1e6,
+  max = 1e6,
+  step = 0,
+): RatingMatrix {
   return {
     rowLabels: Array.from({ length: rows }, (_, i) => `r${i + 1}`),
     colLabels: Array.from({ length: cols }, (_, j) => `c${j + 1}`),

@@ -19,7 +19,8 @@ describe('EM monotonicity', () => {
           const mu = Array.from({ length: p }, (_, j) => j - 1);
           const data = hideAtRandom(drawNormal(n, mu, ar1Covariance(sd, rho), seed), rate, seed + 1);
           // every variable keeps ≥ 3 observed values, like the model's own limit
-          for (let j = 0; j < p; j++) for (let i = 0; i < 3; i++) if (Number.isNaN(data[i * p + j])) data[i * p + j] = mu[j];
+          for (let j = 0; j < p; j++)
+            for (let i = 0; i < 3; i++) if (Number.isNaN(data[i * p + j])) data[i * p + j] = mu[j];
           const fit = emGaussian(data, n, p, { shrinkage: 0, maxIterations: 25, tolerance: 0 });
           const lls = [fit.initialLogLikelihood, ...fit.logLikelihoodTrace];
           for (let t = 1; t < lls.length; t++) {

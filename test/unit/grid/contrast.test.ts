@@ -72,7 +72,11 @@ describe('grid contrast (WCAG 2.1)', () => {
       observedOnBand: contrast(ink, band),
     };
     // Printed so the closing note can state them.
-    console.log(Object.entries(figures).map(([k, v]) => `${k} ${v.toFixed(2)}:1`).join(', '));
+    console.log(
+      Object.entries(figures)
+        .map(([k, v]) => `${k} ${v.toFixed(2)}:1`)
+        .join(', '),
+    );
     for (const [k, v] of Object.entries(figures)) expect(v, k).toBeGreaterThanOrEqual(4.5);
   });
 

@@ -3,7 +3,12 @@ import { describe, expect, it, vi } from 'vitest';
 // The Electron runtime cannot be downloaded here, so the adapter is exercised
 // against a mocked `electron` module (types still come from the real package).
 vi.mock('electron', () => ({
-  app: {}, BrowserWindow: class {}, ipcMain: {}, Menu: {}, protocol: {}, session: {},
+  app: {},
+  BrowserWindow: class {},
+  ipcMain: {},
+  Menu: {},
+  protocol: {},
+  session: {},
 }));
 
 import type { IpcMain, MenuItemConstructorOptions, WebContents } from 'electron';
@@ -59,13 +64,18 @@ describe('IPC adapter', () => {
     const { ipc, handlers: h } = fakeIpc();
     registerIpc(ipc, new ApiRouter(handlers), () => []);
     const reply = await h.get(IPC_CALL_CHANNEL)!({ senderFrame: { url: 'https://example.com/' } }, 'app.info', {});
-    expect(reply).toEqual({ ok: false, error: { code: 'unauthorized', message: 'calls are accepted only from the Rankfill page' } });
+    expect(reply).toEqual({
+      ok: false,
+      error: { code: 'unauthorized', message: 'calls are accepted only from the Rankfill page' },
+    });
   });
 
   it('answers an invalid message with an error reply', async () => {
     const { ipc, handlers: h } = fakeIpc();
     registerIpc(ipc, new ApiRouter(handlers), () => []);
-    const reply = (await h.get(IPC_CALL_CHANNEL)!({ senderFrame: { url: 'rankfill://app/' } }, 'app.info', { nope: 1 })) as { ok: boolean; error: { code: string } };
+    const reply = (await h.get(IPC_CALL_CHANNEL)!({ senderFrame: { url: 'rankfill://app/' } }, 'app.info', {
+      nope: 1,
+    })) as { ok: boolean; error: { code: string } };
     expect(reply.ok).toBe(false);
     expect(reply.error.code).toBe('bad-request');
   });
@@ -76,7 +86,10 @@ describe('IPC adapter', () => {
     const wc = { send: vi.fn(), isDestroyed: () => false } as unknown as WebContents;
     const dispose = registerIpc(ipc, router, () => [wc]);
     router.emit('menu.command', { command: 'model.fill' });
-    expect(wc.send).toHaveBeenCalledWith(IPC_EVENT_CHANNEL, { event: 'menu.command', payload: { command: 'model.fill' } });
+    expect(wc.send).toHaveBeenCalledWith(IPC_EVENT_CHANNEL, {
+      event: 'menu.command',
+      payload: { command: 'model.fill' },
+    });
     dispose();
     expect(h.has(IPC_CALL_CHANNEL)).toBe(false);
     router.emit('menu.command', { command: 'model.fill' });
@@ -127,7 +140,11 @@ describe('application menu', () => {
     const t = appMenuTemplate((c) => sent.push(c), false);
     expect(t.map((m) => m.label)).toEqual(['&File', '&Edit', '&View', '&Model', '&Help']);
     const model = t[3].submenu as MenuItemConstructorOptions[];
-    expect(model.map((m) => m.label)).toEqual(['Fill Blank Cells', 'Weigh Centering Choices', 'Search Rank and Regularization…']);
+    expect(model.map((m) => m.label)).toEqual([
+      'Fill Blank Cells',
+      'Weigh Centering Choices',
+      'Search Rank and Regularization…',
+    ]);
     (model[0].click as () => void)();
     expect(sent).toEqual(['model.fill']);
     const edit = t[1].submenu as MenuItemConstructorOptions[];

@@ -9,7 +9,11 @@ const rec = vi.hoisted(() => ({
   privileged: [] as unknown[],
   protocolHandlers: new Map<string, unknown>(),
   ipcHandlers: new Map<string, unknown>(),
-  windows: [] as { options: Record<string, unknown>; url?: string; listeners: Map<string, (e: { preventDefault(): void }) => void> }[],
+  windows: [] as {
+    options: Record<string, unknown>;
+    url?: string;
+    listeners: Map<string, (e: { preventDefault(): void }) => void>;
+  }[],
   menus: 0,
   appListeners: new Map<string, unknown>(),
   ready: undefined as undefined | (() => void),
@@ -64,7 +68,9 @@ describe('Electron host wiring (mocked electron)', () => {
   });
 
   it('registers our privileged scheme and serves the page from it', () => {
-    expect(rec.privileged).toEqual([{ scheme: 'rankfill', privileges: { standard: true, secure: true, supportFetchAPI: true } }]);
+    expect(rec.privileged).toEqual([
+      { scheme: 'rankfill', privileges: { standard: true, secure: true, supportFetchAPI: true } },
+    ]);
     expect(rec.protocolHandlers.has('rankfill')).toBe(true);
   });
 
@@ -78,7 +84,11 @@ describe('Electron host wiring (mocked electron)', () => {
   });
 
   it('answers the typed API over IPC and sets our menu', async () => {
-    const call = rec.ipcHandlers.get('rankfill:call') as (e: unknown, m: string, p: unknown) => Promise<{ ok: boolean; data?: { host: string } }>;
+    const call = rec.ipcHandlers.get('rankfill:call') as (
+      e: unknown,
+      m: string,
+      p: unknown,
+    ) => Promise<{ ok: boolean; data?: { host: string } }>;
     const reply = await call({ senderFrame: { url: 'rankfill://app/index.html' } }, 'app.info', {});
     expect(reply.ok).toBe(true);
     expect(reply.data?.host).toBe('electron');

@@ -15,9 +15,18 @@ import { startHttpHost, type HttpHost } from '../../../src-main/hosts/browser/ht
 import { openBrowser } from '../../../src-main/hosts/browser/openBrowser';
 import { ApiRouter, type ApiHandlers } from '../../../src-main/services/apiRouter';
 
-interface Reply { status: number; body: string }
+interface Reply {
+  status: number;
+  body: string;
+}
 
-function send(port: number, method: string, path: string, headers: Record<string, string>, body?: string | Buffer): Promise<Reply> {
+function send(
+  port: number,
+  method: string,
+  path: string,
+  headers: Record<string, string>,
+  body?: string | Buffer,
+): Promise<Reply> {
   return new Promise((resolve, reject) => {
     const req = request({ host: '127.0.0.1', port, method, path, headers }, (res) => {
       let data = '';
@@ -31,7 +40,12 @@ function send(port: number, method: string, path: string, headers: Record<string
 }
 
 /** Sends raw bytes on a socket and collects everything the host answers until it closes. */
-function raw(port: number, head: string, parts: { data: string; afterMs: number }[], giveUpMs: number): Promise<{ text: string; ms: number }> {
+function raw(
+  port: number,
+  head: string,
+  parts: { data: string; afterMs: number }[],
+  giveUpMs: number,
+): Promise<{ text: string; ms: number }> {
   return new Promise((resolve) => {
     const t0 = performance.now();
     const sock = connect(port, '127.0.0.1');
@@ -51,7 +65,20 @@ function raw(port: number, head: string, parts: { data: string; afterMs: number 
 }
 
 const fitResult = {
-  settings: { model: 'lowrank', rank: 1, lambda: 1, centering: 'both', scaleLambdaByCount: false, maxIterations: 10, tolerance: 1e-6, seed: 1, init: 'spectral', offsetLambda: 0, clipToScale: true, snapToStep: false },
+  settings: {
+    model: 'lowrank',
+    rank: 1,
+    lambda: 1,
+    centering: 'both',
+    scaleLambdaByCount: false,
+    maxIterations: 10,
+    tolerance: 1e-6,
+    seed: 1,
+    init: 'spectral',
+    offsetLambda: 0,
+    clipToScale: true,
+    snapToStep: false,
+  },
   rows: 2700,
   cols: 2700,
   predictions: [1],
@@ -79,18 +106,38 @@ describe('browser host hardening', () => {
     const dir = mkdtempSync(join(tmpdir(), 'rankfill-host-'));
     writeFileSync(join(dir, 'index.html'), '<p>page</p>');
     router = new ApiRouter(handlers);
-    host = await startHttpHost({ router, rendererDir: dir, token: 'secret-token-123', maxBodyBytes: 1000, bodyTimeoutMs: 400, launchNonceTtlMs: 300 });
+    host = await startHttpHost({
+      router,
+      rendererDir: dir,
+      token: 'secret-token-123',
+      maxBodyBytes: 1000,
+      bodyTimeoutMs: 400,
+      launchNonceTtlMs: 300,
+    });
   });
   afterAll(() => host.close());
 
   const hostHeader = () => `127.0.0.1:${host.port}`;
-  const jsonHeaders = () => ({ Host: hostHeader(), 'Content-Type': 'application/json', 'x-rankfill-token': 'secret-token-123' });
+  const jsonHeaders = () => ({
+    Host: hostHeader(),
+    'Content-Type': 'application/json',
+    'x-rankfill-token': 'secret-token-123',
+  });
 
   it('answers an oversized body with 413 and a JSON error (before: a TCP reset)', async () => {
     const big = JSON.stringify({ method: 'app.info', payload: { pad: 'x'.repeat(5000) } });
-    const r = await send(host.port, 'POST', '/api/call', { ...jsonHeaders(), 'Content-Length': String(big.length) }, big);
+    const r = await send(
+      host.port,
+      'POST',
+      '/api/call',
+      { ...jsonHeaders(), 'Content-Length': String(big.length) },
+      big,
+    );
     expect(r.status).toBe(413);
-    expect(JSON.parse(r.body)).toEqual({ ok: false, error: { code: 'bad-request', message: 'the request body (4.9 KB) is larger than the limit of 1000 bytes' } });
+    expect(JSON.parse(r.body)).toEqual({
+      ok: false,
+      error: { code: 'bad-request', message: 'the request body (4.9 KB) is larger than the limit of 1000 bytes' },
+    });
     // Without a Content-Length (chunked), the cap holds while reading.
     const chunked = await raw(
       host.port,
@@ -125,7 +172,14 @@ describe('browser host hardening', () => {
   });
 
   it('trades a launch nonce for the token once, and never after it expires', async () => {
-    const trade = (nonce: string) => send(host.port, 'POST', '/api/launch', { Host: hostHeader(), 'Content-Type': 'application/json' }, JSON.stringify({ nonce }));
+    const trade = (nonce: string) =>
+      send(
+        host.port,
+        'POST',
+        '/api/launch',
+        { Host: hostHeader(), 'Content-Type': 'application/json' },
+        JSON.stringify({ nonce }),
+      );
     const url = host.newLaunchUrl();
     expect(url).not.toContain('secret-token-123');
     const nonce = /#launch=([A-Za-z0-9_-]+)$/.exec(url)![1];
@@ -140,7 +194,13 @@ describe('browser host hardening', () => {
     expect((await trade('guess')).status).toBe(401);
     // From another origin: refused before the nonce is looked at.
     const fresh = /#launch=(.+)$/.exec(host.newLaunchUrl())![1];
-    const foreign = await send(host.port, 'POST', '/api/launch', { Host: hostHeader(), 'Content-Type': 'application/json', Origin: 'http://evil.example' }, JSON.stringify({ nonce: fresh }));
+    const foreign = await send(
+      host.port,
+      'POST',
+      '/api/launch',
+      { Host: hostHeader(), 'Content-Type': 'application/json', Origin: 'http://evil.example' },
+      JSON.stringify({ nonce: fresh }),
+    );
     expect(foreign.status).toBe(403);
   });
 
@@ -162,11 +222,21 @@ describe('browser host hardening', () => {
     // V8 refuses strings over about 512 MB: JSON.stringify of a 2,700 × 2,700 result with spread
     // throws "RangeError: Invalid string length". We make the same call throw the same error.
     const events: string[] = [];
-    const stream = request({ host: '127.0.0.1', port: host.port, path: '/api/events?token=secret-token-123', headers: { Host: hostHeader() } });
+    const stream = request({
+      host: '127.0.0.1',
+      port: host.port,
+      path: '/api/events?token=secret-token-123',
+      headers: { Host: hostHeader() },
+    });
     const connected = new Promise<void>((resolve) => {
       stream.on('response', (res) => {
         res.on('data', (d) => {
-          events.push(...String(d).split('\n').filter((l) => l.startsWith('data: ')).map((l) => l.slice(6)));
+          events.push(
+            ...String(d)
+              .split('\n')
+              .filter((l) => l.startsWith('data: '))
+              .map((l) => l.slice(6)),
+          );
           resolve();
         });
       });
@@ -188,10 +258,20 @@ describe('browser host hardening', () => {
     expect(events.map((e) => JSON.parse(e))).toEqual([
       {
         event: 'fit.error',
-        payload: { jobId: 'fit:big', message: 'The result is too large to draw in this window (7,290,000 cells); fit fewer rows or columns, or turn off spread.' },
+        payload: {
+          jobId: 'fit:big',
+          message:
+            'The result is too large to draw in this window (7,290,000 cells); fit fewer rows or columns, or turn off spread.',
+        },
       },
     ]);
-    const after = await send(host.port, 'POST', '/api/call', jsonHeaders(), JSON.stringify({ method: 'app.info', payload: {} }));
+    const after = await send(
+      host.port,
+      'POST',
+      '/api/call',
+      jsonHeaders(),
+      JSON.stringify({ method: 'app.info', payload: {} }),
+    );
     expect(after.status).toBe(200);
   });
 });

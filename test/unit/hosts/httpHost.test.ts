@@ -7,9 +7,19 @@ import { startHttpHost, type HttpHost } from '../../../src-main/hosts/browser/ht
 import { NONCE_PLACEHOLDER } from '../../../src-main/hosts/pageSecurity';
 import { ApiRouter, type ApiHandlers } from '../../../src-main/services/apiRouter';
 
-interface Reply { status: number; headers: Record<string, string | string[] | undefined>; body: string }
+interface Reply {
+  status: number;
+  headers: Record<string, string | string[] | undefined>;
+  body: string;
+}
 
-function send(port: number, method: string, path: string, headers: Record<string, string>, body?: string): Promise<Reply> {
+function send(
+  port: number,
+  method: string,
+  path: string,
+  headers: Record<string, string>,
+  body?: string,
+): Promise<Reply> {
   return new Promise((resolve, reject) => {
     const req = request({ host: '127.0.0.1', port, method, path, headers }, (res) => {
       let data = '';
@@ -52,21 +62,36 @@ describe('browser host (loopback HTTP)', () => {
   it('answers a call that carries the token', async () => {
     const r = await call({ 'x-rankfill-token': 'secret-token-123' });
     expect(r.status).toBe(200);
-    expect(JSON.parse(r.body)).toEqual({ ok: true, data: { name: 'Rankfill', version: '9.9.9', apiVersion: 1, host: 'browser' } });
+    expect(JSON.parse(r.body)).toEqual({
+      ok: true,
+      data: { name: 'Rankfill', version: '9.9.9', apiVersion: 1, host: 'browser' },
+    });
   });
 
   it('refuses a call without the token or with a wrong one', async () => {
-    for (const headers of [{}, { 'x-rankfill-token': 'secret-token-124' }, { 'x-rankfill-token': 'short' }] as Record<string, string>[]) {
+    for (const headers of [{}, { 'x-rankfill-token': 'secret-token-124' }, { 'x-rankfill-token': 'short' }] as Record<
+      string,
+      string
+    >[]) {
       const r = await call(headers);
       expect(r.status).toBe(401);
-      expect(JSON.parse(r.body)).toEqual({ ok: false, error: { code: 'unauthorized', message: 'missing or wrong API token' } });
+      expect(JSON.parse(r.body)).toEqual({
+        ok: false,
+        error: { code: 'unauthorized', message: 'missing or wrong API token' },
+      });
     }
   });
 
   it('refuses other origins and foreign Host headers (DNS rebinding)', async () => {
     const r = await call({ 'x-rankfill-token': 'secret-token-123', Origin: 'http://evil.example' });
     expect(r.status).toBe(403);
-    const r2 = await send(host.port, 'POST', '/api/call', { Host: 'evil.example', 'x-rankfill-token': 'secret-token-123', 'Content-Type': 'application/json' }, '{}');
+    const r2 = await send(
+      host.port,
+      'POST',
+      '/api/call',
+      { Host: 'evil.example', 'x-rankfill-token': 'secret-token-123', 'Content-Type': 'application/json' },
+      '{}',
+    );
     expect(r2.status).toBe(421);
   });
 

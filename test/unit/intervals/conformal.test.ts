@@ -95,7 +95,13 @@ describe('held-out coverage by fold', () => {
     expect(s3.folds[1].meanWidth).toBe(5);
   });
   it('refuses a level outside 50–99 %', () => {
-    const h = { k: 2, fold: new Int32Array(2), estimate: new Float64Array(2), observed: new Float64Array(2), sigma: new Float64Array(2) };
+    const h = {
+      k: 2,
+      fold: new Int32Array(2),
+      estimate: new Float64Array(2),
+      observed: new Float64Array(2),
+      sigma: new Float64Array(2),
+    };
     expect(() => summarizeLevel(h, 0.4, { min: 0, max: 1, step: 0 })).toThrow(/between 0.5 and 0.99/);
     expect(() => summarizeLevel(h, 0.995, { min: 0, max: 1, step: 0 })).toThrow(/between 0.5 and 0.99/);
   });

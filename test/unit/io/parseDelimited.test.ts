@@ -38,7 +38,10 @@ describe('parseDelimited: valid input', () => {
     const text = 'user,item,rating\nu1,i1,3\nu1,i2,4\nu2,i1,5\nu1,i1,2\n';
     const refused = parseDelimited(text, { fileName: 'l.csv' });
     expect(refused.ok).toBe(false);
-    if (!refused.ok) expect(formatProblem(refused.problems[0])).toMatch(/^l\.csv:5:1: duplicate pair \(row "u1", column "i1"\): first given on line 2/);
+    if (!refused.ok)
+      expect(formatProblem(refused.problems[0])).toMatch(
+        /^l\.csv:5:1: duplicate pair \(row "u1", column "i1"\): first given on line 2/,
+      );
     const avg = ok(text, { fileName: 'l.csv', duplicates: 'average' });
     expect(avg.info.layout).toBe('long');
     expect(Array.from(avg.matrix.values)).toEqual([2.5, 4, 5, NaN]); // (3 + 2) / 2

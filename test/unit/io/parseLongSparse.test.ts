@@ -48,6 +48,16 @@ describe('parseLongSparse', () => {
   it('stops at the first rating over the limit and names its line', () => {
     // common practice, no source: a limit is reported where it is crossed, not after reading everything.
     const r = parseLongSparse('r,c,v\na,x,1\na,y,2\nb,x,NA\nb,y,3\nc,x,4\n', 'big.csv', 2);
-    expect(r).toEqual({ ok: false, problems: [{ file: 'big.csv', line: 5, column: 3, message: 'more than 2 observed ratings; the command line holds at most 2' }] });
+    expect(r).toEqual({
+      ok: false,
+      problems: [
+        {
+          file: 'big.csv',
+          line: 5,
+          column: 3,
+          message: 'more than 2 observed ratings; the command line holds at most 2',
+        },
+      ],
+    });
   });
 });

@@ -16,7 +16,25 @@ import { writeLongCsv, writeWideCsv } from '../../../src-shared/io/writeDelimite
 const RAW = { formulaGuard: false } as const;
 import type { RatingMatrix } from '../../../src-shared/matrix/ratingMatrix';
 
-const awkward = fc.constantFrom(',', ';', '\t', '"', '\n', '\r\n', '\r', ' ', 'é', '名', '😀', 'NA', '-', '.', '1', "'", '=');
+const awkward = fc.constantFrom(
+  ',',
+  ';',
+  '\t',
+  '"',
+  '\n',
+  '\r\n',
+  '\r',
+  ' ',
+  'é',
+  '名',
+  '😀',
+  'NA',
+  '-',
+  '.',
+  '1',
+  "'",
+  '=',
+);
 const labelChar = fc.oneof(fc.string({ unit: 'grapheme', minLength: 1, maxLength: 1 }), awkward);
 const label = fc
   .array(labelChar, { minLength: 1, maxLength: 8 })
@@ -49,7 +67,8 @@ const matrixArb = fc
 
 function expectSame(text: string, m: RatingMatrix, opts: ParseOptions): void {
   const r = parseDelimited(text, opts);
-  if (!r.ok) throw new Error(`refused:\n${r.problems.map(formatProblem).join('\n')}\n--- text ---\n${JSON.stringify(text)}`);
+  if (!r.ok)
+    throw new Error(`refused:\n${r.problems.map(formatProblem).join('\n')}\n--- text ---\n${JSON.stringify(text)}`);
   expect(r.matrix.rowLabels).toEqual(m.rowLabels);
   expect(r.matrix.colLabels).toEqual(m.colLabels);
   expect(Array.from(r.matrix.values)).toEqual(Array.from(m.values));
@@ -66,7 +85,11 @@ describe('CSV round trip (fast-check)', () => {
   it('wide TSV and semicolon text with decimal comma', () => {
     fc.assert(
       fc.property(matrixArb, fc.constantFrom('\t' as const, ';' as const), (m, d) =>
-        expectSame(writeWideCsv(m, { ...RAW, delimiter: d, decimalComma: true }), m, { fileName: 'rt.txt', delimiter: d, decimalComma: true }),
+        expectSame(writeWideCsv(m, { ...RAW, delimiter: d, decimalComma: true }), m, {
+          fileName: 'rt.txt',
+          delimiter: d,
+          decimalComma: true,
+        }),
       ),
       { numRuns: 200, seed: 20260102 },
     );

@@ -10,7 +10,9 @@ describe('scaleRefusal', () => {
   const s19 = { min: 1, max: 9, step: 1 };
   it('accepts values on a step and refuses the others with the nearest allowed values', () => {
     expect(scaleRefusal(4, s19)).toBeUndefined();
-    expect(scaleRefusal(4.4, s19)).toBe("4.4 lies between the allowed values 4 and 5 (scale 1–9 in steps of 1); enter one of them or change the scale's step");
+    expect(scaleRefusal(4.4, s19)).toBe(
+      "4.4 lies between the allowed values 4 and 5 (scale 1–9 in steps of 1); enter one of them or change the scale's step",
+    );
     expect(scaleRefusal(12, s19)).toBe('12 lies outside the scale 1–9 in steps of 1');
     expect(scaleRefusal(0.5, s19)).toBe('0.5 lies outside the scale 1–9 in steps of 1');
   });

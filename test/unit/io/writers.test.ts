@@ -1,6 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { detectScale } from '../../../src-shared/io/detectScale';
-import { formatNumber, quoteField, writeFilledLongCsv, writeLongCsv, writeWideCsv } from '../../../src-shared/io/writeDelimited';
+import {
+  formatNumber,
+  quoteField,
+  writeFilledLongCsv,
+  writeLongCsv,
+  writeWideCsv,
+} from '../../../src-shared/io/writeDelimited';
 
 const m = {
   rowLabels: ['ann', 'b,o"b'],
@@ -28,7 +34,9 @@ describe('writers', () => {
   });
 
   it('long form skips blanks unless asked, and a layer replaces the value source', () => {
-    expect(writeLongCsv(m, { lineEnding: '\n' })).toBe('row,column,value\nann,alpha,4\n"b,o""b",alpha,2.5\n"b,o""b",beta,1\n');
+    expect(writeLongCsv(m, { lineEnding: '\n' })).toBe(
+      'row,column,value\nann,alpha,4\n"b,o""b",alpha,2.5\n"b,o""b",beta,1\n',
+    );
     const filled = writeWideCsv(m, { layer: (i, j) => i * 10 + j, decimals: 1, lineEnding: '\n' });
     expect(filled).toBe('row,alpha,beta\nann,0.0,1.0\n"b,o""b",10.0,11.0\n');
   });

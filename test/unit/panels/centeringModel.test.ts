@@ -4,12 +4,24 @@ import { tuneToPayload } from '../../../src-shared/apiCodec';
 import { defaultLowRankSettings } from '../../../src-shared/engine/defaults';
 import { tune } from '../../../src-shared/engine/tuning';
 import type { GaussianSettings } from '../../../src-shared/engine/types';
-import { centeringRows, CENTERING_MODES, COMPARE_FOLDS, planCenteringComparison } from '../../../src-renderer/panels/centeringModel';
+import {
+  centeringRows,
+  CENTERING_MODES,
+  COMPARE_FOLDS,
+  planCenteringComparison,
+} from '../../../src-renderer/panels/centeringModel';
 import { lowRankCase } from '../engine/helpers';
 
 describe('planCenteringComparison', () => {
   it('varies only the centering of the form’s low-rank settings', () => {
-    const form = { ...defaultLowRankSettings(), rank: 3, lambda: 7, seed: 42, maxIterations: 55, centering: 'row' as const };
+    const form = {
+      ...defaultLowRankSettings(),
+      rank: 3,
+      lambda: 7,
+      seed: 42,
+      maxIterations: 55,
+      centering: 'row' as const,
+    };
     const plan = planCenteringComparison(form);
     expect(plan.note).toBeNull();
     expect(plan.seed).toBe(42);
@@ -18,7 +30,16 @@ describe('planCenteringComparison', () => {
   });
 
   it('falls back to the low-rank family (with a note) when the form is Gaussian', () => {
-    const form: GaussianSettings = { model: 'gaussian', shrinkage: 0.2, transpose: false, maxIterations: 30, tolerance: 1e-6, seed: 9, clipToScale: false, snapToStep: false };
+    const form: GaussianSettings = {
+      model: 'gaussian',
+      shrinkage: 0.2,
+      transpose: false,
+      maxIterations: 30,
+      tolerance: 1e-6,
+      seed: 9,
+      clipToScale: false,
+      snapToStep: false,
+    };
     const plan = planCenteringComparison(form);
     expect(plan.note).toMatch(/does not apply to the Gaussian/);
     expect(plan.settingsList).toHaveLength(4);
@@ -66,8 +87,26 @@ describe('centeringRows', () => {
       k: 5,
       seed: 1,
       table: [
-        { settings: { ...s, centering: 'none' }, folds: [], meanRmse: null, sdRmse: null, meanMae: null, sdMae: null, error: 'too few values' },
-        { settings: { ...s, centering: 'row' }, folds: [{ rmse: 1, mae: 0.8, n: 3 }, { rmse: 2, mae: 1.5, n: 3 }], meanRmse: 1.5, sdRmse: 0.7, meanMae: 1.15, sdMae: 0.5 },
+        {
+          settings: { ...s, centering: 'none' },
+          folds: [],
+          meanRmse: null,
+          sdRmse: null,
+          meanMae: null,
+          sdMae: null,
+          error: 'too few values',
+        },
+        {
+          settings: { ...s, centering: 'row' },
+          folds: [
+            { rmse: 1, mae: 0.8, n: 3 },
+            { rmse: 2, mae: 1.5, n: 3 },
+          ],
+          meanRmse: 1.5,
+          sdRmse: 0.7,
+          meanMae: 1.15,
+          sdMae: 0.5,
+        },
       ],
       bestIndex: 1,
       oneStandardErrorIndex: 1,

@@ -3,7 +3,14 @@ import { tuneToPayload } from '../../../src-shared/apiCodec';
 import { defaultLowRankSettings } from '../../../src-shared/engine/defaults';
 import { tune } from '../../../src-shared/engine/tuning';
 import type { GaussianSettings } from '../../../src-shared/engine/types';
-import { MAX_GRID_SETTINGS, parseNumberList, planTuning, RANK_RULES, LAMBDA_RULES, rankChartData } from '../../../src-renderer/panels/tuningModel';
+import {
+  MAX_GRID_SETTINGS,
+  parseNumberList,
+  planTuning,
+  RANK_RULES,
+  LAMBDA_RULES,
+  rankChartData,
+} from '../../../src-renderer/panels/tuningModel';
 import { lowRankCase } from '../engine/helpers';
 
 describe('parseNumberList', () => {
@@ -15,7 +22,10 @@ describe('parseNumberList', () => {
   it('refuses bad entries with a message naming them', () => {
     expect(parseNumberList('1, two', RANK_RULES)).toEqual({ ok: false, message: 'Ranks: “two” is not a number.' });
     expect(parseNumberList('1.5', RANK_RULES)).toEqual({ ok: false, message: 'Ranks: “1.5” is not a whole number.' });
-    expect(parseNumberList('-1', LAMBDA_RULES)).toMatchObject({ ok: false, message: 'λ values: -1 is outside 0–1000000.' });
+    expect(parseNumberList('-1', LAMBDA_RULES)).toMatchObject({
+      ok: false,
+      message: 'λ values: -1 is outside 0–1000000.',
+    });
     expect(parseNumberList('  ', RANK_RULES).ok).toBe(false);
   });
 });
@@ -45,7 +55,16 @@ describe('planTuning', () => {
   });
 
   it('uses the low-rank defaults when the form is Gaussian, keeping its seed', () => {
-    const g: GaussianSettings = { model: 'gaussian', shrinkage: 0.1, transpose: false, maxIterations: 20, tolerance: 1e-6, seed: 3, clipToScale: true, snapToStep: false };
+    const g: GaussianSettings = {
+      model: 'gaussian',
+      shrinkage: 0.1,
+      transpose: false,
+      maxIterations: 20,
+      tolerance: 1e-6,
+      seed: 3,
+      clipToScale: true,
+      snapToStep: false,
+    };
     const plan = planTuning({ ranks: '1', lambdas: '2', centerings: ['both'], folds: 5 }, g);
     if (!plan.ok) throw new Error(plan.message);
     expect(plan.settingsList[0]).toMatchObject({ model: 'lowrank', rank: 1, lambda: 2, centering: 'both', seed: 3 });
@@ -55,7 +74,10 @@ describe('planTuning', () => {
 describe('rankChartData', () => {
   it('lays the table out as one series per (λ, centering) over sorted ranks, with best and one-SE points', () => {
     const { matrix } = lowRankCase(20, 14, 2, 0.2, 0.7, 2);
-    const plan = planTuning({ ranks: '2, 0, 1', lambdas: '1, 10', centerings: ['none', 'both'], folds: 4 }, defaultLowRankSettings());
+    const plan = planTuning(
+      { ranks: '2, 0, 1', lambdas: '1, 10', centerings: ['none', 'both'], folds: 4 },
+      defaultLowRankSettings(),
+    );
     if (!plan.ok) throw new Error(plan.message);
     const reply = tuneToPayload(tune(matrix, { settings: plan.settingsList }, plan.folds, plan.seed));
     const data = rankChartData(reply);
@@ -63,7 +85,11 @@ describe('rankChartData', () => {
     expect(data.series).toHaveLength(4);
     for (const row of reply.table) {
       if (row.settings.model !== 'lowrank') continue;
-      const s = data.series.find((x) => x.lambda === (row.settings as { lambda: number }).lambda && x.centering === (row.settings as { centering: string }).centering)!;
+      const s = data.series.find(
+        (x) =>
+          x.lambda === (row.settings as { lambda: number }).lambda &&
+          x.centering === (row.settings as { centering: string }).centering,
+      )!;
       expect(s.values[data.ranks.indexOf(row.settings.rank)]).toBe(row.meanRmse);
     }
     // Best = the smallest mean RMSE in the table, found here independently.

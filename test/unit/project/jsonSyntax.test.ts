@@ -62,7 +62,12 @@ describe('JSON syntax locator', () => {
 
   it('locates NaN, Infinity and stray words exactly (before: 1:1 with a slice of the file)', () => {
     const text = serializeProject(doc());
-    for (const [word, line] of [['NaN', 11], ['Infinity', 12], ['-Infinity', 13], ['undefined', 11]] as const) {
+    for (const [word, line] of [
+      ['NaN', 11],
+      ['Infinity', 12],
+      ['-Infinity', 13],
+      ['undefined', 11],
+    ] as const) {
       // Replace the first cell of a values row.
       const lines = text.split('\n');
       lines[line - 1] = lines[line - 1].replace(/\[(-?\d+|null)/, `[${word}`);
@@ -80,7 +85,11 @@ describe('JSON syntax locator', () => {
 
   it('a long offending token is cut at 20 characters', () => {
     const r = findJsonSyntaxError('[1, ' + 'x'.repeat(500) + ']');
-    expect(r).toEqual({ offset: 4, reason: `unexpected "${'x'.repeat(20)}…" where a value should be`, endsEarly: false });
+    expect(r).toEqual({
+      offset: 4,
+      reason: `unexpected "${'x'.repeat(20)}…" where a value should be`,
+      endsEarly: false,
+    });
   });
 
   it('does not overflow the stack on deep nesting', () => {
@@ -97,7 +106,9 @@ describe('JSON syntax locator', () => {
     expect(peekMatrixShape(moved)).toEqual({ rows: 1, cols: 2 });
     expect(peekMatrixShape('{"matrix": {"rowLabels": [NaN')).toBeNull();
     // A notes text mentioning rowLabels is not mistaken for the list.
-    expect(peekMatrixShape('{"notes": "\\"rowLabels\\": [1,2,3]", "matrix": {"rowLabels": ["a"], "colLabels": ["b"]}}')).toEqual({ rows: 1, cols: 1 });
+    expect(
+      peekMatrixShape('{"notes": "\\"rowLabels\\": [1,2,3]", "matrix": {"rowLabels": ["a"], "colLabels": ["b"]}}'),
+    ).toEqual({ rows: 1, cols: 1 });
   });
 });
 
@@ -115,7 +126,10 @@ describe('project validation on open', () => {
 
   it('refuses a time that is not a time (before: "not a time" was accepted)', () => {
     for (const bad of ['not a time', '2026-13-01T00:00:00Z', '2026-01-01', '']) {
-      const text = serializeProject(doc()).replace('"createdAt": "2026-01-01T09:00:00.000Z"', `"createdAt": ${JSON.stringify(bad)}`);
+      const text = serializeProject(doc()).replace(
+        '"createdAt": "2026-01-01T09:00:00.000Z"',
+        `"createdAt": ${JSON.stringify(bad)}`,
+      );
       expect(open(text)).toMatch(/^p\.rankfill:4:\d+: createdAt: not a valid time/);
     }
     const ok = serializeProject(doc()).replace('"2026-01-01T09:00:00.000Z"', '"2026-01-01T09:00:00+02:00"');
@@ -124,8 +138,12 @@ describe('project validation on open', () => {
 
   it('refuses unknown keys with their path, __proto__ included (before: dropped silently)', () => {
     const base = serializeProject(doc());
-    expect(open(base.replace('"notes":', '"colour": "red",\n  "notes":'))).toMatch(/^p\.rankfill:\d+:\d+: colour: unknown key "colour"/);
-    expect(open(base.replace('"scale": {', '"scale": {"__proto__": {"x": 1}, '))).toMatch(/matrix\.scale\.__proto__: unknown key "__proto__"/);
+    expect(open(base.replace('"notes":', '"colour": "red",\n  "notes":'))).toMatch(
+      /^p\.rankfill:\d+:\d+: colour: unknown key "colour"/,
+    );
+    expect(open(base.replace('"scale": {', '"scale": {"__proto__": {"x": 1}, '))).toMatch(
+      /matrix\.scale\.__proto__: unknown key "__proto__"/,
+    );
   });
 
   it('refuses a matrix over 20 million cells before parsing its body (before: opened after a 2.8 s stall)', () => {
@@ -134,7 +152,9 @@ describe('project validation on open', () => {
     // The body is not even JSON: it is never parsed.
     const text = `{"format":"rankfill-project","version":1,"matrix":{"rowLabels":${JSON.stringify(rows)},"colLabels":${JSON.stringify(cols)},"values":[[NaN`;
     const t0 = performance.now();
-    expect(open(text)).toBe('p.rankfill:1:64: matrix: 5000 rows × 4001 columns = 20005000 cells; the limit is 20000000 cells');
+    expect(open(text)).toBe(
+      'p.rankfill:1:64: matrix: 5000 rows × 4001 columns = 20005000 cells; the limit is 20000000 cells',
+    );
     expect(performance.now() - t0).toBeLessThan(1000);
   });
 });

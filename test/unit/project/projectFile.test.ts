@@ -8,20 +8,49 @@ import type { ProjectDocument } from '../../../src-shared/project/projectDocumen
 import { parseProject, serializeProject } from '../../../src-shared/project/projectFile';
 
 const settings: LowRankSettings = {
-  model: 'lowrank', rank: 2, lambda: 0.1, centering: 'both', scaleLambdaByCount: false, maxIterations: 200,
-  tolerance: 1e-6, seed: 7, init: 'spectral', offsetLambda: 0.01, clipToScale: true, snapToStep: false,
+  model: 'lowrank',
+  rank: 2,
+  lambda: 0.1,
+  centering: 'both',
+  scaleLambdaByCount: false,
+  maxIterations: 200,
+  tolerance: 1e-6,
+  seed: 7,
+  init: 'spectral',
+  offsetLambda: 0.01,
+  clipToScale: true,
+  snapToStep: false,
 };
 
 function sampleDoc(): ProjectDocument {
   return {
     matrix: {
-      rowLabels: ['ann', 'bob'], colLabels: ['alpha', 'beta', 'gamma'],
-      values: new Float64Array([4, NaN, 5, 2, 1, NaN]), scale: { min: 1, max: 5, step: 0.5 },
+      rowLabels: ['ann', 'bob'],
+      colLabels: ['alpha', 'beta', 'gamma'],
+      values: new Float64Array([4, NaN, 5, 2, 1, NaN]),
+      scale: { min: 1, max: 5, step: 0.5 },
     },
     settings,
     runs: [
-      { id: 'r1', number: 1, name: 'first', fittedAt: '2026-01-02T09:59:00.000Z', savedAt: '2026-01-02T10:00:00.000Z', settings, metrics: { rmse: 0.5, mae: null }, predictions: new Float64Array([4, 3.5, 5, 2, 1, 2.25]) },
-      { id: 'r2', number: 11, name: '', fittedAt: '2026-01-02T10:59:00.000Z', savedAt: '2026-01-02T11:00:00.000Z', settings: { ...settings, rank: 1 }, metrics: {} },
+      {
+        id: 'r1',
+        number: 1,
+        name: 'first',
+        fittedAt: '2026-01-02T09:59:00.000Z',
+        savedAt: '2026-01-02T10:00:00.000Z',
+        settings,
+        metrics: { rmse: 0.5, mae: null },
+        predictions: new Float64Array([4, 3.5, 5, 2, 1, 2.25]),
+      },
+      {
+        id: 'r2',
+        number: 11,
+        name: '',
+        fittedAt: '2026-01-02T10:59:00.000Z',
+        savedAt: '2026-01-02T11:00:00.000Z',
+        settings: { ...settings, rank: 1 },
+        metrics: {},
+      },
     ],
     notes: 'line one\nline "two"',
     createdAt: '2026-01-01T09:00:00.000Z',
@@ -55,11 +84,18 @@ describe('project file', () => {
       fc.property(
         fc.uniqueArray(lab, { minLength: 1, maxLength: 5 }),
         fc.uniqueArray(lab, { minLength: 1, maxLength: 5 }),
-        fc.array(fc.oneof(fc.constant(NaN), fc.double({ min: -1e15, max: 1e15, noNaN: true })), { minLength: 25, maxLength: 25 }),
+        fc.array(fc.oneof(fc.constant(NaN), fc.double({ min: -1e15, max: 1e15, noNaN: true })), {
+          minLength: 25,
+          maxLength: 25,
+        }),
         (rowLabels, colLabels, pool) => {
           const n = rowLabels.length * colLabels.length;
           const values = Float64Array.from(pool.slice(0, n), (x) => (Object.is(x, -0) ? 0 : x));
-          const doc: ProjectDocument = { ...sampleDoc(), runs: [], matrix: { rowLabels, colLabels, values, scale: { min: -1e15, max: 1e15, step: 0 } } };
+          const doc: ProjectDocument = {
+            ...sampleDoc(),
+            runs: [],
+            matrix: { rowLabels, colLabels, values, scale: { min: -1e15, max: 1e15, step: 0 } },
+          };
           const r = parseProject(serializeProject(doc), 'rt.rankfill');
           if (!r.ok) throw new Error(r.problems.map(formatProblem).join('\n'));
           expect(plain(r.project)).toEqual(plain(doc));
@@ -74,12 +110,21 @@ describe('project file', () => {
     const r = parseProject(text, 'new.rankfill');
     expect(r).toEqual({
       ok: false,
-      problems: [{ file: 'new.rankfill', line: 3, column: 14, message: 'made by a newer Rankfill (format v3); this version reads up to v2' }],
+      problems: [
+        {
+          file: 'new.rankfill',
+          line: 3,
+          column: 14,
+          message: 'made by a newer Rankfill (format v3); this version reads up to v2',
+        },
+      ],
     });
   });
 
   it('reports every schema problem at its place in the text', () => {
-    const text = serializeProject(sampleDoc()).replace('[2,1,null]', '[2,"x",1e999]').replace('"rank":1', '"rank":"one"');
+    const text = serializeProject(sampleDoc())
+      .replace('[2,1,null]', '[2,"x",1e999]')
+      .replace('"rank":1', '"rank":"one"');
     const r = parseProject(text, 'bad.rankfill');
     expect(r.ok).toBe(false);
     if (r.ok) return;
@@ -118,7 +163,13 @@ describe('format v1 → v2 migration', () => {
     const r = parseProject(text, 'panel.rankfill');
     if (!r.ok) throw new Error(r.problems.map(formatProblem).join('\n'));
     expect(r.project.runs).toHaveLength(1);
-    expect(r.project.runs[0]).toMatchObject({ id: 'run-1', number: 1, name: 'rank 2', fittedAt: '2026-01-02T10:00:00.000Z', metrics: { heldOutRmse: 0.82 } });
+    expect(r.project.runs[0]).toMatchObject({
+      id: 'run-1',
+      number: 1,
+      name: 'rank 2',
+      fittedAt: '2026-01-02T10:00:00.000Z',
+      metrics: { heldOutRmse: 0.82 },
+    });
     // Saved again, it is a version-2 file that reads back the same.
     const again = serializeProject(r.project);
     expect(again).toContain('"version": 2,');

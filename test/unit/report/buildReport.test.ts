@@ -15,13 +15,19 @@ function sampleMatrix(): RatingMatrix {
   const rows = 14;
   const cols = 9;
   const values = new Float64Array(rows * cols);
-  for (let i = 0; i < rows; i++) for (let j = 0; j < cols; j++) values[i * cols + j] = rng.next() < 0.3 ? NaN : 1 + Math.round(4 * rng.next());
+  for (let i = 0; i < rows; i++)
+    for (let j = 0; j < cols; j++) values[i * cols + j] = rng.next() < 0.3 ? NaN : 1 + Math.round(4 * rng.next());
   // Row 3 has one rating only: thin at rank 2.
   for (let j = 1; j < cols; j++) values[3 * cols + j] = NaN;
   values[3 * cols] = 4;
   const rowLabels = Array.from({ length: rows }, (_, i) => `Taster ${i + 1}`);
   rowLabels[5] = '<script>alert(1)</script>';
-  return { rowLabels, colLabels: Array.from({ length: cols }, (_, j) => `Blend ${j + 1}`), values, scale: { min: 1, max: 5, step: 1 } };
+  return {
+    rowLabels,
+    colLabels: Array.from({ length: cols }, (_, j) => `Blend ${j + 1}`),
+    values,
+    scale: { min: 1, max: 5, step: 1 },
+  };
 }
 
 function reportInput(extra: Partial<ReportInput> = {}): ReportInput {
@@ -35,11 +41,25 @@ function reportInput(extra: Partial<ReportInput> = {}): ReportInput {
     createdAt: '2026-12-02T10:00:00.000Z',
     matrix,
     inputSha256: 'f'.repeat(64),
-    run: { label: 'Run 1', settings, iterations: fit.iterations, converged: fit.converged, finalObjective: fit.objectiveTrace.at(-1) ?? null, objectiveTrace: fit.objectiveTrace, refitsAfterEdits: 0 },
+    run: {
+      label: 'Run 1',
+      settings,
+      iterations: fit.iterations,
+      converged: fit.converged,
+      finalObjective: fit.objectiveTrace.at(-1) ?? null,
+      objectiveTrace: fit.objectiveTrace,
+      refitsAfterEdits: 0,
+    },
     evaluation: tuneToPayload(tune(matrix, { settings: reportEvaluationSettings(settings) }, 5, 1)),
     centering: null,
     tuning: null,
-    exports: [{ path: '/out/tasting filled.csv', sidecarPath: '/out/tasting filled.settings.json', writtenAt: '2026-12-02T09:59:00.000Z' }],
+    exports: [
+      {
+        path: '/out/tasting filled.csv',
+        sidecarPath: '/out/tasting filled.settings.json',
+        writtenAt: '2026-12-02T09:59:00.000Z',
+      },
+    ],
     ...extra,
   };
 }
@@ -55,7 +75,9 @@ describe('study report builder', () => {
 
   it('is one self-contained document: no script that runs, no reference to anything outside it', () => {
     expect(html.startsWith('<!doctype html>')).toBe(true);
-    expect(html).toContain(`<meta http-equiv="Content-Security-Policy" content="${REPORT_CSP.replace(/'/g, '&#39;')}">`);
+    expect(html).toContain(
+      `<meta http-equiv="Content-Security-Policy" content="${REPORT_CSP.replace(/'/g, '&#39;')}">`,
+    );
     expect(REPORT_CSP).toContain("default-src 'none'");
     // Every <script> is the JSON data block (never executed).
     const scripts = html.match(/<script\b[^>]*>/g) ?? [];
@@ -72,7 +94,9 @@ describe('study report builder', () => {
   });
 
   it('puts the sections in the agreed order and names the thin row', () => {
-    const order = ['report-data', 'report-methods', 'report-accuracy', 'report-caution', 'report-provenance'].map((id) => html.indexOf(`data-testid="${id}"`));
+    const order = ['report-data', 'report-methods', 'report-accuracy', 'report-caution', 'report-provenance'].map(
+      (id) => html.indexOf(`data-testid="${id}"`),
+    );
     expect(order.every((x) => x > 0)).toBe(true);
     expect([...order].sort((a, b) => a - b)).toEqual(order);
     expect(html).not.toContain('data-testid="report-intervals"');
@@ -106,7 +130,17 @@ describe('study report builder', () => {
   });
 
   it('adds an intervals section between the errors and the cautions when the run carries intervals', () => {
-    const withIntervals = buildReport(reportInput({ intervals: { method: 'prediction interval', sources: ['Someone (2000). A source.'], level: 0.8, coverage: 0.81, meanWidth: 1.5 } }));
+    const withIntervals = buildReport(
+      reportInput({
+        intervals: {
+          method: 'prediction interval',
+          sources: ['Someone (2000). A source.'],
+          level: 0.8,
+          coverage: 0.81,
+          meanWidth: 1.5,
+        },
+      }),
+    );
     const at = (id: string) => withIntervals.indexOf(`data-testid="${id}"`);
     expect(at('report-intervals')).toBeGreaterThan(at('report-accuracy'));
     expect(at('report-intervals')).toBeLessThan(at('report-caution'));
@@ -119,7 +153,9 @@ describe('study report builder', () => {
     expect(html).not.toContain('data-testid="report-centering"');
     const m = sampleMatrix();
     const base = defaultLowRankSettings();
-    const centering = tuneToPayload(tune(m, { settings: (['none', 'row', 'column', 'both'] as const).map((c) => ({ ...base, centering: c })) }, 5, 1));
+    const centering = tuneToPayload(
+      tune(m, { settings: (['none', 'row', 'column', 'both'] as const).map((c) => ({ ...base, centering: c })) }, 5, 1),
+    );
     const tuning = tuneToPayload(tune(m, { ranks: [0, 1, 2], lambdas: [1, 10], centerings: ['both'] }, 5, 1));
     const full = buildReport(reportInput({ centering, tuning }));
     expect(full).toContain('data-testid="report-centering"');

@@ -21,7 +21,15 @@ function input(settings: FitSettings, extra: Partial<ReportInput> = {}): ReportI
     createdAt: '2026-01-01T00:00:00.000Z',
     matrix,
     inputSha256: 'ab',
-    run: { label: 'Run 1', settings, iterations: 12, converged: true, finalObjective: 3, objectiveTrace: [5, 3], refitsAfterEdits: 0 },
+    run: {
+      label: 'Run 1',
+      settings,
+      iterations: 12,
+      converged: true,
+      finalObjective: 3,
+      objectiveTrace: [5, 3],
+      refitsAfterEdits: 0,
+    },
     evaluation: null,
     centering: null,
     tuning: null,
@@ -30,13 +38,22 @@ function input(settings: FitSettings, extra: Partial<ReportInput> = {}): ReportI
   };
 }
 
-const row = (settings: FitSettings, rmse: number) => ({ settings, folds: [], meanRmse: rmse, sdRmse: 0.1, meanMae: rmse * 0.8, sdMae: 0.05 });
+const row = (settings: FitSettings, rmse: number) => ({
+  settings,
+  folds: [],
+  meanRmse: rmse,
+  sdRmse: 0.1,
+  meanMae: rmse * 0.8,
+  sdMae: 0.05,
+});
 
 describe('methods paragraph', () => {
   it('states the low-rank settings, the scale and the observed share in words', () => {
     const s: LowRankSettings = { ...defaultLowRankSettings(), rank: 3, lambda: 2.5, centering: 'row', seed: 7 };
     const t = methodsText(input(s));
-    expect(t.paragraph).toContain('3 rows by 2 columns on a scale of 1 to 5 in steps of 1; 4 of 6 cells (66.7 %) were observed.');
+    expect(t.paragraph).toContain(
+      '3 rows by 2 columns on a scale of 1 to 5 in steps of 1; 4 of 6 cells (66.7 %) were observed.',
+    );
     expect(t.paragraph).toContain('rank-3 factorization of the ratings after removing each row’s mean (λ = 2.5)');
     expect(t.paragraph).toContain('alternating least squares (ALS; Hastie, Mazumder, Lee & Zadeh, 2015)');
     expect(t.paragraph).toContain('settled after 12 sweeps (relative change below 1e-6)');
@@ -57,9 +74,18 @@ describe('methods paragraph', () => {
 
   it('reports the cross-validated errors beside the baselines and cites §7.10', () => {
     const s = defaultLowRankSettings();
-    const evaluation: TunePayload = { k: 5, seed: 1, table: [row(s, 0.91234), row({ ...s, rank: 0 }, 1.2)], bestIndex: 0, oneStandardErrorIndex: 0, threshold: 1 };
+    const evaluation: TunePayload = {
+      k: 5,
+      seed: 1,
+      table: [row(s, 0.91234), row({ ...s, rank: 0 }, 1.2)],
+      bestIndex: 0,
+      oneStandardErrorIndex: 0,
+      threshold: 1,
+    };
     const t = methodsText(input(s, { evaluation }));
-    expect(t.paragraph).toContain('5-fold cross-validation over the observed cells (seed 1; Hastie, Tibshirani & Friedman, 2009, §7.10)');
+    expect(t.paragraph).toContain(
+      '5-fold cross-validation over the observed cells (seed 1; Hastie, Tibshirani & Friedman, 2009, §7.10)',
+    );
     expect(t.paragraph).toContain('(RMSE) of 0.912 (standard deviation 0.100 across folds)');
     expect(t.paragraph).toContain('against an RMSE of 1.200 for the row and column baselines alone on the same folds');
     expect(t.references).toEqual([REFERENCES.als, REFERENCES.cv]);
@@ -76,7 +102,9 @@ describe('methods paragraph', () => {
       threshold: 1.04,
     };
     const chosen = methodsText(input(s, { tuning })).paragraph;
-    expect(chosen).toContain('chosen by 4-fold cross-validation (seed 3, the same folds for every setting) from ranks 0, 1, 2 × λ 1');
+    expect(chosen).toContain(
+      'chosen by 4-fold cross-validation (seed 3, the same folds for every setting) from ranks 0, 1, 2 × λ 1',
+    );
     expect(chosen).toContain('one-standard-error rule (Hastie, Tibshirani & Friedman, 2009, §7.10)');
     const best = methodsText(input({ ...s, rank: 2 }, { tuning })).paragraph;
     expect(best).toContain('as the one with the lowest mean RMSE');
@@ -86,14 +114,36 @@ describe('methods paragraph', () => {
 
   it('adds the interval method and its source when the run carries intervals', () => {
     const t = methodsText(
-      input(defaultLowRankSettings(), { intervals: { method: 'split-conformal interval', sources: ['A. Author (2005). A book.'], citation: 'Author, 2005', level: 0.9, coverage: 0.893, meanWidth: 2.345 } }),
+      input(defaultLowRankSettings(), {
+        intervals: {
+          method: 'split-conformal interval',
+          sources: ['A. Author (2005). A book.'],
+          citation: 'Author, 2005',
+          level: 0.9,
+          coverage: 0.893,
+          meanWidth: 2.345,
+        },
+      }),
     );
-    expect(t.paragraph).toContain('Each filled value was given a 90 % split-conformal interval (Author, 2005); on held-out ratings 89.3 % fell inside their interval, with a mean width of 2.35 rating units.');
+    expect(t.paragraph).toContain(
+      'Each filled value was given a 90 % split-conformal interval (Author, 2005); on held-out ratings 89.3 % fell inside their interval, with a mean width of 2.35 rating units.',
+    );
     expect(t.references).toContain('A. Author (2005). A book.');
   });
 
   it('says "an 80 %" but "a 90 %" (English usage, from memory)', () => {
-    expect(['80 %', '8', '11', '18 %', '90 %', '1 %', '110', '180', '800', '8000'].map(articleFor)).toEqual(['an', 'an', 'an', 'an', 'a', 'a', 'a', 'a', 'an', 'an']);
+    expect(['80 %', '8', '11', '18 %', '90 %', '1 %', '110', '180', '800', '8000'].map(articleFor)).toEqual([
+      'an',
+      'an',
+      'an',
+      'an',
+      'a',
+      'a',
+      'a',
+      'a',
+      'an',
+      'an',
+    ]);
   });
 
   it('writes tolerances as 1e-6, not 0.000001', () => {

@@ -6,8 +6,14 @@ import { missingPattern } from '../../../src-shared/report/missingPattern';
 
 function matrix(rows: number, cols: number, observed: (i: number, j: number) => boolean): RatingMatrix {
   const values = new Float64Array(rows * cols);
-  for (let i = 0; i < rows; i++) for (let j = 0; j < cols; j++) values[i * cols + j] = observed(i, j) ? 1 + ((i + j) % 5) : NaN;
-  return { rowLabels: Array.from({ length: rows }, (_, i) => `r${i}`), colLabels: Array.from({ length: cols }, (_, j) => `c${j}`), values, scale: { min: 1, max: 5, step: 1 } };
+  for (let i = 0; i < rows; i++)
+    for (let j = 0; j < cols; j++) values[i * cols + j] = observed(i, j) ? 1 + ((i + j) % 5) : NaN;
+  return {
+    rowLabels: Array.from({ length: rows }, (_, i) => `r${i}`),
+    colLabels: Array.from({ length: cols }, (_, j) => `c${j}`),
+    values,
+    scale: { min: 1, max: 5, step: 1 },
+  };
 }
 
 describe('missing pattern', () => {

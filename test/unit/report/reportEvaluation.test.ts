@@ -9,10 +9,19 @@ import { reportEvaluationSettings } from '../../../src-shared/report/reportEvalu
 
 describe('report evaluation: the run beside the baselines alone', () => {
   it('lists the run first, then row+column, row-mean and column-mean baselines at rank 0 with the run’s seed', () => {
-    const run = { ...defaultLowRankSettings(), rank: 4, lambda: 3, centering: 'row' as const, seed: 9, offsetLambda: 2 };
+    const run = {
+      ...defaultLowRankSettings(),
+      rank: 4,
+      lambda: 3,
+      centering: 'row' as const,
+      seed: 9,
+      offsetLambda: 2,
+    };
     const list = reportEvaluationSettings(run);
     expect(list[0]).toBe(run);
-    expect(list.slice(1).map((s) => (s.model === 'lowrank' ? [s.rank, s.centering, s.seed, s.offsetLambda] : null))).toEqual([
+    expect(
+      list.slice(1).map((s) => (s.model === 'lowrank' ? [s.rank, s.centering, s.seed, s.offsetLambda] : null)),
+    ).toEqual([
       [0, 'both', 9, 2],
       [0, 'row', 9, 2],
       [0, 'column', 9, 2],
@@ -27,7 +36,12 @@ describe('report evaluation: the run beside the baselines alone', () => {
     const cols = 7;
     const values = new Float64Array(rows * cols);
     for (let c = 0; c < values.length; c++) values[c] = rng.next() < 0.25 ? NaN : 1 + Math.round(6 * rng.next());
-    const m: RatingMatrix = { rowLabels: Array.from({ length: rows }, (_, i) => `r${i}`), colLabels: Array.from({ length: cols }, (_, j) => `c${j}`), values, scale: { min: 1, max: 7, step: 1 } };
+    const m: RatingMatrix = {
+      rowLabels: Array.from({ length: rows }, (_, i) => `r${i}`),
+      colLabels: Array.from({ length: cols }, (_, j) => `c${j}`),
+      values,
+      scale: { min: 1, max: 7, step: 1 },
+    };
     const settings = reportEvaluationSettings(defaultLowRankSettings());
     const result = tune(m, { settings }, 5, 1);
     const foldOf = cellFolds(m, makeFolds(m, 5, 1));

@@ -5,7 +5,12 @@ import { insertRow, transpose } from '../../../src-renderer/editing/matrixOps';
 import { DocumentStore } from '../../../src-renderer/state/documentStore';
 
 const N = NaN;
-const m0 = (): RatingMatrix => ({ rowLabels: ['a', 'b'], colLabels: ['x', 'y'], values: Float64Array.from([1, N, 3, 4]), scale: { min: 1, max: 5, step: 1 } });
+const m0 = (): RatingMatrix => ({
+  rowLabels: ['a', 'b'],
+  colLabels: ['x', 'y'],
+  values: Float64Array.from([1, N, 3, 4]),
+  scale: { min: 1, max: 5, step: 1 },
+});
 const vals = (s: DocumentStore) => Array.from(s.current.values, (v) => (Number.isNaN(v) ? null : v));
 
 describe('document store', () => {

@@ -16,7 +16,12 @@ import type { FitResult } from '../../../src-shared/engine/types';
 import type { RatingMatrix } from '../../../src-shared/matrix/ratingMatrix';
 
 const N = NaN;
-const m0 = (): RatingMatrix => ({ rowLabels: ['a', 'b'], colLabels: ['x', 'y', 'z'], values: Float64Array.from([1, N, 3, 4, 5, N]), scale: { min: 1, max: 5, step: 1 } });
+const m0 = (): RatingMatrix => ({
+  rowLabels: ['a', 'b'],
+  colLabels: ['x', 'y', 'z'],
+  values: Float64Array.from([1, N, 3, 4, 5, N]),
+  scale: { min: 1, max: 5, step: 1 },
+});
 
 function memoryStorage() {
   const map = new Map<string, string>();
@@ -26,8 +31,22 @@ function memoryStorage() {
 function runFor(doc: DocumentStore): Omit<Run, 'id'> {
   const m = doc.current;
   const cells = m.values.length;
-  const result = { rows: m.rowLabels.length, cols: m.colLabels.length, predictions: new Float64Array(cells) } as unknown as FitResult;
-  return { settings: defaultLowRankSettings(), result, createdAt: 0, docRevision: doc.revision, dataSet: doc.dataSet, layout: doc.layout, rows: result.rows, cols: result.cols, refits: 0 };
+  const result = {
+    rows: m.rowLabels.length,
+    cols: m.colLabels.length,
+    predictions: new Float64Array(cells),
+  } as unknown as FitResult;
+  return {
+    settings: defaultLowRankSettings(),
+    result,
+    createdAt: 0,
+    docRevision: doc.revision,
+    dataSet: doc.dataSet,
+    layout: doc.layout,
+    rows: result.rows,
+    cols: result.cols,
+    refits: 0,
+  };
 }
 
 describe('settings store', () => {
@@ -67,7 +86,11 @@ describe('view store', () => {
     const v = new ViewStore(storage);
     v.setLayout({ sideWidth: 10_000, sideCollapsed: true, sideTab: 'runs' });
     expect(v.state.layout.sideWidth).toBe(SIDE_MAX_WIDTH);
-    expect(new ViewStore(storage).state.layout).toEqual({ sideTab: 'runs', sideCollapsed: true, sideWidth: SIDE_MAX_WIDTH });
+    expect(new ViewStore(storage).state.layout).toEqual({
+      sideTab: 'runs',
+      sideCollapsed: true,
+      sideWidth: SIDE_MAX_WIDTH,
+    });
     expect(parseLayout('{not json')).toEqual(parseLayout(null));
   });
 

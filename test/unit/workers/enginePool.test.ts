@@ -13,7 +13,10 @@ import { lowRankCase } from '../engine/helpers';
 // TypeScript worker entry through tsx's CommonJS hook in an eval worker (see fitService.test.ts).
 const workerFile = fileURLToPath(new URL('../../../src-main/pool/pool.worker.ts', import.meta.url));
 const tsxCjsApi = createRequire(import.meta.url).resolve('tsx/cjs/api');
-const makeWorker = (): Worker => new Worker(`require(${JSON.stringify(tsxCjsApi)}).register(); require(${JSON.stringify(workerFile)});`, { eval: true });
+const makeWorker = (): Worker =>
+  new Worker(`require(${JSON.stringify(tsxCjsApi)}).register(); require(${JSON.stringify(workerFile)});`, {
+    eval: true,
+  });
 
 const pools: EnginePool[] = [];
 afterEach(async () => {
@@ -28,7 +31,12 @@ function pool(size: number): EnginePool {
 describe('engine pool', () => {
   const { matrix } = lowRankCase(60, 40, 2, 0.3, 0.5, 17);
   const m = toSparseMatrix(matrix);
-  const list = expandLowRankGrid({ ranks: [0, 1, 3], lambdas: [0.5, 4], centerings: ['row', 'both'], base: { maxIterations: 30 } });
+  const list = expandLowRankGrid({
+    ranks: [0, 1, 3],
+    lambdas: [0.5, 4],
+    centerings: ['row', 'both'],
+    base: { maxIterations: 30 },
+  });
 
   it('gives bit-identical outcomes with 1, 2 and 4 workers and in this thread', async () => {
     // common practice, no source: parallel work split into independent deterministic tasks must not change any number.
@@ -54,7 +62,13 @@ describe('engine pool', () => {
     expect(got).toEqual(expected);
     expect(got.intervals?.[0].normalized.coverage).toBeGreaterThan(0.5);
     const seen: number[] = [];
-    await pool(2).runFolds({ matrix: m, folds: makeFolds(m, 4, 9), settings: [s, { ...s, rank: 1 }], reuse: false, onProgress: (d) => seen.push(d) });
+    await pool(2).runFolds({
+      matrix: m,
+      folds: makeFolds(m, 4, 9),
+      settings: [s, { ...s, rank: 1 }],
+      reuse: false,
+      onProgress: (d) => seen.push(d),
+    });
     expect(seen.sort((a, b) => a - b)).toEqual([1, 2, 3, 4, 5, 6, 7, 8]);
   });
 

@@ -14,7 +14,10 @@ import { lowRankCase } from '../engine/helpers';
 const workerFile = fileURLToPath(new URL('../../../src-main/workers/fit.worker.ts', import.meta.url));
 const tsxCjsApi = createRequire(import.meta.url).resolve('tsx/cjs/api');
 const makeWorker = (limits: ResourceLimits) =>
-  new Worker(`require(${JSON.stringify(tsxCjsApi)}).register(); require(${JSON.stringify(workerFile)});`, { eval: true, resourceLimits: limits });
+  new Worker(`require(${JSON.stringify(tsxCjsApi)}).register(); require(${JSON.stringify(workerFile)});`, {
+    eval: true,
+    resourceLimits: limits,
+  });
 
 function setup() {
   const router = new ApiRouter({} as ApiHandlers);
@@ -59,7 +62,17 @@ describe('model jobs behind the API', () => {
     const { jobs, waitFor } = setup();
     dispose = () => jobs.dispose();
     const big = matrixToPayload(lowRankCase(300, 200, 5, 0.1, 0.5, 9).matrix);
-    jobs.startTune(big, [{ ...settings, rank: 5 }, { ...settings, rank: 4 }, { ...settings, rank: 3 }], 5, 1, 'grid-1');
+    jobs.startTune(
+      big,
+      [
+        { ...settings, rank: 5 },
+        { ...settings, rank: 4 },
+        { ...settings, rank: 3 },
+      ],
+      5,
+      1,
+      'grid-1',
+    );
     expect(() => jobs.startTune(payload, [settings], 5, 1, 'grid-1')).toThrow(UserFacingError);
     expect(jobs.cancel('eval:grid-1')).toBe(true);
     const e = await waitFor((x) => x.event === 'fit.cancelled');

@@ -16,7 +16,10 @@ import { lowRankCase } from '../engine/helpers';
 const workerFile = fileURLToPath(new URL('../../../src-main/workers/fit.worker.ts', import.meta.url));
 const tsxCjsApi = createRequire(import.meta.url).resolve('tsx/cjs/api');
 const makeWorker = (limits: ResourceLimits) =>
-  new Worker(`require(${JSON.stringify(tsxCjsApi)}).register(); require(${JSON.stringify(workerFile)});`, { eval: true, resourceLimits: limits });
+  new Worker(`require(${JSON.stringify(tsxCjsApi)}).register(); require(${JSON.stringify(workerFile)});`, {
+    eval: true,
+    resourceLimits: limits,
+  });
 
 type Outcome =
   | { kind: 'result'; payload: unknown; progress: unknown[]; progressTimes: number[] }
@@ -39,8 +42,10 @@ function outcome(service: FitService, jobId: string): Promise<Outcome> {
       service.off('cancelled', onCancelled);
       resolve(o);
     };
-    const onResult = (id: string, payload: unknown) => id === jobId && done({ kind: 'result', payload, progress, progressTimes });
-    const onError = (id: string, message: string) => id === jobId && done({ kind: 'error', message, progress, progressTimes });
+    const onResult = (id: string, payload: unknown) =>
+      id === jobId && done({ kind: 'result', payload, progress, progressTimes });
+    const onError = (id: string, message: string) =>
+      id === jobId && done({ kind: 'error', message, progress, progressTimes });
     const onCancelled = (id: string) => id === jobId && done({ kind: 'cancelled', progress, progressTimes });
     service.on('progress', onProgress);
     service.on('result', onResult);
@@ -86,7 +91,12 @@ describe('FitService with a real worker', () => {
     const long = outcome(service, id);
     // Wait until it is really iterating.
     await new Promise<void>((resolve) => service!.once('progress', () => resolve()));
-    const next = service.startEvaluate(lowRankCase(20, 15, 1, 0.3, 0.7, 1).matrix, { ...defaultLowRankSettings(), rank: 1 }, 3, 1);
+    const next = service.startEvaluate(
+      lowRankCase(20, 15, 1, 0.3, 0.7, 1).matrix,
+      { ...defaultLowRankSettings(), rank: 1 },
+      3,
+      1,
+    );
     const nextOutcome = outcome(service, next);
     const t0 = performance.now();
     expect(service.cancel(id)).toBe(true);
@@ -103,14 +113,19 @@ describe('FitService with a real worker', () => {
     const { matrix } = lowRankCase(3000, 500, 10, 0.3, 0.2, 73);
     const id = service.startFit(matrix, { ...defaultLowRankSettings(), rank: 10, tolerance: 0, maxIterations: 100000 });
     await new Promise<void>((resolve) => service!.once('progress', () => resolve()));
-    const stopped = new Promise<number>((resolve) => service!.once('stopped', (_id: string, ms: number) => resolve(ms)));
+    const stopped = new Promise<number>((resolve) =>
+      service!.once('stopped', (_id: string, ms: number) => resolve(ms)),
+    );
     const small = lowRankCase(30, 20, 2, 0.3, 0.5, 2).matrix;
     const t0 = performance.now();
     service.cancel(id);
     // The worker measures from the request (shared clock) to leaving the loop.
     expect(await stopped).toBeLessThan(100);
     // And the next job runs right after (generous bound: other test files share the cores).
-    const o = await outcome(service, service.startFit(small, { ...defaultLowRankSettings(), rank: 1, maxIterations: 1 }));
+    const o = await outcome(
+      service,
+      service.startFit(small, { ...defaultLowRankSettings(), rank: 1, maxIterations: 1 }),
+    );
     expect(o.kind).toBe('result');
     expect(performance.now() - t0).toBeLessThan(1000);
   });
@@ -129,7 +144,11 @@ describe('FitService with a real worker', () => {
       createWorker: (limits) => {
         made++;
         // The first worker dies on its first message (simulated crash); later ones are real.
-        if (made === 1) return new Worker('require("node:worker_threads").parentPort.on("message", () => { throw new Error("boom"); });', { eval: true });
+        if (made === 1)
+          return new Worker(
+            'require("node:worker_threads").parentPort.on("message", () => { throw new Error("boom"); });',
+            { eval: true },
+          );
         return makeWorker(limits);
       },
     });
@@ -152,7 +171,10 @@ describe('FitService with a real worker', () => {
     const tr = (t as { payload: TuneResult }).payload;
     expect(tr.table).toHaveLength(2);
     for (const p of t.progress as StepProgress[]) expect(p.total).toBe(6);
-    const f = await outcome(service, service.startFit(matrix, { ...defaultLowRankSettings(), rank: 2 }, { trust: { method: 'folds', k: 3 } }));
+    const f = await outcome(
+      service,
+      service.startFit(matrix, { ...defaultLowRankSettings(), rank: 2 }, { trust: { method: 'folds', k: 3 } }),
+    );
     const fr = (f as { payload: FitJobResult }).payload;
     expect(fr.spread).toBeInstanceOf(Float64Array);
     expect(fr.spread!.length).toBe(1200);
@@ -167,9 +189,16 @@ describe('FitService with a real worker', () => {
       createWorker: makeWorker,
     });
     const { matrix } = lowRankCase(20, 10, 1, 0.3, 0.8, 77);
-    const list = expandLowRankGrid({ ranks: [0], lambdas: Array.from({ length: 1500000 }, (_, i) => i + 1), centerings: ['none'] });
+    const list = expandLowRankGrid({
+      ranks: [0],
+      lambdas: Array.from({ length: 1500000 }, (_, i) => i + 1),
+      centerings: ['none'],
+    });
     const o = await outcome(service, service.startTune(matrix, list, 2, 1));
-    expect(o).toMatchObject({ kind: 'error', message: expect.stringMatching(/stopped unexpectedly \(out of memory\)/) });
+    expect(o).toMatchObject({
+      kind: 'error',
+      message: expect.stringMatching(/stopped unexpectedly \(out of memory\)/),
+    });
     // And the service recovers with a fresh worker.
     const again = await outcome(service, service.startFit(matrix, defaultLowRankSettings()));
     expect(again.kind).toBe('result');

@@ -40,7 +40,14 @@ beforeAll(async () => {
   try {
     const esbuild = await import('esbuild');
     const out = path.join(work, 'crash.child.mjs');
-    await esbuild.build({ entryPoints: [CHILD_TS], bundle: true, platform: 'node', format: 'esm', outfile: out, logLevel: 'silent' });
+    await esbuild.build({
+      entryPoints: [CHILD_TS],
+      bundle: true,
+      platform: 'node',
+      format: 'esm',
+      outfile: out,
+      logLevel: 'silent',
+    });
     childArgs = [out];
   } catch {
     childArgs = ['--import', 'tsx', CHILD_TS];
@@ -61,7 +68,11 @@ function startChild(args: string[]): ChildProcess {
   return spawn(process.execPath, [...childArgs, ...args], { stdio: ['ignore', 'pipe', 'pipe'] });
 }
 
-function waitForLine(child: ChildProcess, test: (line: string) => boolean, onLine?: (line: string) => void): Promise<void> {
+function waitForLine(
+  child: ChildProcess,
+  test: (line: string) => boolean,
+  onLine?: (line: string) => void,
+): Promise<void> {
   return new Promise((resolve, reject) => {
     let buf = '';
     let err = '';
@@ -131,7 +142,10 @@ interface KillLoop {
  * removed the temps the previous kill left (so at most one write's temps are ever left),
  * and after the host's start-up cleanup none remain.
  */
-async function killLoop(l: KillLoop, random: () => number): Promise<{ corrupt: number; seen: number[]; maxTemps: number; afterRestart: number }> {
+async function killLoop(
+  l: KillLoop,
+  random: () => number,
+): Promise<{ corrupt: number; seen: number[]; maxTemps: number; afterRestart: number }> {
   let corrupt = 0;
   let maxTemps = 0;
   const seen = [0, 0];
@@ -158,7 +172,10 @@ async function killLoop(l: KillLoop, random: () => number): Promise<{ corrupt: n
   return { corrupt, seen, maxTemps, afterRestart };
 }
 
-function expectClean(r: { corrupt: number; seen: number[]; maxTemps: number; afterRestart: number }, maxTempsOfOneWrite: number): void {
+function expectClean(
+  r: { corrupt: number; seen: number[]; maxTemps: number; afterRestart: number },
+  maxTempsOfOneWrite: number,
+): void {
   expect(r.corrupt).toBe(0);
   // Both versions must have been observed, or the kills did not land during the loop.
   expect(r.seen[0]).toBeGreaterThan(0);
@@ -226,7 +243,10 @@ describe('crash safety', () => {
     const expected = await Promise.all(
       [0, 1].map(async (v) => {
         const p = path.join(work, `cli-expected-${v}.csv`);
-        const code = await runCli(['fill', inputs[v], '--out', p, '--rank', '1', '--seed', '1'], { stdout: () => {}, stderr: () => {} });
+        const code = await runCli(['fill', inputs[v], '--out', p, '--rank', '1', '--seed', '1'], {
+          stdout: () => {},
+          stderr: () => {},
+        });
         expect(code).toBe(0);
         return readFileSync(p, 'utf8');
       }),
@@ -279,7 +299,9 @@ describe('crash safety', () => {
       expect(restored.meta.title).toBe('crash test');
       // Everything but the edited cell is as the child started.
       const base = crashTestVersion(0);
-      expect(Array.from(restored.project.matrix.values.subarray(1))).toEqual(Array.from(base.matrix.values.subarray(1)));
+      expect(Array.from(restored.project.matrix.values.subarray(1))).toEqual(
+        Array.from(base.matrix.values.subarray(1)),
+      );
       await store.discard('crash-doc');
       expect(await store.list()).toEqual([]);
     }

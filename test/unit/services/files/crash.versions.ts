@@ -32,6 +32,7 @@ export function crashExportText(which: 0 | 1 | number): string {
 export function crashCliInput(which: 0 | 1 | number): string {
   const rows = which === 0 ? 40 : 120;
   const lines = ['row,a,b,c,d'];
-  for (let i = 0; i < rows; i++) lines.push(`r${i},${1 + (i % 5)},${1 + ((i + which) % 5)},${i % 3 === 0 ? '' : 2 + which},${1 + ((i * 7) % 5)}`);
+  for (let i = 0; i < rows; i++)
+    lines.push(`r${i},${1 + (i % 5)},${1 + ((i + which) % 5)},${i % 3 === 0 ? '' : 2 + which},${1 + ((i * 7) % 5)}`);
   return lines.join('\n') + '\n';
 }

@@ -17,6 +17,9 @@ describe('parse worker', () => {
     expect(r.ok && r.matrix.values).toBeInstanceOf(Float64Array);
     const bad = await client.parseFile(path.resolve(__dirname, '../../../fixtures/bad/ragged-too-many.csv'));
     expect(bad.ok).toBe(false);
-    if (!bad.ok) expect(formatProblem(bad.problems[0])).toBe('ragged-too-many.csv:3:4: too many fields: found 5, the header has 3');
+    if (!bad.ok)
+      expect(formatProblem(bad.problems[0])).toBe(
+        'ragged-too-many.csv:3:4: too many fields: found 5, the header has 3',
+      );
   });
 });

@@ -6,7 +6,12 @@ import { formatProblem } from '../../../../src-shared/io/problem';
 import { atomicWrite, backupPathFor, removeLeftoverTemps } from '../../../../src-main/services/atomicWrite';
 import { Autosaver } from '../../../../src-main/services/autosave';
 import { defaultConfigDir } from '../../../../src-main/services/configDir';
-import { importDelimitedFile, openProjectFile, saveProjectFile, withProjectExtension } from '../../../../src-main/services/projectStore';
+import {
+  importDelimitedFile,
+  openProjectFile,
+  saveProjectFile,
+  withProjectExtension,
+} from '../../../../src-main/services/projectStore';
 import { decodeText, readTextFile } from '../../../../src-main/services/readTextFile';
 import { RecentFiles } from '../../../../src-main/services/recentFiles';
 import { RecoveryStore } from '../../../../src-main/services/recovery';
@@ -40,7 +45,7 @@ describe('atomicWrite', () => {
     expect(readdirSync(work).filter((n) => n.endsWith('.tmp'))).toEqual([]);
   });
 
-  it('removes temp files of interrupted writes: a dead writer\'s at once, a running one\'s only after a day', async () => {
+  it("removes temp files of interrupted writes: a dead writer's at once, a running one's only after a day", async () => {
     const dir = path.join(work, 'leftovers');
     mkdirSync(dir);
     // pid 2147483646 does not run on any system we test on; process.ppid (the test runner) does.
@@ -79,13 +84,17 @@ describe('projectStore', () => {
   it('answers file-system errors with a problem, not an exception', async () => {
     const missing = await openProjectFile(path.join(work, 'nope.rankfill'));
     expect(missing.ok).toBe(false);
-    if (!missing.ok) expect(formatProblem(missing.problems[0])).toBe('nope.rankfill:1:1: cannot read the file: file not found');
+    if (!missing.ok)
+      expect(formatProblem(missing.problems[0])).toBe('nope.rankfill:1:1: cannot read the file: file not found');
     const folder = await importDelimitedFile(work);
     expect(folder.ok).toBe(false);
     if (!folder.ok) expect(folder.problems[0].message).toBe('this is a folder, not a file');
     const cantSave = await saveProjectFile(path.join(work, 'missing-dir', 'x.rankfill'), crashTestVersion(0));
     expect(cantSave.ok).toBe(false);
-    if (!cantSave.ok) expect(cantSave.problems[0].message).toBe(`cannot save: the folder ${path.join(work, 'missing-dir')} does not exist; create it first or choose another folder (nothing was written)`);
+    if (!cantSave.ok)
+      expect(cantSave.problems[0].message).toBe(
+        `cannot save: the folder ${path.join(work, 'missing-dir')} does not exist; create it first or choose another folder (nothing was written)`,
+      );
   });
 
   it('checks the size limit before reading', async () => {
@@ -122,7 +131,9 @@ describe('recovery and autosave', () => {
     saver.changed({ doc: () => doc, sourcePath: '/data/panel.rankfill' });
     await new Promise((r) => setTimeout(r, 150));
     const entries = await store.list();
-    expect(entries.map((e) => [e.id, e.title, e.sourcePath])).toEqual([['doc-1', 'panel.rankfill', '/data/panel.rankfill']]);
+    expect(entries.map((e) => [e.id, e.title, e.sourcePath])).toEqual([
+      ['doc-1', 'panel.rankfill', '/data/panel.rankfill'],
+    ]);
     // A fresh store (as after a restart) restores the edits.
     const restored = await new RecoveryStore({ dir: path.join(work, 'rec') }).restore('doc-1');
     if (!restored.ok) throw new Error(restored.problems.map(formatProblem).join('\n'));
@@ -145,7 +156,10 @@ describe('recovery and autosave', () => {
     await saver.flush();
     expect((await store.list()).length).toBe(1);
     saver.dispose();
-    writeFileSync(path.join(dir, 'doc-3.rankfill-recovery'), '{"format":"rankfill-recovery","version":1,"meta":{"id":"doc-3","savedAt":"x"},"project":{"format":"rankfill-project","version":9}}');
+    writeFileSync(
+      path.join(dir, 'doc-3.rankfill-recovery'),
+      '{"format":"rankfill-recovery","version":1,"meta":{"id":"doc-3","savedAt":"x"},"project":{"format":"rankfill-project","version":9}}',
+    );
     const r = await store.restore('doc-3');
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.problems[0].message).toBe('made by a newer Rankfill (format v9); this version reads up to v2');
@@ -162,7 +176,8 @@ describe('recent files and config folder', () => {
     const file = path.join(work, 'cfg', 'recent-files.json');
     const recent = new RecentFiles({ file, max: 3 });
     expect(await recent.list()).toEqual([]);
-    for (const n of ['a', 'b', 'c', 'a', 'd']) await recent.add(path.join(work, n + '.rankfill'), new Date('2026-01-01T00:00:00Z'));
+    for (const n of ['a', 'b', 'c', 'a', 'd'])
+      await recent.add(path.join(work, n + '.rankfill'), new Date('2026-01-01T00:00:00Z'));
     expect((await recent.list()).map((f) => path.basename(f.path))).toEqual(['d.rankfill', 'a.rankfill', 'c.rankfill']);
     await recent.remove(path.join(work, 'a.rankfill'));
     expect((await recent.list()).map((f) => path.basename(f.path))).toEqual(['d.rankfill', 'c.rankfill']);

@@ -7,7 +7,18 @@
  */
 import { execFileSync } from 'node:child_process';
 import fsCallback from 'node:fs';
-import { existsSync, lstatSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, readlinkSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
+import {
+  existsSync,
+  lstatSync,
+  mkdirSync,
+  mkdtempSync,
+  readFileSync,
+  readdirSync,
+  readlinkSync,
+  rmSync,
+  symlinkSync,
+  writeFileSync,
+} from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it, vi } from 'vitest';
@@ -148,15 +159,23 @@ describe('exports', () => {
     const dir = folder('export-folder');
     mkdirSync(path.join(dir, 'looks-like.csv'));
     const r = await writeExport({ path: path.join(dir, 'looks-like.csv'), text: 'a\n', overwrite: true });
-    expect(r).toEqual({ ok: false, reason: 'invalid-path', message: `${path.join(dir, 'looks-like.csv')} is a folder, not a file: add a file name` });
+    expect(r).toEqual({
+      ok: false,
+      reason: 'invalid-path',
+      message: `${path.join(dir, 'looks-like.csv')} is a folder, not a file: add a file name`,
+    });
     expect(temps(dir)).toEqual([]);
   });
 
   it('other write failures come back as a plain sentence naming the file', async () => {
     const dir = folder('export-fifo');
     execFileSync('mkfifo', [path.join(dir, 'out.csv')]);
-    const err = await writeExport({ path: path.join(dir, 'out.csv'), text: 'a\n', overwrite: true }).catch((e: Error) => e);
-    expect((err as Error).message).toBe(`Cannot write ${path.join(dir, 'out.csv')}: this is not a regular file (a device, pipe or socket).`);
+    const err = await writeExport({ path: path.join(dir, 'out.csv'), text: 'a\n', overwrite: true }).catch(
+      (e: Error) => e,
+    );
+    expect((err as Error).message).toBe(
+      `Cannot write ${path.join(dir, 'out.csv')}: this is not a regular file (a device, pipe or socket).`,
+    );
   });
 });
 
@@ -180,7 +199,10 @@ describe('bounded reads', () => {
     const r = await openProjectFile(fifo);
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.problems[0].message).toBe('this is a pipe (FIFO), not a file; only regular files are opened');
-    expect(readBoundedFileSync(fifo, 100)).toEqual({ ok: false, reason: 'this is a pipe (FIFO), not a file; only regular files are opened' });
+    expect(readBoundedFileSync(fifo, 100)).toEqual({
+      ok: false,
+      reason: 'this is a pipe (FIFO), not a file; only regular files are opened',
+    });
     // A later open of a real file is not held up.
     writeFileSync(path.join(dir, 'ok.txt'), 'fine');
     expect((await readTextFile(path.join(dir, 'ok.txt'), 100)).ok).toBe(true);
@@ -200,16 +222,23 @@ describe('bounded reads', () => {
     const bin = path.resolve(__dirname, '../../../../bin/rankfill.js');
     const dir = folder('stdin');
     const out = path.join(dir, 'out.csv');
-    execFileSync(process.execPath, [bin, 'fill', '-', '--out', out, '--rank', '0'], { input: 'row,a,b\nx,1,2\ny,2,\n' });
+    execFileSync(process.execPath, [bin, 'fill', '-', '--out', out, '--rank', '0'], {
+      input: 'row,a,b\nx,1,2\ny,2,\n',
+    });
     expect(readFileSync(out, 'utf8').split(/\r?\n/)[1]).toMatch(/^x,1,2$/);
     // Over the 50 MB cap: refused after reading 50 MB + 1 byte, not read to the end.
     let failure: { status: number; stderr: Buffer } | undefined;
     try {
-      execFileSync(process.execPath, [bin, 'fill', '-', '--out', path.join(dir, 'big.csv')], { input: Buffer.alloc(51 * 1024 * 1024, 0x31), stdio: ['pipe', 'pipe', 'pipe'] });
+      execFileSync(process.execPath, [bin, 'fill', '-', '--out', path.join(dir, 'big.csv')], {
+        input: Buffer.alloc(51 * 1024 * 1024, 0x31),
+        stdio: ['pipe', 'pipe', 'pipe'],
+      });
     } catch (err) {
       failure = err as { status: number; stderr: Buffer };
     }
     expect(failure?.status).toBe(2);
-    expect(String(failure?.stderr)).toBe('(standard input):1:1: file is too large to open (more than 50 MB; the limit is 50 MB)\n');
+    expect(String(failure?.stderr)).toBe(
+      '(standard input):1:1: file is too large to open (more than 50 MB; the limit is 50 MB)\n',
+    );
   }, 60_000);
 });
