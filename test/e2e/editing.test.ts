@@ -151,6 +151,8 @@ describe('editing and project files in the browser host', () => {
 
   it('refuses a paste with an entry off the scale and lists the offending cell', async () => {
     await cell(page, 3, 0).click();
+    // The paste starts at the focused cell: wait until the grid has moved its focus there.
+    await page.waitForSelector('.ag-row[row-index="3"] .ag-cell[col-id="c0"].ag-cell-focus', { state: 'attached' });
     await paste(page, '2\tabc\n');
     await expect.poll(() => page.textContent('[data-testid=notice]')).toContain('Paste refused');
     const notice = (await page.textContent('[data-testid=notice]')) ?? '';
