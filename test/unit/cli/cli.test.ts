@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
-import { runCli } from '../../../src-main/cli/main';
+import { run } from './captureCli';
 import { parseArgs, UsageError } from '../../../src-main/cli/args';
 import { fitModel } from '../../../src-shared/engine/fitModel';
 import { defaultLowRankSettings } from '../../../src-shared/engine/defaults';
@@ -16,13 +16,6 @@ const file = (name: string, text: string | Buffer) => {
   writeFileSync(p, text);
   return p;
 };
-
-async function run(...argv: string[]) {
-  let stdout = '';
-  let stderr = '';
-  const code = await runCli(argv, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t) });
-  return { code, stdout, stderr };
-}
 
 /** A 12 × 8 rank-1 table on 1–5 with about a third missing, as wide CSV. */
 function wideCsv(): { text: string; values: number[][] } {

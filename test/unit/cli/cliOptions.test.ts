@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { existsSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { runCli } from '../../../src-main/cli/main';
+import { run } from './captureCli';
 import { OPTIONS } from '../../../src-main/cli/args';
 import { defaultLowRankSettings } from '../../../src-shared/engine/defaults';
 import { defaultGaussianSettings } from '../../../src-shared/engine/gaussian/settings';
@@ -17,13 +17,6 @@ const file = (name: string, text: string) => {
   writeFileSync(p, text);
   return p;
 };
-
-async function run(...argv: string[]) {
-  let stdout = '';
-  let stderr = '';
-  const code = await runCli(argv, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t) });
-  return { code, stdout, stderr };
-}
 
 const WIDE = 'who,a,b,c\nr1,1,2,\nr2,2,,4\nr3,,3,5\nr4,4,5,5\n';
 

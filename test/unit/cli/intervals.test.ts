@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { runCli } from '../../../src-main/cli/main';
+import { run } from './captureCli';
 import { parseArgs, UsageError } from '../../../src-main/cli/args';
 import { tallPanelCsv } from '../../../bench/tallPanel';
 
@@ -11,13 +11,6 @@ beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), 'rankfill-cli-iv-'));
 });
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
-
-async function run(...argv: string[]) {
-  let stdout = '';
-  let stderr = '';
-  const code = await runCli(argv, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t) });
-  return { code, stdout, stderr };
-}
 
 describe('rankfill intervals', () => {
   it('fill --level 0.9 --long writes lower,upper columns: inclusive, clipped, around every estimate', async () => {

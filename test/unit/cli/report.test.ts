@@ -3,7 +3,7 @@ import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'no
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { runCli } from '../../../src-main/cli/main';
+import { run } from './captureCli';
 import { parseArgs } from '../../../src-main/cli/args';
 import { defaultLowRankSettings } from '../../../src-shared/engine/defaults';
 import { matrixFingerprintText } from '../../../src-shared/io/exportFilled';
@@ -13,13 +13,6 @@ import { REPORT_DATA_ID } from '../../../src-shared/report/buildReport';
 
 let dir = '';
 const sample = join(__dirname, '..', '..', '..', 'samples', 'coffee-cupping-panel.csv');
-
-async function run(...argv: string[]) {
-  let stdout = '';
-  let stderr = '';
-  const code = await runCli(argv, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t) });
-  return { code, stdout, stderr };
-}
 
 function data(html: string): {
   run: { settings: Record<string, unknown>; label: string };

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { runCli } from '../../../src-main/cli/main';
+import { run } from '../cli/captureCli';
 import { parseArgs, UsageError } from '../../../src-main/cli/args';
 import { fitModel } from '../../../src-shared/engine/fitModel';
 import { crossValidate, makeFolds } from '../../../src-shared/engine/crossValidation';
@@ -14,13 +14,6 @@ beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), 'rankfill-gaussian-cli-'));
 });
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
-
-async function run(...argv: string[]) {
-  let stdout = '';
-  let stderr = '';
-  const code = await runCli(argv, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t) });
-  return { code, stdout, stderr };
-}
 
 /** A tall panel (rows = draws of an AR(1)-correlated normal) as wide CSV, values to 2 decimals. */
 function tallPanel(n: number, p: number, seed: number): { path: string; values: Float64Array } {
