@@ -6,15 +6,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { autoSettings } from '../../src-shared/engine/autoSettings';
 import { defaultGrid } from '../../src-shared/engine/tuningGrid';
 import { launchBrowser } from './support/browser';
+import { readPageMatrix } from './support/pageMatrix';
 import { repoRoot, startHost, type RunningHost } from './support/hostProcess';
 
 type PageRun = { settings: { rank: number; lambda: number; centering: string } };
-type PageMatrix = {
-  rowLabels: string[];
-  colLabels: string[];
-  values: (number | null)[];
-  scale: { min: number; max: number; step: number };
-};
 
 describe('a first Fill chooses its settings from the data', () => {
   let host: RunningHost;
@@ -53,24 +48,8 @@ describe('a first Fill chooses its settings from the data', () => {
     expect(await page.inputValue(tid('model-rank'))).toBe(String(run.settings.rank));
     expect(await page.inputValue(tid('model-centering'))).toBe(run.settings.centering);
     // The page's worker chose what the engine chooses in-process on the same matrix.
-    const m = await page.evaluate(() => {
-      const cur = (
-        window as unknown as {
-          rankfillApp: {
-            store: {
-              current: { rowLabels: string[]; colLabels: string[]; values: Float64Array; scale: PageMatrix['scale'] };
-            };
-          };
-        }
-      ).rankfillApp.store.current;
-      return {
-        rowLabels: cur.rowLabels,
-        colLabels: cur.colLabels,
-        values: Array.from(cur.values, (x) => (Number.isNaN(x) ? null : x)),
-        scale: cur.scale,
-      };
-    });
-    const here = autoSettings({ ...m, values: Float64Array.from(m.values, (x) => (x === null ? NaN : x)) });
+    const m = await readPageMatrix(page);
+    const here = autoSettings(m);
     expect(run.settings).toMatchObject({
       rank: here.settings.rank,
       lambda: here.settings.lambda,
@@ -82,24 +61,8 @@ describe('a first Fill chooses its settings from the data', () => {
 
   it('the Tuning tab suggests the data-derived ranks and λ values', async () => {
     await page.click(tid('tab-tuning'));
-    const m = await page.evaluate(() => {
-      const cur = (
-        window as unknown as {
-          rankfillApp: {
-            store: {
-              current: { rowLabels: string[]; colLabels: string[]; values: Float64Array; scale: PageMatrix['scale'] };
-            };
-          };
-        }
-      ).rankfillApp.store.current;
-      return {
-        rowLabels: cur.rowLabels,
-        colLabels: cur.colLabels,
-        values: Array.from(cur.values, (x) => (Number.isNaN(x) ? null : x)),
-        scale: cur.scale,
-      };
-    });
-    const g = defaultGrid({ ...m, values: Float64Array.from(m.values, (x) => (x === null ? NaN : x)) });
+    const m = await readPageMatrix(page);
+    const g = defaultGrid(m);
     expect(await page.inputValue(tid('tuning-ranks'))).toBe(g.ranks.join(', '));
     expect(await page.inputValue(tid('tuning-lambdas'))).toBe(g.lambdas.join(', '));
     expect(await page.textContent(tid('tuning-grid-note'))).toMatch(/^Suggested from this data: ranks up to \d+/);

@@ -27,6 +27,14 @@ export async function callApi<T = Record<string, unknown>>(
 /** What the page exposes as `window.rankfillApp` for assertions (only the parts tests read). */
 export interface PageWithApp {
   rankfillApp: {
-    store: { title: string; current: { rowLabels: string[]; colLabels: string[]; values: Float64Array } };
+    store: {
+      title: string;
+      current: {
+        rowLabels: string[];
+        colLabels: string[];
+        values: Float64Array;
+        scale: { min: number; max: number; step: number };
+      };
+    };
   };
 }
