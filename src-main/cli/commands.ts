@@ -9,7 +9,7 @@ import { fitModel } from '../../src-shared/engine/fitModel';
 import { FitFailedError } from '../../src-shared/engine/errors';
 import { expandLowRankGrid, type TuneResult } from '../../src-shared/engine/tuning';
 import { tuneDefault } from '../../src-shared/engine/defaultTune';
-import { describeSeedStability, seedStability } from '../../src-shared/engine/seedStability';
+import { describeSeedStability } from '../../src-shared/engine/seedStability';
 import { autoSettings, type AutoChoice } from '../../src-shared/engine/autoSettings';
 import type { FitSettings, ModelFamily } from '../../src-shared/engine/types';
 import { gaussianRefusal } from '../../src-shared/engine/gaussian/fitGaussian';
@@ -34,7 +34,7 @@ import {
 } from '../../src-shared/matrix/sparseRatings';
 import { GAUSSIAN_MAX_VARIABLES } from '../../src-shared/engine/gaussian/limits';
 import type { EnginePool } from '../pool/enginePool';
-import { evaluateOnPool, tuneOnPool } from '../pool/poolJobs';
+import { evaluateOnPool, seedStabilityOnPool, tuneOnPool } from '../pool/poolJobs';
 import { maskPathFor, sidecarPathFor } from '../services/exportPaths';
 import type { CliOptions, FillLayout } from './args';
 import { appVersion } from './version';
@@ -242,14 +242,14 @@ export async function runEvaluate(
   const t0 = performance.now();
   const m = toSparseMatrix(input);
   const level = o.level ?? DEFAULT_INTERVAL_LEVEL;
-  const cv = await evaluateOnPool(pool, m, settings, o.folds, settings.seed, { intervalLevels: [level] });
+  // The folds and seed stability's two fits on all the data (seeds s and s + 1,
+  // engine/seedStability.ts) share the pool: seven tasks on every core.
+  const [cv, stability] = await Promise.all([
+    evaluateOnPool(pool, m, settings, o.folds, settings.seed, { intervalLevels: [level] }),
+    seedStabilityOnPool(pool, m, settings),
+  ]);
   timings.evaluateMs = performance.now() - t0;
   const iv = cv.intervals?.[0];
-  // Two fits on all the data, seeds s and s + 1 (engine/seedStability.ts).
-  const ts = performance.now();
-  // Made dense here only: the comparison covers every filled cell.
-  const stability = seedStability(isSparseMatrix(input) ? toDenseMatrix(input) : input, settings);
-  timings.seedStabilityMs = performance.now() - ts;
   const table = cv.folds.map((f, t) => ({
     fold: t + 1,
     rmse: f.rmse,

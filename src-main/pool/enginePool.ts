@@ -70,13 +70,18 @@ export function runFoldsInProcess(job: FoldJob, shouldStop?: () => boolean): Fol
 
 interface Pending {
   task: PoolTask;
-  fold: number;
-  group: number[];
+  /** Called with the worker's last reply for the task ('done', 'cancelled' or 'failed'). */
+  settle: (m: Exclude<PoolReply, { type: 'progress' }>) => void;
+  progress: () => void;
+  fail: (err: Error) => void;
 }
 
 export class EnginePool {
   readonly size: number;
   private readonly workers: (Worker | undefined)[] = [];
+  private readonly busy: boolean[] = [];
+  /** Tasks of every running job, first come first served: jobs started together share the workers. */
+  private readonly queue: Pending[] = [];
   private nextId = 1;
 
   constructor(
@@ -92,83 +97,103 @@ export class EnginePool {
     return w;
   }
 
+  /** Hands queued tasks to idle workers. */
+  private pump(): void {
+    for (let slot = 0; slot < this.size && this.queue.length > 0; slot++) {
+      if (this.busy[slot]) continue;
+      const next = this.queue.shift()!;
+      this.busy[slot] = true;
+      const w = this.worker(slot);
+      const release = (): void => {
+        w.off('message', onMessage);
+        w.off('error', onError);
+        w.off('exit', onExit);
+        this.busy[slot] = false;
+        this.pump();
+      };
+      const onMessage = (m: PoolReply): void => {
+        if (m.id !== next.task.id) return;
+        if (m.type === 'progress') {
+          next.progress();
+          return;
+        }
+        release();
+        next.settle(m);
+      };
+      const lost = (why: string): void => {
+        this.workers[slot] = undefined;
+        release();
+        next.fail(new Error(`an engine worker stopped unexpectedly (${why})`));
+      };
+      const onError = (err: Error): void => lost(err.message);
+      const onExit = (code: number): void => lost(`exit code ${code}`);
+      w.on('message', onMessage);
+      w.once('error', onError);
+      w.once('exit', onExit);
+      w.postMessage(next.task);
+    }
+  }
+
   /** Runs every (fold, group) task; resolves to outcomes[fold][setting]. */
   runFolds(job: FoldJob, stop: SharedArrayBuffer = new SharedArrayBuffer(4)): Promise<FoldOutcome[][]> {
     const matrix = shareSparse(job.matrix);
     const folds = shareFolds(job.folds);
     const groups = settingGroups(job.settings);
-    const queue: Pending[] = [];
-    for (let f = 0; f < folds.k; f++) {
-      for (const group of groups) {
-        const task: PoolTask = {
-          type: 'task',
-          id: this.nextId++,
-          matrix,
-          folds,
-          fold: f,
-          settings: group.map((t) => job.settings[t]),
-          reuse: job.reuse,
-          keepHeldOut: job.keepHeldOut === true,
-          keepModels: job.keepModels === true,
-          stop,
-        };
-        queue.push({ task, fold: f, group });
-      }
-    }
     const out: FoldOutcome[][] = Array.from({ length: folds.k }, () => new Array<FoldOutcome>(job.settings.length));
     const total = job.settings.length * folds.k;
     let done = 0;
-    let remaining = queue.length;
+    let remaining = folds.k * groups.length;
     return new Promise((resolve, reject) => {
       let failed = false;
+      const mine: Pending[] = [];
       const fail = (err: Error): void => {
         if (failed) return;
         failed = true;
         Atomics.store(new Int32Array(stop), 0, 1);
+        // This job's tasks not yet started are dropped; other jobs' stay queued.
+        for (const p of mine) {
+          const at = this.queue.indexOf(p);
+          if (at >= 0) this.queue.splice(at, 1);
+        }
         reject(err);
-      };
-      const feed = (slot: number): void => {
-        const next = queue.shift();
-        if (!next || failed) return;
-        const w = this.worker(slot);
-        const onMessage = (m: PoolReply): void => {
-          if (m.id !== next.task.id) return;
-          if (m.type === 'progress') {
-            job.onProgress?.(++done, total);
-            return;
-          }
-          w.off('message', onMessage);
-          w.off('error', onError);
-          w.off('exit', onExit);
-          if (m.type === 'done') {
-            m.outcomes.forEach(
-              (o, g) => (out[next.fold][next.group[g]] = 'error' in o ? { error: new Error(o.error) } : o),
-            );
-            remaining--;
-            if (remaining === 0) resolve(out);
-            else feed(slot);
-          } else if (m.type === 'cancelled') fail(new FitCancelledError());
-          else fail(new Error(m.message));
-        };
-        const onError = (err: Error): void => {
-          this.workers[slot] = undefined;
-          fail(new Error(`an engine worker stopped unexpectedly (${err.message})`));
-        };
-        const onExit = (code: number): void => {
-          this.workers[slot] = undefined;
-          fail(new Error(`an engine worker stopped unexpectedly (exit code ${code})`));
-        };
-        w.on('message', onMessage);
-        w.once('error', onError);
-        w.once('exit', onExit);
-        w.postMessage(next.task);
       };
       if (remaining === 0) {
         resolve(out);
         return;
       }
-      const slots = Math.min(this.size, queue.length);
-      for (let slot = 0; slot < slots; slot++) feed(slot);
+      for (let f = 0; f < folds.k; f++) {
+        for (const group of groups) {
+          const task: PoolTask = {
+            type: 'task',
+            id: this.nextId++,
+            matrix,
+            folds,
+            fold: f,
+            settings: group.map((t) => job.settings[t]),
+            reuse: job.reuse,
+            keepHeldOut: job.keepHeldOut === true,
+            keepModels: job.keepModels === true,
+            stop,
+          };
+          const pending: Pending = {
+            task,
+            progress: () => job.onProgress?.(++done, total),
+            fail,
+            settle: (m) => {
+              if (failed) return;
+              if (m.type === 'done') {
+                m.outcomes.forEach((o, g) => (out[f][group[g]] = 'error' in o ? { error: new Error(o.error) } : o));
+                remaining--;
+                if (remaining === 0) resolve(out);
+              } else if (m.type === 'cancelled') fail(new FitCancelledError());
+              else fail(new Error(m.message));
+            },
+          };
+          mine.push(pending);
+          this.queue.push(pending);
+        }
+      }
+      this.pump();
     });
   }
 

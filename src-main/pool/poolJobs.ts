@@ -10,7 +10,9 @@ import {
   scoreOrThrow,
   summarizeFolds,
   type CrossValidationResult,
+  type Folds,
 } from '../../src-shared/engine/crossValidation';
+import { compareSeedModels, type SeedStability } from '../../src-shared/engine/seedStability';
 import type { SparseModel } from '../../src-shared/engine/fitModel';
 import { chooseFromTable, tableFromOutcomes, type TuneResult } from '../../src-shared/engine/tuning';
 import type { FitSettings } from '../../src-shared/engine/types';
@@ -76,4 +78,33 @@ export async function tuneOnPool(
   const outcomes = await run(pool, { matrix, folds, settings: list, reuse });
   const table = tableFromOutcomes(list, outcomes);
   return { k, seed, table, ...chooseFromTable(table, k) };
+}
+
+/**
+ * Seed stability's two fits on all the data (seeds s and s + 1), as two pool jobs of one
+ * task each, so they run beside each other and beside any job started with them. A fold
+ * set where no cell is held out (k = 1, every entry in no fold) makes the fold task fit the
+ * whole matrix: the same fit as fitModelSparse(matrix, settings).
+ */
+export async function seedStabilityOnPool(
+  pool: EnginePool | undefined,
+  matrix: SparseMatrix,
+  settings: FitSettings,
+): Promise<SeedStability> {
+  const s = settings.seed;
+  const whole: Folds = { k: 1, seed: s, foldOf: new Int32Array(matrix.data.n).fill(-1), sizes: [0] };
+  const fitOne = async (seed: number): Promise<SparseModel> => {
+    const [[o]] = await run(pool, {
+      matrix,
+      folds: whole,
+      settings: [{ ...settings, seed }],
+      reuse: false,
+      keepModels: true,
+    });
+    if ('error' in o) throw o.error;
+    if (!o.model) throw new Error('the pool returned no model for the seed-stability fit');
+    return o.model;
+  };
+  const [a, b] = await Promise.all([fitOne(s), fitOne(s + 1)]);
+  return compareSeedModels(matrix.data, matrix.scale, a, b, [s, s + 1]);
 }

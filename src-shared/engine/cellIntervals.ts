@@ -10,7 +10,8 @@
  *   Low-rank family: σ̂ = max(x·β, floor) with β ≥ 0 fitted to |r_c| (intervals.ts) on
  *     x = (1, spread, rowRms, colRms, 1/√(1 + rowSupport), 1/√(1 + colSupport)) where
  *     spread    the fold models' disagreement around the cell: mean ensemble spread over the
- *               blank cells of its row plus that over the blank cells of its column. (A cell's
+ *               blank cells of its row plus that over the blank cells of its column, each
+ *               estimated on up to 64 evenly spaced blank cells of the line (lineSpread.ts). (A cell's
  *               own spread cannot be measured alike for both kinds of cell: a blank cell is
  *               seen by none of the fold models, an observed one by all but one. Used as is,
  *               it over-covered hidden movie ratings by 2.5 points and widened the intervals.)
@@ -26,7 +27,9 @@
  * the layout of the matrix.
  */
 import type { RatingScale } from '../matrix/ratingMatrix';
-import type { ModelFamily } from './types';
+import type { SparseRatings } from '../matrix/sparseRatings';
+import { predictCells } from './predictions';
+import type { ModelFamily, SparseFit } from './types';
 import {
   applyErrorScale,
   fitErrorScale,
@@ -51,33 +54,64 @@ const PRIOR_WEIGHT = 3;
 
 /** Gathers the held-out estimates of the observed cells, one fold fit at a time. */
 export class HeldOutCollector {
-  readonly cells: Int32Array;
-  readonly observed: Float64Array;
-  readonly fold: Int32Array;
   readonly estimate: Float64Array;
   /** Gaussian family: the fold model's conditional sd at its held-out cells. */
   readonly ownSd: Float64Array;
   private models = 0;
 
-  constructor(
-    values: Float64Array,
-    foldOf: Int32Array,
+  private constructor(
+    readonly cells: Int32Array,
+    readonly observed: Float64Array,
+    readonly fold: Int32Array,
     readonly k: number,
+    /** Columns of the matrix: cell c is row ⌊c / cols⌋, column c mod cols. */
+    private readonly cols: number,
   ) {
+    const n = cells.length;
+    this.estimate = new Float64Array(n).fill(NaN);
+    this.ownSd = new Float64Array(n).fill(NaN);
+  }
+
+  /** From a dense row-major array (NaN = missing) and each cell's fold (−1 for a missing one). */
+  static fromDense(values: Float64Array, foldOf: Int32Array, k: number, cols: number): HeldOutCollector {
     let n = 0;
     for (let c = 0; c < foldOf.length; c++) if (foldOf[c] >= 0) n++;
-    this.cells = new Int32Array(n);
-    this.observed = new Float64Array(n);
-    this.fold = new Int32Array(n);
+    const cells = new Int32Array(n);
+    const observed = new Float64Array(n);
+    const fold = new Int32Array(n);
     n = 0;
     for (let c = 0; c < foldOf.length; c++) {
       if (foldOf[c] < 0) continue;
-      this.cells[n] = c;
-      this.observed[n] = values[c];
-      this.fold[n++] = foldOf[c];
+      cells[n] = c;
+      observed[n] = values[c];
+      fold[n++] = foldOf[c];
     }
-    this.estimate = new Float64Array(n).fill(NaN);
-    this.ownSd = new Float64Array(n).fill(NaN);
+    return new HeldOutCollector(cells, observed, fold, k, cols);
+  }
+
+  /** From sparse storage and the folds of its entries (row order): no dense pass. */
+  static fromSparse(data: SparseRatings, foldOf: Int32Array, k: number): HeldOutCollector {
+    const cells = new Int32Array(data.n);
+    for (let i = 0; i < data.rows; i++)
+      for (let p = data.rowPtr[i]; p < data.rowPtr[i + 1]; p++) cells[p] = i * data.cols + data.rowCol[p];
+    return new HeldOutCollector(cells, Float64Array.from(data.rowVal), Int32Array.from(foldOf), k, data.cols);
+  }
+
+  /** Record fold f's low-rank model: its estimates at fold f's cells only. */
+  addFit(f: number, fit: SparseFit, scale: RatingScale): void {
+    const { cells, fold, cols } = this;
+    const at: number[] = [];
+    for (let t = 0; t < cells.length; t++) if (fold[t] === f) at.push(t);
+    const ri = new Int32Array(at.length);
+    const ci = new Int32Array(at.length);
+    for (let s = 0; s < at.length; s++) {
+      const c = cells[at[s]];
+      ri[s] = (c / cols) | 0;
+      ci[s] = c - ri[s] * cols;
+    }
+    const out = predictCells(fit, scale, ri, ci, new Float64Array(at.length));
+    for (let s = 0; s < at.length; s++) this.estimate[at[s]] = out[s];
+    this.models++;
   }
 
   /** Record fold f's model: its predictions (dense) and, when it has one, its own conditional sd (dense). */
@@ -104,17 +138,18 @@ export interface IntervalCalibration {
   /** β of the error model (low-rank), in the order of ERROR_FEATURES; empty for the Gaussian family. */
   coefficients: number[];
   heldOut: HeldOutScores;
-  /** σ̂ for every cell (row-major); NaN on observed cells. */
+  /** σ̂ for every cell (row-major); NaN on observed cells; empty when the view had no values (evaluation only). */
   errorScale: Float64Array;
 }
 
 export interface FullModelView {
   rows: number;
   cols: number;
-  values: Float64Array;
+  /** Dense row-major values (NaN = blank): needed for σ̂ of the blank cells; without it errorScale is empty (evaluation only). */
+  values?: Float64Array;
   family: ModelFamily;
-  /** Ensemble spread of every cell across the fold models (low-rank). */
-  ensembleSpread?: Float64Array;
+  /** Mean ensemble spread over each row's and column's blank cells (lineSpread.ts; low-rank). */
+  lineSpread?: { rowSpread: Float64Array; colSpread: Float64Array };
   /** The full model's own conditional sd (Gaussian); without it σ̂ of blank cells stays NaN. */
   ownSpread?: Float64Array;
 }
@@ -169,35 +204,6 @@ function margins(h: HeldOutCollector, rows: number, cols: number): Margins {
   return m;
 }
 
-/** Mean ensemble spread over each row's and each column's blank cells (0 where there are none). */
-function blankSpread(
-  full: FullModelView,
-  rows: number,
-  cols: number,
-): { rowSpread: Float64Array; colSpread: Float64Array } {
-  const rowSpread = new Float64Array(rows);
-  const colSpread = new Float64Array(cols);
-  const spread = full.ensembleSpread;
-  if (!spread) return { rowSpread, colSpread };
-  const colN = new Int32Array(cols);
-  for (let i = 0; i < rows; i++) {
-    let s = 0;
-    let m = 0;
-    for (let j = 0; j < cols; j++) {
-      const c = i * cols + j;
-      if (full.values[c] === full.values[c]) continue;
-      const v = spread[c];
-      s += v;
-      m++;
-      colSpread[j] += v;
-      colN[j]++;
-    }
-    rowSpread[i] = m > 0 ? s / m : 0;
-  }
-  for (let j = 0; j < cols; j++) colSpread[j] = colN[j] > 0 ? colSpread[j] / colN[j] : 0;
-  return { rowSpread, colSpread };
-}
-
 const shrunkRms = (sq: number, count: number, meanSq: number): number =>
   Math.sqrt((sq + PRIOR_WEIGHT * meanSq) / (count + PRIOR_WEIGHT));
 
@@ -208,7 +214,8 @@ export function calibrateIntervals(h: HeldOutCollector, full: FullModelView): In
   const n = h.cells.length;
   const k = h.k;
   const sigma = new Float64Array(n);
-  const errorScale = new Float64Array(rows * cols).fill(NaN);
+  const values = full.values;
+  const errorScale = new Float64Array(values ? rows * cols : 0).fill(NaN);
   const absR = new Float64Array(n);
   let meanAbs = 0;
   for (let t = 0; t < n; t++) {
@@ -226,7 +233,7 @@ export function calibrateIntervals(h: HeldOutCollector, full: FullModelView): In
     }
     const own = full.ownSpread ?? errorScale;
     for (let c = 0; c < errorScale.length; c++) {
-      if (full.values[c] === full.values[c]) continue;
+      if (values![c] === values![c]) continue;
       const s = own[c];
       errorScale[c] = s > floor ? s : Number.isFinite(s) ? floor : NaN;
     }
@@ -234,7 +241,8 @@ export function calibrateIntervals(h: HeldOutCollector, full: FullModelView): In
   }
 
   const mg = margins(h, rows, cols);
-  const { rowSpread, colSpread } = blankSpread(full, rows, cols);
+  const rowSpread = full.lineSpread?.rowSpread ?? new Float64Array(rows);
+  const colSpread = full.lineSpread?.colSpread ?? new Float64Array(cols);
   const x = new Float64Array(n * P);
   for (let t = 0; t < n; t++) {
     const c = h.cells[t];
@@ -266,12 +274,12 @@ export function calibrateIntervals(h: HeldOutCollector, full: FullModelView): In
       b[1] * colSpread[j] +
       b[3] * shrunkRms(mg.colSq[j], mg.colCount[j], mg.meanSq) +
       b[5] / Math.sqrt(1 + (mg.colSupport[j] * (k - 1)) / k);
-  for (let i = 0; i < rows; i++) {
+  for (let i = 0; values && i < rows; i++) {
     const base = i * cols;
     const ri = b[0] + rowPart[i];
     for (let j = 0; j < cols; j++) {
       const c = base + j;
-      if (full.values[c] === full.values[c]) continue;
+      if (values[c] === values[c]) continue;
       const v = ri + colPart[j];
       errorScale[c] = v > model.floor ? v : model.floor;
     }

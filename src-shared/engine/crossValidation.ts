@@ -24,12 +24,11 @@ import type { RatingMatrix } from '../matrix/ratingMatrix';
 import { toSparseMatrix, type SparseMatrix } from '../matrix/sparseRatings';
 import type { FitProgress, FitSettings } from './types';
 import { createRng, shuffleInPlace } from './random';
-import { calibrateIntervals, EnsembleSpread, HeldOutCollector } from './cellIntervals';
+import { calibrateIntervals, HeldOutCollector } from './cellIntervals';
+import { LineSpreadSample } from './lineSpread';
 import { summarizeLevel, type LevelSummary } from './intervals';
 import { runFoldTask, type FoldOutcome } from './foldTask';
 import type { SparseModel } from './fitModel';
-import { denseValues } from '../matrix/sparseRatings';
-import { predictRow } from './predictions';
 
 export interface Folds {
   k: number;
@@ -203,8 +202,9 @@ export function scoreOrThrow(o: FoldOutcome): FoldScore {
 
 /**
  * Interval coverage and width on the folds (cellIntervals.ts), from the k fold models: each
- * model's estimate of every cell is made row by row into one dense buffer (the ensemble
- * spread needs every cell), then the calibration runs as documented there.
+ * low-rank model predicts only its own held-out cells and the sampled blank cells of
+ * lineSpread.ts (a Gaussian model's dense predictions are read at its held-out cells), then
+ * the calibration runs as documented there.
  */
 export function foldIntervals(
   matrix: RatingMatrix | SparseMatrix,
@@ -215,24 +215,22 @@ export function foldIntervals(
 ): CrossValidationResult['intervals'] {
   const m = toSparseMatrix(matrix);
   const { rows, cols } = m.data;
-  const values = 'values' in matrix ? matrix.values : denseValues(m.data);
-  const heldOut = new HeldOutCollector(values, cellFolds(m, folds), folds.k);
-  const ensemble = settings.model === 'lowrank' ? new EnsembleSpread(values.length) : undefined;
-  const dense = new Float64Array(rows * cols);
+  // Observed cells only: each fold model predicts its own held-out cells and a sample of
+  // blank cells per line (lineSpread.ts); nothing here is rows × cols.
+  const heldOut = HeldOutCollector.fromSparse(m.data, folds.foldOf, folds.k);
+  const lines = settings.model === 'lowrank' ? new LineSpreadSample(m.data) : undefined;
+  const dense = models.some((x) => 'predictions' in x) ? new Float64Array(rows * cols) : undefined;
   models.forEach((model, f) => {
-    if ('predictions' in model) dense.set(model.predictions);
-    else for (let i = 0; i < rows; i++) predictRow(model, m.scale, i, dense.subarray(i * cols, (i + 1) * cols));
-    heldOut.add(f, dense, 'spread' in model ? model.spread : undefined);
-    ensemble?.add(dense);
+    if ('predictions' in model) {
+      dense!.set(model.predictions);
+      heldOut.add(f, dense!, model.spread);
+    } else {
+      heldOut.addFit(f, model, m.scale);
+      lines?.add(model, m.scale);
+    }
   });
   if (!heldOut.complete) return undefined;
-  const cal = calibrateIntervals(heldOut, {
-    rows,
-    cols,
-    values,
-    family: settings.model,
-    ensembleSpread: ensemble?.spread(),
-  });
+  const cal = calibrateIntervals(heldOut, { rows, cols, family: settings.model, lineSpread: lines?.result() });
   return levels.map((level) => ({
     level,
     normalized: summarizeLevel(cal.heldOut, level, m.scale, true),

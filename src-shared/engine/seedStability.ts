@@ -11,7 +11,10 @@
  * The result rests on the start — and is flagged — when fraction > 1 %: then more than one
  * filled cell in a hundred changes by more than rounding to the scale would hide.
  */
-import type { RatingMatrix } from '../matrix/ratingMatrix';
+import type { RatingMatrix, RatingScale } from '../matrix/ratingMatrix';
+import type { SparseRatings } from '../matrix/sparseRatings';
+import { predictRow } from './predictions';
+import type { SparseModel } from './fitModel';
 import type { FitSettings } from './types';
 import { fitModel } from './fitModel';
 
@@ -56,6 +59,60 @@ export function compareSeedFits(
     sum += d;
     if (d > maxMove) maxMove = d;
     if (d > threshold) moved++;
+  }
+  const movedFraction = cells > 0 ? moved / cells : 0;
+  return {
+    seeds,
+    cells,
+    threshold,
+    moved,
+    movedFraction,
+    maxMove,
+    meanMove: cells > 0 ? sum / cells : 0,
+    flagged: movedFraction > SEED_MOVE_SHARE,
+  };
+}
+
+/**
+ * The same comparison from two fitted models on sparse storage: each model predicts one row
+ * at a time into a reused buffer, read at the row's blank cells only (no dense matrix).
+ */
+export function compareSeedModels(
+  data: SparseRatings,
+  scale: RatingScale,
+  a: SparseModel,
+  b: SparseModel,
+  seeds: [number, number],
+): SeedStability {
+  const threshold = moveThreshold(scale);
+  const { rows, cols } = data;
+  const ra = new Float64Array(cols);
+  const rb = new Float64Array(cols);
+  const row = (model: SparseModel, i: number, out: Float64Array): void => {
+    if ('predictions' in model) out.set(model.predictions.subarray(i * cols, (i + 1) * cols));
+    else predictRow(model, scale, i, out);
+  };
+  let cells = 0;
+  let moved = 0;
+  let maxMove = 0;
+  let sum = 0;
+  for (let i = 0; i < rows; i++) {
+    row(a, i, ra);
+    row(b, i, rb);
+    let p = data.rowPtr[i];
+    const end = data.rowPtr[i + 1];
+    for (let j = 0; j < cols; j++) {
+      if (p < end && data.rowCol[p] === j) {
+        p++;
+        continue;
+      }
+      const d = Math.abs(ra[j] - rb[j]);
+      if (!Number.isFinite(d)) continue;
+      cells++;
+      sum += d;
+      if (d > maxMove) maxMove = d;
+      if (d > threshold) moved++;
+    }
   }
   const movedFraction = cells > 0 ? moved / cells : 0;
   return {

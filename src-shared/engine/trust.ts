@@ -26,6 +26,7 @@ import { cellFolds, makeFolds } from './crossValidation';
 import { predictRow } from './predictions';
 import { createRng } from './random';
 import { calibrateIntervals, EnsembleSpread, HeldOutCollector, type IntervalCalibration } from './cellIntervals';
+import { LineSpreadSample } from './lineSpread';
 
 export type TrustOptions =
   { method: 'folds'; k: number; seed: number } | { method: 'bootstrap'; B: number; seed: number };
@@ -103,7 +104,8 @@ export function cellTrust(
   const rng = createRng(options.seed);
   const drawn = new Int32Array(n);
   const values = folds && progress.full ? (isSparseMatrix(matrix) ? denseValues(data) : matrix.values) : undefined;
-  const heldOut = folds && values ? new HeldOutCollector(values, cellFolds(sm, folds), folds.k) : undefined;
+  const heldOut = folds && values ? HeldOutCollector.fromDense(values, cellFolds(sm, folds), folds.k, cols) : undefined;
+  const lines = heldOut && settings.model === 'lowrank' ? new LineSpreadSample(data) : undefined;
   // One dense buffer for a member's predictions, filled row by row (the spread is per cell anyway).
   const p = new Float64Array(rows * cols);
   for (let e = 0; e < m; e++) {
@@ -119,6 +121,7 @@ export function cellTrust(
     if ('predictions' in fit) p.set(fit.predictions);
     else for (let i = 0; i < rows; i++) predictRow(fit, sm.scale, i, p.subarray(i * cols, (i + 1) * cols));
     heldOut?.add(e, p, 'spread' in fit ? fit.spread : undefined);
+    if (!('predictions' in fit)) lines?.add(fit, sm.scale);
     ensemble.add(p);
     progress.onProgress?.({ done: e + 1, total: m });
   }
@@ -130,7 +133,7 @@ export function cellTrust(
           cols,
           values,
           family: settings.model,
-          ensembleSpread: spread,
+          lineSpread: lines?.result(),
           ownSpread: progress.full.spread,
         })
       : undefined;

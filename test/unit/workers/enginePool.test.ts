@@ -3,7 +3,8 @@ import { Worker } from 'node:worker_threads';
 import { createRequire } from 'node:module';
 import { fileURLToPath } from 'node:url';
 import { EnginePool, runFoldsInProcess, settingGroups } from '../../../src-main/pool/enginePool';
-import { evaluateOnPool, tuneOnPool } from '../../../src-main/pool/poolJobs';
+import { evaluateOnPool, seedStabilityOnPool, tuneOnPool } from '../../../src-main/pool/poolJobs';
+import { seedStability } from '../../../src-shared/engine/seedStability';
 import { crossValidate, makeFolds } from '../../../src-shared/engine/crossValidation';
 import { expandLowRankGrid, tune } from '../../../src-shared/engine/tuning';
 import { defaultLowRankSettings } from '../../../src-shared/engine/defaults';
@@ -78,5 +79,19 @@ describe('engine pool', () => {
     const r = await tuneOnPool(pool(2), m, [bad, good], 3, 1);
     expect(r.table[0].error).toMatch(/lambda must be/);
     expect(Number.isFinite(r.table[1].meanRmse)).toBe(true);
+  });
+
+  it('seed stability on the pool (two jobs sharing the workers, beside an evaluation) equals two fits in this thread', async () => {
+    // Common practice, no source: a fit must not depend on where it runs; the reference is
+    // seedStability() on the dense matrix, which fits each seed with fitModel.
+    const settings = { ...defaultLowRankSettings(), rank: 3, lambda: 1, maxIterations: 20 };
+    const expected = seedStability(matrix, settings);
+    const p = pool(2);
+    const [cv, onPool] = await Promise.all([evaluateOnPool(p, m, settings, 4, 9), seedStabilityOnPool(p, m, settings)]);
+    expect(onPool).toEqual(expected);
+    expect(await seedStabilityOnPool(undefined, m, settings)).toEqual(expected);
+    expect(cv.meanRmse).toBe(crossValidate(m, settings, makeFolds(m, 4, 9)).meanRmse);
+    expect(expected.cells).toBe(matrix.values.filter((x) => Number.isNaN(x)).length);
+    expect(expected.maxMove).toBeGreaterThan(0);
   });
 });
