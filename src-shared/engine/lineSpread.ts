@@ -17,7 +17,7 @@ import { predictCells } from './predictions';
 import type { SparseFit } from './types';
 
 /** Blank cells sampled per row and per column. */
-export const LINE_SAMPLE = 64;
+const LINE_SAMPLE = 64;
 
 /** Up to `s` evenly spaced blank positions among `length`, skipping the sorted observed ones. */
 function sampleBlanks(observed: Int32Array, from: number, to: number, length: number, s: number, out: number[]): void {
