@@ -219,12 +219,9 @@ export function foldIntervals(
   // blank cells per line (lineSpread.ts); nothing here is rows × cols.
   const heldOut = HeldOutCollector.fromSparse(m.data, folds.foldOf, folds.k);
   const lines = settings.model === 'lowrank' ? new LineSpreadSample(m.data) : undefined;
-  const dense = models.some((x) => 'predictions' in x) ? new Float64Array(rows * cols) : undefined;
   models.forEach((model, f) => {
-    if ('predictions' in model) {
-      dense!.set(model.predictions);
-      heldOut.add(f, dense!, model.spread);
-    } else {
+    if ('predictions' in model) heldOut.add(f, model.predictions, model.spread);
+    else {
       heldOut.addFit(f, model, m.scale);
       lines?.add(model, m.scale);
     }
