@@ -24,7 +24,6 @@
  */
 import { z } from 'zod';
 import { fitSettingsSchema, scaleSchema } from '../api';
-import { isOnStep, scaleRefusal } from '../matrix/scaleCheck';
 
 export const PROJECT_FORMAT_TAG = 'rankfill-project';
 export const PROJECT_FORMAT_VERSION = 2;
@@ -97,14 +96,6 @@ const projectMatrixSchema = z
             code: 'custom',
             path: ['values', i, j],
             message: `value ${x} is outside the project's scale ${min} to ${max}`,
-          });
-        } else if (x !== null && !isOnStep(x, m.scale)) {
-          // Same rule as typing, paste and import (scaleCheck.ts): never rounded, refused.
-          outside++;
-          ctx.addIssue({
-            code: 'custom',
-            path: ['values', i, j],
-            message: `value at row "${m.rowLabels[i]}", column "${m.colLabels[j] ?? j + 1}": ${scaleRefusal(x, m.scale)}`,
           });
         }
       }

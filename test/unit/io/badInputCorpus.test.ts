@@ -127,12 +127,6 @@ const EXPECTED: [string, string][] = [
     "outside-scale.rankfill:12:10: matrix.values[1][1]: value 99 is outside the project's scale 1 to 9",
   ],
   [
-    // Off the scale's step (scale 1–9 in steps of 1): refused by the same rule as typing and
-    // import (src-shared/matrix/scaleCheck.ts), never rounded. Source: the fixture's own bytes.
-    'off-step.rankfill',
-    'off-step.rankfill:12:10: matrix.values[1][1]: value at row "bob", column "beta": 4.4 lies between the allowed values 4 and 5 (scale 1–9 in steps of 1); enter one of them or change the scale\'s step',
-  ],
-  [
     'bad-date.rankfill',
     'bad-date.rankfill:4:16: createdAt: not a valid time (expected ISO-8601 with a zone, e.g. 2026-01-31T12:00:00.000Z)',
   ],
