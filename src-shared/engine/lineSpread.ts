@@ -61,23 +61,20 @@ export class LineSpreadSample {
     const ri: number[] = [];
     const rc: number[] = [];
     const picks: number[] = [];
-    for (let i = 0; i < data.rows; i++) {
-      picks.length = 0;
-      sampleBlanks(data.rowCol, data.rowPtr[i], data.rowPtr[i + 1], data.cols, perLine, picks);
-      for (const j of picks) {
-        ri.push(i);
-        rc.push(j);
+    // Rows' blank columns, then columns' blank rows: the same walk over either compressed side.
+    const sampleSide = (ptr: Int32Array, idx: Int32Array, lines: number, length: number, byRow: boolean): void => {
+      for (let line = 0; line < lines; line++) {
+        picks.length = 0;
+        sampleBlanks(idx, ptr[line], ptr[line + 1], length, perLine, picks);
+        for (const x of picks) {
+          ri.push(byRow ? line : x);
+          rc.push(byRow ? x : line);
+        }
       }
-    }
+    };
+    sampleSide(data.rowPtr, data.rowCol, data.rows, data.cols, true);
     this.rowCells = ri.length;
-    for (let j = 0; j < data.cols; j++) {
-      picks.length = 0;
-      sampleBlanks(data.colRow, data.colPtr[j], data.colPtr[j + 1], data.rows, perLine, picks);
-      for (const i of picks) {
-        ri.push(i);
-        rc.push(j);
-      }
-    }
+    sampleSide(data.colPtr, data.colRow, data.cols, data.rows, false);
     this.rowIdx = Int32Array.from(ri);
     this.colIdx = Int32Array.from(rc);
     this.mean = new Float64Array(ri.length);

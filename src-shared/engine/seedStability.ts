@@ -38,6 +38,40 @@ export function moveThreshold(scale: RatingMatrix['scale']): number {
   return scale.step > 0 ? scale.step / 2 : (scale.max - scale.min) / 20;
 }
 
+/** The counts of the header formula over the filled cells, one cell at a time. */
+class MoveTally {
+  private cells = 0;
+  private moved = 0;
+  private maxMove = 0;
+  private sum = 0;
+
+  constructor(private readonly threshold: number) {}
+
+  add(a: number, b: number): void {
+    const d = Math.abs(a - b);
+    if (!Number.isFinite(d)) return;
+    this.cells++;
+    this.sum += d;
+    if (d > this.maxMove) this.maxMove = d;
+    if (d > this.threshold) this.moved++;
+  }
+
+  result(seeds: [number, number]): SeedStability {
+    const { cells, moved, threshold } = this;
+    const movedFraction = cells > 0 ? moved / cells : 0;
+    return {
+      seeds,
+      cells,
+      threshold,
+      moved,
+      movedFraction,
+      maxMove: this.maxMove,
+      meanMove: cells > 0 ? this.sum / cells : 0,
+      flagged: movedFraction > SEED_MOVE_SHARE,
+    };
+  }
+}
+
 /** Compare two fits' predictions over the matrix's missing cells. */
 export function compareSeedFits(
   matrix: RatingMatrix,
@@ -47,30 +81,9 @@ export function compareSeedFits(
 ): SeedStability {
   const threshold = moveThreshold(matrix.scale);
   const v = matrix.values;
-  let cells = 0;
-  let moved = 0;
-  let maxMove = 0;
-  let sum = 0;
-  for (let c = 0; c < v.length; c++) {
-    if (v[c] === v[c]) continue;
-    const d = Math.abs(a[c] - b[c]);
-    if (!Number.isFinite(d)) continue;
-    cells++;
-    sum += d;
-    if (d > maxMove) maxMove = d;
-    if (d > threshold) moved++;
-  }
-  const movedFraction = cells > 0 ? moved / cells : 0;
-  return {
-    seeds,
-    cells,
-    threshold,
-    moved,
-    movedFraction,
-    maxMove,
-    meanMove: cells > 0 ? sum / cells : 0,
-    flagged: movedFraction > SEED_MOVE_SHARE,
-  };
+  const tally = new MoveTally(threshold);
+  for (let c = 0; c < v.length; c++) if (v[c] !== v[c]) tally.add(a[c], b[c]);
+  return tally.result(seeds);
 }
 
 /**
@@ -92,10 +105,7 @@ export function compareSeedModels(
     if ('predictions' in model) out.set(model.predictions.subarray(i * cols, (i + 1) * cols));
     else predictRow(model, scale, i, out);
   };
-  let cells = 0;
-  let moved = 0;
-  let maxMove = 0;
-  let sum = 0;
+  const tally = new MoveTally(threshold);
   for (let i = 0; i < rows; i++) {
     row(a, i, ra);
     row(b, i, rb);
@@ -106,25 +116,10 @@ export function compareSeedModels(
         p++;
         continue;
       }
-      const d = Math.abs(ra[j] - rb[j]);
-      if (!Number.isFinite(d)) continue;
-      cells++;
-      sum += d;
-      if (d > maxMove) maxMove = d;
-      if (d > threshold) moved++;
+      tally.add(ra[j], rb[j]);
     }
   }
-  const movedFraction = cells > 0 ? moved / cells : 0;
-  return {
-    seeds,
-    cells,
-    threshold,
-    moved,
-    movedFraction,
-    maxMove,
-    meanMove: cells > 0 ? sum / cells : 0,
-    flagged: movedFraction > SEED_MOVE_SHARE,
-  };
+  return tally.result(seeds);
 }
 
 /** Fit with seed s and s + 1 and compare (`first` may pass an existing seed-s fit's predictions). */
